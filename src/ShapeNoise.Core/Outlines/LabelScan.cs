@@ -1,0 +1,57 @@
+using ShapeNoise.Reading;
+
+namespace ShapeNoise.Outlines;
+
+/// <summary>Bounding box and pixel count of one label in one frame (inclusive pixel bounds).</summary>
+public readonly record struct LabelBox(int Label, int MinX, int MinY, int MaxX, int MaxY, int PixelCount);
+
+/// <summary>One pass over a frame: every label's bounding box and pixel count, and a dense index image
+/// (0 = background, i + 1 = the i-th label in <see cref="Boxes"/>).</summary>
+public sealed class LabelScan
+{
+    public LabelBox[] Boxes { get; }
+    public int[] DenseImage { get; }
+    public int Width { get; }
+    public int Height { get; }
+
+    private LabelScan(LabelBox[] boxes, int[] dense, int w, int h) { Boxes = boxes; DenseImage = dense; Width = w; Height = h; }
+
+    /// <summary>Scans <paramref name="frame"/> once. Labels are numbered densely in order of first appearance in raster order.</summary>
+    public static LabelScan Of(LabelFrame frame)
+    {
+        int w = frame.Width, h = frame.Height;
+        var labels = frame.Labels;
+        var dense = new int[labels.Length];
+        var slot = new Dictionary<int, int>();
+        var minX = new List<int>(); var minY = new List<int>(); var maxX = new List<int>(); var maxY = new List<int>();
+        var count = new List<int>(); var ids = new List<int>();
+        int lastLabel = 0, lastSlot = -1;
+        for (int y = 0; y < h; y++)
+        {
+            int row = y * w;
+            for (int x = 0; x < w; x++)
+            {
+                int l = labels[row + x];
+                if (l == 0) continue;
+                int s;
+                if (l == lastLabel) s = lastSlot;
+                else
+                {
+                    if (!slot.TryGetValue(l, out s))
+                    {
+                        s = ids.Count; slot[l] = s; ids.Add(l);
+                        minX.Add(x); maxX.Add(x); minY.Add(y); maxY.Add(y); count.Add(0);
+                    }
+                    lastLabel = l; lastSlot = s;
+                }
+                dense[row + x] = s + 1;
+                count[s]++;
+                if (x < minX[s]) minX[s] = x; else if (x > maxX[s]) maxX[s] = x;
+                maxY[s] = y;
+            }
+        }
+        var boxes = new LabelBox[ids.Count];
+        for (int i = 0; i < boxes.Length; i++) boxes[i] = new LabelBox(ids[i], minX[i], minY[i], maxX[i], maxY[i], count[i]);
+        return new LabelScan(boxes, dense, w, h);
+    }
+}

@@ -1,0 +1,44 @@
+using ShapeNoise.Outlines;
+
+namespace ShapeNoise.Pipeline;
+
+/// <summary>Options of <c>analyze</c>; validated on construction. Defaults are the spec's.</summary>
+public sealed record AnalysisOptions
+{
+    /// <summary>Rays per outline, M (multiple of 8, at least 16).</summary>
+    public int Rays { get; init; } = 64;
+    /// <summary>Objects with fewer pixels are excluded (spec: --min-area, 30 px).</summary>
+    public int MinAreaPx { get; init; } = 30;
+    /// <summary>Objects within this many px of the image edge are excluded (spec: 1 px).</summary>
+    public int BorderMarginPx { get; init; } = 1;
+    /// <summary>Only tracks with at least this many frames enter the statistics (spec: --min-track, 10).</summary>
+    public int MinTrackFrames { get; init; } = 10;
+    /// <summary>Outline placement.</summary>
+    public OutlineMethod Outline { get; init; } = OutlineMethod.Midpoint;
+    /// <summary>Overlap fraction that makes two masks in consecutive frames candidates for the same cell.</summary>
+    public double LinkOverlapFraction { get; init; } = 0.25;
+    /// <summary>Pixel size (um/px) used when the movie's metadata has none.</summary>
+    public double? PixelSizeUm { get; init; }
+    /// <summary>Frame interval (min) used when the movie's metadata has none.</summary>
+    public double? FrameIntervalMin { get; init; }
+    /// <summary>Bootstrap resamples over tracks.</summary>
+    public int BootstrapResamples { get; init; } = 1000;
+    /// <summary>Seed of every random resample.</summary>
+    public int Seed { get; init; } = 1;
+    /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
+    public string? FloorFrom { get; init; }
+
+    /// <summary>Throws <see cref="ArgumentException"/> naming the option when a value is out of range.</summary>
+    public AnalysisOptions Validated()
+    {
+        if (Rays < 16 || Rays % 8 != 0) throw new ArgumentException($"--rays must be a multiple of 8 and at least 16 (got {Rays})");
+        if (MinAreaPx < 3) throw new ArgumentException($"--min-area must be at least 3 px (got {MinAreaPx})");
+        if (BorderMarginPx < 0) throw new ArgumentException($"--border-margin must be >= 0 (got {BorderMarginPx})");
+        if (MinTrackFrames < 3) throw new ArgumentException($"--min-track must be at least 3 frames (got {MinTrackFrames})");
+        if (LinkOverlapFraction is <= 0 or > 1) throw new ArgumentException($"--link-overlap must be in (0, 1] (got {LinkOverlapFraction})");
+        if (PixelSizeUm is { } s && !(s > 0 && double.IsFinite(s))) throw new ArgumentException($"--pixel-size must be a positive number (got {s})");
+        if (FrameIntervalMin is { } t && !(t > 0 && double.IsFinite(t))) throw new ArgumentException($"--frame-interval must be a positive number (got {t})");
+        if (BootstrapResamples < 0) throw new ArgumentException($"--bootstrap must be >= 0 (got {BootstrapResamples})");
+        return this;
+    }
+}

@@ -1,0 +1,203 @@
+using System.Numerics;
+using ShapeNoise.Fluctuations;
+using ShapeNoise.Outlines;
+using ShapeNoise.Reading;
+using ShapeNoise.Shape;
+using ShapeNoise.Statistics;
+using ShapeNoise.Tracking;
+
+namespace ShapeNoise.Pipeline;
+
+/// <summary>Label movie in, per-outline, per-track and pooled fluctuation measures out (spec sections 1-3).</summary>
+public static class MovieAnalyzer
+{
+    /// <summary>Progress: frames done of total.</summary>
+    public readonly record struct Progress(int FramesDone, int FramesTotal);
+
+    /// <summary>Runs outlines, shape, tracking and fluctuations over <paramref name="movie"/>, one frame at a time.</summary>
+    public static AnalysisResult Run(ILabelMovie movie, AnalysisOptions options, IProgress<Progress>? progress = null,
+        NoiseFloorReference? floorReference = null)
+    {
+        options.Validated();
+        var info = movie.Info;
+        if (info.FrameCount < 2)
+            throw new InputException(info.Path, $"has {info.FrameCount} frame(s); fluctuations need a movie of at least 2 frames (and tracks of --min-track {options.MinTrackFrames})");
+        if (floorReference is not null && floorReference.Rays != options.Rays)
+            throw new InputException(options.FloorFrom ?? "--floor-from", $"floor was measured with {floorReference.Rays} rays, this run uses {options.Rays}");
+        var warnings = new List<string>();
+        var units = ResolveUnits(info, options, warnings);
+
+        int m = options.Rays, nm = m / 2 + 1;
+        var builder = new TrackBuilder(m, options.MinTrackFrames);
+        var cells = new List<CellRecord>();
+        LabelScan? prevScan = null;
+        int[]? prevSlot = null; // active-track slot of each object of the previous frame, or -1
+        int objects = 0, border = 0, small = 0, nonStar = 0, divisions = 0, merges = 0, frames = 0;
+        var rho = new double[m];
+        foreach (var frame in movie.Frames())
+        {
+            if (frame.Width != info.Width || frame.Height != info.Height)
+                throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
+            var scan = LabelScan.Of(frame);
+            if (scan.Boxes.Length == 0)
+                throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
+            objects += scan.Boxes.Length;
+            var outlines = new Outline[scan.Boxes.Length];
+            Parallel.For(0, outlines.Length, i =>
+                outlines[i] = OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[i], i + 1,
+                    options.Outline, options.BorderMarginPx, options.MinAreaPx));
+
+            FrameLinks? links = prevScan is null ? null
+                : OverlapLinking.Link(prevScan.DenseImage, PixelCounts(prevScan), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction);
+            var slot = new int[outlines.Length];
+            Array.Fill(slot, -1);
+            var continued = prevSlot is null ? null : new bool[prevSlot.Length];
+            for (int i = 0; i < outlines.Length; i++)
+            {
+                var o = outlines[i];
+                if (o.Status == OutlineStatus.Border) { border++; continue; }
+                if (o.Status == OutlineStatus.Small) { small++; continue; }
+                var shape = ShapeMeasures.Of(o.Vertices);
+                bool star = RadialFunction.Sample(o.Vertices, new Point2(shape.CentroidX, shape.CentroidY), shape.ThetaRad, rho);
+                if (!star) nonStar++;
+                int a = links is null ? -1 : links.Predecessor[i];
+                int s = a >= 0 && prevSlot![a] >= 0 ? prevSlot[a] : -1;
+                if (s >= 0) continued![a] = true;
+                var (trackSlot, thetaCont, modes) = builder.Append(s, frame.Index, shape, rho);
+                slot[i] = trackSlot;
+                cells.Add(new CellRecord(frame.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star,
+                    modes[0].Real, 2 * modes[2].Magnitude, o.Vertices.Length));
+            }
+            if (links is not null)
+            {
+                divisions += links.Divisions; merges += links.Merges;
+                for (int a = 0; a < prevSlot!.Length; a++)
+                {
+                    if (prevSlot[a] < 0 || continued![a]) continue;
+                    int b = links.Successor[a];
+                    var why = links.Divided[a] ? TrackEnd.Division
+                        : b >= 0 && links.Merged[b] ? TrackEnd.Merge
+                        : b >= 0 && outlines[b].Status == OutlineStatus.Border ? TrackEnd.Border
+                        : b >= 0 && outlines[b].Status == OutlineStatus.Small ? TrackEnd.Small
+                        : TrackEnd.Lost;
+                    builder.End(prevSlot[a], why);
+                }
+            }
+            prevScan = scan; prevSlot = slot;
+            frames++;
+            progress?.Report(new Progress(frames, info.FrameCount));
+        }
+        if (frames < 2)
+            throw new InputException(info.Path, $"has {frames} frame(s); fluctuations need a movie of at least 2 frames");
+        builder.EndAll(TrackEnd.MovieEnd);
+        var tracks = builder.Finished;
+        tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
+
+        // Cells carry the final track ids; mark which tracks are used.
+        var pooled = Pool(tracks, m, options, floorReference);
+        int used = 0, below = 0;
+        foreach (var t in tracks)
+        {
+            if (!t.Used) continue;
+            used++;
+            if (t.Contour is { } c && (c.VarAlongRaw - FloorAlongOf(c, floorReference) <= 0 || c.VarAcrossRaw - FloorAcrossOf(c, floorReference) <= 0)) below++;
+        }
+        double meanArea = 0; int nArea = 0;
+        foreach (var c in cells) { meanArea += c.Shape.AreaPx2; nArea++; }
+        double r0 = nArea > 0 ? Math.Sqrt(meanArea / nArea / Math.PI) : double.NaN;
+        if (used == 0) warnings.Add($"no track reached --min-track {options.MinTrackFrames} frames: pooled values are undefined");
+        else if (used < 10) warnings.Add($"only {used} tracks enter the statistics: intervals are wide");
+        if (nArea > 0 && nonStar > 0.1 * nArea) warnings.Add($"{nonStar} of {nArea} outlines are not star-shaped about their centroid: the radial function takes the farthest crossing");
+        if (used > 0 && below > 0.25 * used) warnings.Add($"{below} of {used} tracks have contour fluctuations below the noise floor");
+        var counts = new AnalysisCounts(frames, objects, nArea, border, small, nonStar, tracks.Count, used, below, divisions, merges);
+        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings);
+    }
+
+    private static int[] PixelCounts(LabelScan s)
+    {
+        var c = new int[s.Boxes.Length];
+        for (int i = 0; i < c.Length; i++) c[i] = s.Boxes[i].PixelCount;
+        return c;
+    }
+
+    /// <summary>Pixel size and frame interval: metadata first, then options, else px and frames (spec section 0).</summary>
+    public static Units ResolveUnits(MovieInfo info, AnalysisOptions o, List<string> warnings)
+    {
+        double? s = info.PixelSizeUm; string ss = "metadata";
+        if (s is not null && o.PixelSizeUm is { } os && Math.Abs(os - s.Value) > 1e-9 * s.Value)
+            warnings.Add($"--pixel-size {os} ignored: the movie's metadata says {s} um/px");
+        if (s is null) { s = o.PixelSizeUm; ss = s is null ? "unknown" : "option"; }
+        double? t = info.FrameIntervalMin; string ts = "metadata";
+        if (t is not null && o.FrameIntervalMin is { } ot && Math.Abs(ot - t.Value) > 1e-9 * t.Value)
+            warnings.Add($"--frame-interval {ot} ignored: the movie's metadata says {t} min");
+        if (t is null) { t = o.FrameIntervalMin; ts = t is null ? "unknown" : "option"; }
+        if (s is null) warnings.Add("pixel size unknown (no metadata, no --pixel-size): lengths are in px");
+        if (t is null) warnings.Add("frame interval unknown (no metadata, no --frame-interval): times are in frames");
+        return new Units(s, ss, t, ts);
+    }
+
+    internal static double FloorAlongOf(TrackContour c, NoiseFloorReference? r) => r?.VarAlongPx2 ?? c.FloorAlong;
+    internal static double FloorAcrossOf(TrackContour c, NoiseFloorReference? r) => r?.VarAcrossPx2 ?? c.FloorAcross;
+
+    /// <summary>Frame-weighted pooling over used tracks with bootstrap intervals over tracks (spec section 3).</summary>
+    public static PooledFluctuations Pool(IReadOnlyList<TrackRecord> allTracks, int m, AnalysisOptions options, NoiseFloorReference? r)
+    {
+        var t = new List<TrackRecord>();
+        foreach (var x in allTracks) if (x.Used && x.Contour is not null) t.Add(x);
+        int n = t.Count;
+        var N = new double[n]; var vL = new double[n]; var vW = new double[n];
+        var aR = new double[n]; var cR = new double[n]; var aF = new double[n]; var cF = new double[n];
+        for (int i = 0; i < n; i++)
+        {
+            var c = t[i].Contour!;
+            N[i] = t[i].Frames;
+            vL[i] = t[i].VarLPx2 - (r?.VarLPx2 ?? 0);
+            vW[i] = t[i].VarWPx2 - (r?.VarWPx2 ?? 0);
+            aR[i] = c.VarAlongRaw; cR[i] = c.VarAcrossRaw;
+            aF[i] = FloorAlongOf(c, r); cF[i] = FloorAcrossOf(c, r);
+        }
+        double Mean(double[] v, int[] k) { double s = 0, w = 0; for (int i = 0; i < n; i++) { s += k[i] * N[i] * v[i]; w += k[i] * N[i]; } return w > 0 ? s / w : double.NaN; }
+        double Diff(double[] a, double[] b, int[] k) => Mean(a, k) - Mean(b, k);
+        int B = options.BootstrapResamples, seed = options.Seed;
+        var anis = Bootstrap.Percentile(n, k => Mean(vL, k) / Mean(vW, k), B, seed);
+        var anisC = Bootstrap.Percentile(n, k => Diff(aR, aF, k) / Diff(cR, cF, k), B, seed);
+        var anisCRaw = Bootstrap.Percentile(n, k => Mean(aR, k) / Mean(cR, k), B, seed);
+        var varL = Bootstrap.Percentile(n, k => Mean(vL, k), B, seed);
+        var varW = Bootstrap.Percentile(n, k => Mean(vW, k), B, seed);
+        var along = Bootstrap.Percentile(n, k => Diff(aR, aF, k), B, seed);
+        var across = Bootstrap.Percentile(n, k => Diff(cR, cF, k), B, seed);
+        var ones = new int[n]; Array.Fill(ones, 1);
+
+        int nm = m / 2 + 1;
+        var spec = new double[nm];
+        double floorMode = 0, wsum = 0;
+        const int bins = 9;
+        var profRaw = new double[bins]; var profFloor = new double[bins]; var profW = new double[bins]; var centres = new double[bins];
+        for (int b = 0; b < bins; b++) centres[b] = (b + 0.5) * 90.0 / bins;
+        foreach (var x in t)
+        {
+            var c = x.Contour!;
+            for (int j = 0; j < nm; j++) spec[j] += x.Frames * c.ModePower[j];
+            floorMode += x.Frames * (r?.FloorPerModePx2 ?? c.FloorPerMode);
+            wsum += x.Frames;
+            double floorScale = r is null ? 1 : (c.FloorPerMode > 0 ? r.FloorPerModePx2 / c.FloorPerMode : 0);
+            for (int k = 0; k < m; k++)
+            {
+                int b = Math.Min(bins - 1, (int)(c.NormalAngleDeg[k] / (90.0 / bins)));
+                double w = x.Frames * c.ArcWeight[k];
+                profRaw[b] += w * c.SampleVariance[k]; profFloor[b] += w * c.SampleFloor[k] * floorScale; profW[b] += w;
+            }
+        }
+        for (int j = 0; j < nm; j++) spec[j] = wsum > 0 ? spec[j] / wsum : double.NaN;
+        floorMode = wsum > 0 ? floorMode / wsum : double.NaN;
+        var profCorr = new double[bins];
+        for (int b = 0; b < bins; b++)
+        {
+            profRaw[b] = profW[b] > 0 ? profRaw[b] / profW[b] : double.NaN;
+            profFloor[b] = profW[b] > 0 ? profFloor[b] / profW[b] : double.NaN;
+            profCorr[b] = profRaw[b] - profFloor[b];
+        }
+        return new PooledFluctuations(anis, anisC, anisCRaw, varL, varW, along, across,
+            Mean(aR, ones), Mean(cR, ones), Mean(aF, ones), Mean(cF, ones), floorMode, spec, centres, profRaw, profCorr, profFloor);
+    }
+}

@@ -1,0 +1,45 @@
+namespace ShapeNoise.Reading;
+
+/// <summary>One frame of a label movie: 0 = background, any other value = one object. Row-major, Width x Height.</summary>
+public sealed class LabelFrame(int index, int width, int height, int[] labels)
+{
+    public int Index { get; } = index;
+    public int Width { get; } = width;
+    public int Height { get; } = height;
+    public int[] Labels { get; } = labels.Length == width * height ? labels
+        : throw new ArgumentException($"label array has {labels.Length} values, expected {width}x{height}");
+}
+
+/// <summary>What is known about a movie before its pixels are read.</summary>
+/// <param name="Path">File or folder the frames come from.</param>
+/// <param name="Width">Frame width in px.</param>
+/// <param name="Height">Frame height in px.</param>
+/// <param name="FrameCount">Number of frames.</param>
+/// <param name="PixelSizeUm">Pixel size from metadata (um/px), or null.</param>
+/// <param name="FrameIntervalMin">Frame interval from metadata (min), or null.</param>
+/// <param name="Format">Human-readable description of the container and pixel type.</param>
+public sealed record MovieInfo(string Path, int Width, int Height, int FrameCount,
+    double? PixelSizeUm, double? FrameIntervalMin, string Format);
+
+/// <summary>A stream of label frames, read one at a time so memory does not grow with the movie length.</summary>
+public interface ILabelMovie : IDisposable
+{
+    MovieInfo Info { get; }
+    /// <summary>The frames in order; each is read when enumerated.</summary>
+    IEnumerable<LabelFrame> Frames();
+    /// <summary>The files this movie reads, for provenance.</summary>
+    IReadOnlyList<string> Files { get; }
+}
+
+/// <summary>Bad input: names the file and says what is wrong with it, in one line.</summary>
+public sealed class InputException(string path, string problem) : Exception($"{path}: {problem}")
+{
+    public string PathName { get; } = path;
+    public string Problem { get; } = problem;
+}
+
+/// <summary>The output folder cannot be written.</summary>
+public sealed class OutputException(string path, string problem) : Exception($"{path}: {problem}")
+{
+    public string PathName { get; } = path;
+}

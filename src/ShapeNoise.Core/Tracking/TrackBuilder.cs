@@ -1,0 +1,101 @@
+using System.Numerics;
+using ShapeNoise.Fluctuations;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Shape;
+using ShapeNoise.Statistics;
+
+namespace ShapeNoise.Tracking;
+
+/// <summary>
+/// Accumulates the outlines of the tracks that are still open, keeps the long axis continuous modulo pi along each track
+/// (each frame takes the representative within pi/2 of the previous one, which shifts the body-frame samples by M/2 when
+/// it adds pi), and turns a track into a <see cref="TrackRecord"/> when it ends. Memory holds only the open tracks' samples.
+/// </summary>
+public sealed class TrackBuilder(int rays, int minTrackFrames)
+{
+    private sealed class Open
+    {
+        public int Id;
+        public readonly List<int> Frames = [];
+        public readonly List<double> L = [], W = [], Q = [], Theta = [], Area = [];
+        public readonly List<double[]> Rho = [];
+        public readonly List<Complex[]> Modes = [];
+    }
+
+    private readonly List<Open?> _slots = [];
+    private readonly Stack<int> _free = new();
+    private int _nextId = 1;
+
+    /// <summary>Tracks that have ended, in the order they ended.</summary>
+    public List<TrackRecord> Finished { get; } = [];
+
+    /// <summary>Track id held by an open slot.</summary>
+    public int IdOf(int slot) => _slots[slot]!.Id;
+
+    /// <summary>
+    /// Appends an outline to the open track in <paramref name="slot"/> (or starts a new track when slot is -1).
+    /// <paramref name="rhoRaw"/> holds the radial samples cast from the frame's own long axis; they are copied.
+    /// Returns the slot, the continuous axis angle and the body-frame modes of this outline.
+    /// </summary>
+    public (int Slot, double ThetaContinuous, Complex[] Modes) Append(int slot, int frame, ShapeMeasures shape, ReadOnlySpan<double> rhoRaw)
+    {
+        if (rhoRaw.Length != rays) throw new ArgumentException($"expected {rays} radial samples");
+        Open tr;
+        if (slot < 0)
+        {
+            tr = new Open { Id = _nextId++ };
+            if (_free.Count > 0) { slot = _free.Pop(); _slots[slot] = tr; }
+            else { slot = _slots.Count; _slots.Add(tr); }
+        }
+        else tr = _slots[slot] ?? throw new InvalidOperationException("slot is not open");
+
+        double theta = shape.ThetaRad;
+        var rho = new double[rays];
+        int half = 0;
+        if (tr.Theta.Count > 0)
+        {
+            double prev = tr.Theta[^1];
+            half = (int)Math.Round((prev - theta) / Math.PI);
+            theta += half * Math.PI;
+        }
+        int shift = (half & 1) != 0 ? rays / 2 : 0;   // r(theta + pi + psi_k) = rho_raw[k + M/2]
+        for (int k = 0; k < rays; k++) rho[k] = rhoRaw[(k + shift) % rays];
+        var modes = new Complex[rays / 2 + 1];
+        FourierModes.Of(rho, modes);
+
+        tr.Frames.Add(frame); tr.L.Add(shape.LengthPx); tr.W.Add(shape.WidthPx); tr.Q.Add(shape.Elongation);
+        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Rho.Add(rho); tr.Modes.Add(modes);
+        return (slot, theta, modes);
+    }
+
+    /// <summary>Closes the track in <paramref name="slot"/>.</summary>
+    public void End(int slot, TrackEnd why)
+    {
+        var tr = _slots[slot] ?? throw new InvalidOperationException("slot is not open");
+        _slots[slot] = null; _free.Push(slot);
+        int n = tr.Frames.Count;
+        bool used = n >= minTrackFrames;
+        TrackContour? contour = null;
+        double varL = double.NaN, varW = double.NaN;
+        if (n >= 2)
+        {
+            varL = Descriptive.PopulationVariance(tr.L.ToArray());
+            varW = Descriptive.PopulationVariance(tr.W.ToArray());
+        }
+        if (used)
+        {
+            int nm = rays / 2 + 1;
+            var rho = new double[n * rays]; var modes = new Complex[n * nm];
+            for (int t = 0; t < n; t++) { tr.Rho[t].CopyTo(rho, t * rays); tr.Modes[t].CopyTo(modes, t * nm); }
+            contour = ContourFluctuations.Of(rho, modes, n, rays);
+        }
+        Finished.Add(new TrackRecord(tr.Id, tr.Frames[0], tr.Frames[^1], why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(),
+            tr.Q.ToArray(), tr.Theta.ToArray(), tr.Area.ToArray(), contour, varL, varW, used));
+    }
+
+    /// <summary>Closes every open track.</summary>
+    public void EndAll(TrackEnd why)
+    {
+        for (int s = 0; s < _slots.Count; s++) if (_slots[s] is not null) End(s, why);
+    }
+}
