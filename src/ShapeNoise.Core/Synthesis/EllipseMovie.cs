@@ -36,7 +36,7 @@ public sealed record EllipseMovieOptions
     {
         if (Cells < 1) throw new ArgumentException($"--cells must be >= 1 (got {Cells})");
         if (Frames < 2) throw new ArgumentException($"--frames must be >= 2 (got {Frames})");
-        if (!(SemiMinorPx > 1 && SemiMajorPx >= SemiMinorPx)) throw new ArgumentException("--a and --b must satisfy a >= b > 1 px");
+        if (!(SemiMinorPx > 1 && SemiMajorPx >= SemiMinorPx)) throw new ArgumentException("--semi-major and --semi-minor must satisfy a >= b > 1 px");
         if (SigmaAlongPx < 0 || SigmaAcrossPx < 0) throw new ArgumentException("--sigma-along and --sigma-across must be >= 0");
         if (SemiMinorPx - 4 * SigmaAcrossPx < 1) throw new ArgumentException("--sigma-across is too large for --b (b - 4 sigma must stay above 1 px)");
         if (!(TauFrames > 0)) throw new ArgumentException("--tau must be > 0 frames");

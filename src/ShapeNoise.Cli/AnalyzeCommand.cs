@@ -1,0 +1,104 @@
+using System.ComponentModel;
+using ShapeNoise.Imaging.Reading;
+using ShapeNoise.Outlines;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Reporting;
+using ShapeNoise.Statistics;
+using Spectre.Console;
+using Spectre.Console.Cli;
+
+namespace ShapeNoise.Cli;
+
+public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
+{
+    public sealed class Settings : CommandSettings
+    {
+        [CommandArgument(0, "<INPUT>"), Description("Label movie: multi-page TIFF (8/16/32-bit integer) or a folder of TIFF/PNG frames.")] public string Input { get; init; } = "";
+        [CommandOption("--out <DIR>"), Description("Output folder; written to a temporary folder first, then renamed.")] public string Out { get; init; } = "";
+        [CommandOption("--pixel-size <UM>"), Description("Pixel size (um/px) when the movie's metadata has none.")] public double? PixelSize { get; init; }
+        [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min) when the movie's metadata has none.")] public double? FrameInterval { get; init; }
+        [CommandOption("--rays <M>"), Description("Rays per outline (multiple of 8).")] public int Rays { get; init; } = 64;
+        [CommandOption("--min-area <PX>"), Description("Exclude objects smaller than this (px).")] public int MinArea { get; init; } = 30;
+        [CommandOption("--border-margin <PX>"), Description("Exclude objects within this distance of the image edge (px).")] public int BorderMargin { get; init; } = 1;
+        [CommandOption("--min-track <FRAMES>"), Description("Only tracks at least this long enter the statistics.")] public int MinTrack { get; init; } = 10;
+        [CommandOption("--outline <METHOD>"), Description("Outline placement: midpoint, subpixel or pixel-edge.")] public string Outline { get; init; } = "midpoint";
+        [CommandOption("--link-overlap <FRACTION>"), Description("Overlap fraction (of the smaller mask) that links masks in consecutive frames.")] public double LinkOverlap { get; init; } = 0.25;
+        [CommandOption("--bootstrap <N>"), Description("Bootstrap resamples over tracks.")] public int Bootstrap { get; init; } = 1000;
+        [CommandOption("--seed <N>"), Description("Seed of every random resample.")] public int Seed { get; init; } = 1;
+        [CommandOption("--floor-from <DIR>"), Description("Output folder of a fixed-cell movie analysed the same way: its fluctuations are the noise floor.")] public string? FloorFrom { get; init; }
+        [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
+        [CommandOption("--json"), Description("Print summary.json to standard output, nothing else.")] public bool Json { get; init; }
+
+        public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
+    }
+
+    public static OutlineMethod ParseOutline(string s) => s.ToLowerInvariant() switch
+    {
+        "midpoint" => OutlineMethod.Midpoint,
+        "subpixel" => OutlineMethod.Subpixel,
+        "pixel-edge" or "pixeledge" => OutlineMethod.PixelEdge,
+        _ => throw new ArgumentException($"--outline must be midpoint, subpixel or pixel-edge (got '{s}')"),
+    };
+
+    public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
+    {
+        var options = new AnalysisOptions
+        {
+            PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
+            MinTrackFrames = s.MinTrack, Outline = ParseOutline(s.Outline), LinkOverlapFraction = s.LinkOverlap, BootstrapResamples = s.Bootstrap,
+            Seed = s.Seed, FloorFrom = s.FloorFrom,
+        }.Validated();
+        var cmd = Environment.GetCommandLineArgs().Skip(1);
+        bool chatty = !s.Quiet && !s.Json;
+        AnalysisResult result;
+        if (chatty && !Console.IsOutputRedirected)
+        {
+            result = null!;
+            AnsiConsole.Progress()
+                .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new TransferSpeedlessFpsColumn(), new RemainingTimeColumn())
+                .Start(ctx =>
+                {
+                    var task = ctx.AddTask("frames");
+                    result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, new SyncProgress(task), cmd);
+                });
+        }
+        else result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, null, cmd);
+
+        if (s.Json) { Console.WriteLine(Summary.Build(result).ToJsonString(Summary.Indented)); return 0; }
+        if (s.Quiet) return 0;
+        PrintSummary(result, s.Out);
+        return 0;
+    }
+
+    private static void PrintSummary(AnalysisResult r, string outDir)
+    {
+        foreach (var w in r.Warnings) AnsiConsole.MarkupLineInterpolated($"[yellow]warning:[/] {w}");
+        var u = r.Units; double s2 = u.S * u.S;
+        var t = new Table().AddColumn("measure").AddColumn("value").AddColumn("95% CI");
+        void Row(string name, Estimate e, string unit = "") =>
+            t.AddRow(name, $"{e.Value:G4}{unit}", double.IsFinite(e.Low) ? $"{e.Low:G4} - {e.High:G4}" : "-");
+        Row("anisotropy (var L / var W)", r.Pooled.Anisotropy);
+        Row("anisotropy_contour (along / across)", r.Pooled.AnisotropyContour);
+        Row($"var_L ({u.L2})", r.Pooled.VarL.Scale(s2));
+        Row($"var_W ({u.L2})", r.Pooled.VarW.Scale(s2));
+        Row($"var_along ({u.L2}, floor-corrected)", r.Pooled.VarAlong.Scale(s2));
+        Row($"var_across ({u.L2}, floor-corrected)", r.Pooled.VarAcross.Scale(s2));
+        t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");
+        t.AddRow("frames", $"{r.Counts.Frames}", "");
+        AnsiConsole.Write(t);
+        AnsiConsole.MarkupLineInterpolated($"results in [bold]{outDir}[/] (units: {u.Length}, {u.Time})");
+    }
+
+    /// <summary>Reports progress on the calling thread (Progress&lt;T&gt; would post to the thread pool).</summary>
+    private sealed class SyncProgress(ProgressTask task) : IProgress<MovieAnalyzer.Progress>
+    {
+        public void Report(MovieAnalyzer.Progress x) { task.MaxValue = x.FramesTotal; task.Value = x.FramesDone; }
+    }
+
+    /// <summary>Frames per second of a progress task.</summary>
+    private sealed class TransferSpeedlessFpsColumn : ProgressColumn
+    {
+        public override Spectre.Console.Rendering.IRenderable Render(Spectre.Console.Rendering.RenderOptions options, ProgressTask task, TimeSpan deltaTime)
+            => new Markup(task.Speed is { } v ? $"{v:F1} frames/s" : "");
+    }
+}

@@ -1,0 +1,24 @@
+using ShapeNoise.Reading;
+using Spectre.Console;
+using Spectre.Console.Cli;
+
+namespace ShapeNoise.Cli;
+
+/// <summary>Maps failures to one-line messages and documented exit codes.</summary>
+public static class ExitCodes
+{
+    public const int Ok = 0, Unexpected = 1, BadInput = 2, Unwritable = 3, BadOptions = 64;
+
+    public static int Run(Func<int> body)
+    {
+        try { return body(); }
+        catch (InputException e) { Error(e.Message); return BadInput; }
+        catch (OutputException e) { Error($"{e.Message}"); return Unwritable; }
+        catch (ArgumentException e) { Error(e.Message); return BadOptions; }
+        catch (CommandParseException e) { Error(e.Message); return BadOptions; }
+        catch (CommandRuntimeException e) { Error(e.Message); return BadOptions; }
+        catch (Exception e) { Error($"unexpected {e.GetType().Name}: {e.Message}"); return Unexpected; }
+    }
+
+    private static void Error(string message) => Console.Error.WriteLine($"shapenoise: error: {message.ReplaceLineEndings(" ")}");
+}

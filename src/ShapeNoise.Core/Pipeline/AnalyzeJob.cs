@@ -1,0 +1,33 @@
+using System.Text.Json;
+using System.Text.Json.Nodes;
+using ShapeNoise.Reading;
+using ShapeNoise.Reporting;
+
+namespace ShapeNoise.Pipeline;
+
+/// <summary>The whole <c>analyze</c> job: open the movie, analyse it, write the output folder with provenance.</summary>
+public static class AnalyzeJob
+{
+    /// <param name="input">Movie path (file or folder).</param>
+    /// <param name="outDir">Output folder; written atomically.</param>
+    /// <param name="options">Analysis options.</param>
+    /// <param name="open">Opens a movie path (supplied by the imaging layer).</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="commandLine">The command line, for run.json.</param>
+    public static AnalysisResult Run(string input, string outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
+        IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null)
+    {
+        options.Validated();
+        var floor = options.FloorFrom is null ? null : Summary.ReadFloor(options.FloorFrom);
+        if (floor is not null && !string.Equals(floor.Outline, options.Outline.ToString(), StringComparison.OrdinalIgnoreCase))
+            throw new InputException(options.FloorFrom!, $"floor was measured with --outline {floor.Outline}, this run uses {options.Outline.ToString().ToLowerInvariant()}");
+        using var movie = open(input);
+        var result = MovieAnalyzer.Run(movie, options, progress, floor);
+        var files = new List<string>(movie.Files);
+        if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
+        var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
+        var prov = Provenance.Describe("analyze", files, opts, commandLine);
+        ResultWriter.Write(result, outDir, prov);
+        return result;
+    }
+}

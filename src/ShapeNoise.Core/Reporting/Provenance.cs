@@ -1,0 +1,44 @@
+using System.Reflection;
+using System.Security.Cryptography;
+using System.Text.Json.Nodes;
+
+namespace ShapeNoise.Reporting;
+
+/// <summary>Provenance of a run (run.json): tool version, options, inputs with sizes and SHA-256.</summary>
+public static class Provenance
+{
+    /// <summary>Version of the ShapeNoise library.</summary>
+    public static string ToolVersion =>
+        typeof(Provenance).Assembly.GetCustomAttribute<AssemblyInformationalVersionAttribute>()?.InformationalVersion?.Split('+')[0]
+        ?? typeof(Provenance).Assembly.GetName().Version?.ToString() ?? "unknown";
+
+    /// <summary>SHA-256 of a file, lower-case hex.</summary>
+    public static string Sha256(string file)
+    {
+        using var fs = File.OpenRead(file);
+        return Convert.ToHexStringLower(SHA256.HashData(fs));
+    }
+
+    /// <summary>Builds run.json's content.</summary>
+    public static JsonObject Describe(string command, IEnumerable<string> inputFiles, JsonNode options, IEnumerable<string>? commandLine = null)
+    {
+        var inputs = new JsonArray();
+        foreach (var f in inputFiles)
+        {
+            var fi = new FileInfo(f);
+            inputs.Add(new JsonObject { ["name"] = fi.Name, ["path"] = fi.FullName, ["bytes"] = fi.Length, ["sha256"] = Sha256(f) });
+        }
+        return new JsonObject
+        {
+            ["tool"] = "shapenoise",
+            ["version"] = ToolVersion,
+            ["command"] = command,
+            ["command_line"] = commandLine is null ? null : new JsonArray(commandLine.Select(a => (JsonNode?)JsonValue.Create(a)).ToArray()),
+            ["options"] = options,
+            ["inputs"] = inputs,
+            ["runtime"] = System.Runtime.InteropServices.RuntimeInformation.FrameworkDescription,
+            ["os"] = System.Runtime.InteropServices.RuntimeInformation.OSDescription,
+            ["finished_utc"] = DateTime.UtcNow.ToString("yyyy-MM-ddTHH:mm:ssZ"),
+        };
+    }
+}

@@ -1,0 +1,20 @@
+using System.Text.Json.Nodes;
+using ShapeNoise.Pipeline;
+
+namespace ShapeNoise.Reporting;
+
+/// <summary>Writes every output of <c>analyze</c> into a folder, atomically.</summary>
+public static class ResultWriter
+{
+    public static void Write(AnalysisResult r, string outDir, JsonObject provenance)
+    {
+        OutputFolder.Write(outDir, dir =>
+        {
+            Tables.WriteAll(r, dir);
+            File.WriteAllText(Path.Combine(dir, "summary.json"), Summary.Build(r).ToJsonString(Summary.Indented));
+            File.WriteAllText(Path.Combine(dir, "floor.json"), Summary.Floor(r).ToJsonString(Summary.Indented));
+            File.WriteAllText(Path.Combine(dir, "run.json"), provenance.ToJsonString(Summary.Indented));
+            Figures.WriteAll(r, dir);
+        });
+    }
+}

@@ -1,0 +1,90 @@
+using System.Text.Json;
+using System.Text.Json.Nodes;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Statistics;
+
+namespace ShapeNoise.Reporting;
+
+/// <summary>summary.json (spec section 6) and floor.json (the fixed-cell floor export read by --floor-from).</summary>
+public static class Summary
+{
+    public static readonly JsonSerializerOptions Indented = new() { WriteIndented = true };
+
+    static JsonNode? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+
+    /// <summary>{"value": x, "ci95": [lo, hi]}, with nulls where undefined.</summary>
+    public static JsonObject Interval(Estimate e) => new() { ["value"] = Num(e.Value), ["ci95"] = new JsonArray(Num(e.Low), Num(e.High)) };
+
+    public static JsonObject Build(AnalysisResult r)
+    {
+        var u = r.Units; var p = r.Pooled; var c = r.Counts;
+        double s = u.S, s2 = s * s;
+        var warnings = new JsonArray();
+        foreach (var w in r.Warnings) warnings.Add(w);
+        return new JsonObject
+        {
+            ["tool_version"] = Provenance.ToolVersion,
+            ["input"] = Path.GetFileName(r.Movie.Path.TrimEnd('/')),
+            ["units"] = new JsonObject { ["length"] = u.Length, ["time"] = u.Time },
+            ["pixel_size_um"] = u.PixelSizeUm is { } ps ? ps : null,
+            ["pixel_size_source"] = u.PixelSizeSource,
+            ["frame_interval_min"] = u.FrameIntervalMin is { } fi ? fi : null,
+            ["frame_interval_source"] = u.FrameIntervalSource,
+            ["frames"] = c.Frames,
+            ["objects"] = c.Objects,
+            ["outlines"] = c.Outlines,
+            ["cells_tracked"] = c.Tracks,
+            ["tracks_used"] = c.TracksUsed,
+            ["tracks_below_floor"] = c.TracksBelowFloor,
+            ["outlines_excluded"] = c.ExcludedBorder + c.ExcludedSmall,
+            ["outlines_excluded_border"] = c.ExcludedBorder,
+            ["outlines_excluded_small"] = c.ExcludedSmall,
+            ["non_star_shaped"] = c.NonStarShaped,
+            ["divisions"] = c.Divisions,
+            ["merges"] = c.Merges,
+            ["anisotropy"] = Interval(p.Anisotropy),
+            ["anisotropy_contour"] = Interval(p.AnisotropyContour),
+            ["anisotropy_contour_raw"] = Interval(p.AnisotropyContourRaw),
+            ["var_L"] = Interval(p.VarL.Scale(s2)),
+            ["var_W"] = Interval(p.VarW.Scale(s2)),
+            ["var_along"] = Interval(p.VarAlong.Scale(s2)),
+            ["var_across"] = Interval(p.VarAcross.Scale(s2)),
+            ["var_along_raw"] = Num(p.VarAlongRaw * s2),
+            ["var_across_raw"] = Num(p.VarAcrossRaw * s2),
+            ["floor_along"] = Num(p.FloorAlong * s2),
+            ["floor_across"] = Num(p.FloorAcross * s2),
+            ["floor_per_mode"] = Num(p.FloorPerMode * s2),
+            ["floor_source"] = r.FloorReference is null ? "high modes" : "--floor-from",
+            ["mean_cell_radius"] = Num(r.MeanCellRadiusPx * s),
+            ["rays"] = r.Options.Rays,
+            ["outline_method"] = r.Options.Outline.ToString().ToLowerInvariant(),
+            ["warnings"] = warnings,
+        };
+    }
+
+    /// <summary>floor.json: this run's pooled raw fluctuations in px^2, to be used as the floor of another run (--floor-from).</summary>
+    public static JsonObject Floor(AnalysisResult r) => new()
+    {
+        ["rays"] = r.Options.Rays,
+        ["outline"] = r.Options.Outline.ToString().ToLowerInvariant(),
+        ["var_along_px2"] = Num(r.Pooled.VarAlongRaw),
+        ["var_across_px2"] = Num(r.Pooled.VarAcrossRaw),
+        ["var_L_px2"] = Num(r.Pooled.VarL.Value + (r.FloorReference?.VarLPx2 ?? 0)),
+        ["var_W_px2"] = Num(r.Pooled.VarW.Value + (r.FloorReference?.VarWPx2 ?? 0)),
+        ["floor_per_mode_px2"] = Num(r.Pooled.FloorPerMode),
+    };
+
+    /// <summary>Reads floor.json from an analysis output folder.</summary>
+    public static NoiseFloorReference ReadFloor(string folder)
+    {
+        string path = Path.Combine(folder, "floor.json");
+        if (!File.Exists(path)) throw new Reading.InputException(folder, "has no floor.json; --floor-from needs the output folder of a fixed-cell movie analysed by shapenoise");
+        JsonNode? n;
+        try { n = JsonNode.Parse(File.ReadAllText(path)); }
+        catch (JsonException e) { throw new Reading.InputException(path, $"is not valid JSON ({e.Message})"); }
+        double Get(string k) => n?[k]?.GetValue<double>() is { } v && double.IsFinite(v) ? v
+            : throw new Reading.InputException(path, $"has no finite number '{k}'");
+        return new NoiseFloorReference((int)Get("rays"), n?["outline"]?.GetValue<string>() ?? "", Get("var_along_px2"), Get("var_across_px2"),
+            Get("var_L_px2"), Get("var_W_px2"), Get("floor_per_mode_px2"));
+    }
+}

@@ -1,0 +1,158 @@
+using System.Globalization;
+using CsvHelper;
+using CsvHelper.Configuration;
+using ShapeNoise.Pipeline;
+
+namespace ShapeNoise.Reporting;
+
+/// <summary>cells.csv: one row per analysed outline.</summary>
+public sealed record CellRow(int Frame, double Time, int Label, int TrackId, bool InStatistics, double X, double Y, double Area,
+    double Perimeter, double Length, double Width, double AspectRatio, double Elongation, double ThetaRad, double MeanRadius,
+    double Mode2Amplitude, bool StarShaped, int Vertices);
+
+/// <summary>tracks.csv: one row per track.</summary>
+public sealed record TrackRow(int TrackId, int FirstFrame, int LastFrame, int Frames, double Duration, string End, bool InStatistics,
+    double MeanArea, double MeanLength, double MeanWidth, double? VarL, double? VarW, double? VarAlongRaw, double? VarAcrossRaw,
+    double? FloorAlong, double? FloorAcross, double? VarAlong, double? VarAcross, bool? BelowFloor);
+
+/// <summary>spectrum.csv: pooled mode power per Fourier mode.</summary>
+public sealed record SpectrumRow(int Mode, double PowerRaw, double Floor, double PowerCorrected);
+
+/// <summary>profile.csv: pooled contour variance against the normal's angle from the long axis.</summary>
+public sealed record ProfileRow(double AngleLowDeg, double AngleHighDeg, double AngleDeg, double VarianceRaw, double Floor, double VarianceCorrected);
+
+internal sealed class CellMap : ClassMap<CellRow>
+{
+    public CellMap(Units u)
+    {
+        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name($"time_{u.T}"); Map(r => r.Label).Name("label");
+        Map(r => r.TrackId).Name("track_id"); Map(r => r.InStatistics).Name("in_statistics");
+        Map(r => r.X).Name($"x_{u.L}"); Map(r => r.Y).Name($"y_{u.L}"); Map(r => r.Area).Name($"area_{u.L2}");
+        Map(r => r.Perimeter).Name($"perimeter_{u.L}"); Map(r => r.Length).Name($"length_{u.L}"); Map(r => r.Width).Name($"width_{u.L}");
+        Map(r => r.AspectRatio).Name("aspect_ratio"); Map(r => r.Elongation).Name("elongation_q"); Map(r => r.ThetaRad).Name("theta_rad");
+        Map(r => r.MeanRadius).Name($"mean_radius_{u.L}"); Map(r => r.Mode2Amplitude).Name($"mode2_amplitude_{u.L}");
+        Map(r => r.StarShaped).Name("star_shaped"); Map(r => r.Vertices).Name("vertices");
+    }
+}
+
+internal sealed class TrackMap : ClassMap<TrackRow>
+{
+    public TrackMap(Units u)
+    {
+        Map(r => r.TrackId).Name("track_id"); Map(r => r.FirstFrame).Name("first_frame"); Map(r => r.LastFrame).Name("last_frame");
+        Map(r => r.Frames).Name("frames"); Map(r => r.Duration).Name($"duration_{u.T}"); Map(r => r.End).Name("end");
+        Map(r => r.InStatistics).Name("in_statistics"); Map(r => r.MeanArea).Name($"mean_area_{u.L2}");
+        Map(r => r.MeanLength).Name($"mean_length_{u.L}"); Map(r => r.MeanWidth).Name($"mean_width_{u.L}");
+        Map(r => r.VarL).Name($"var_L_{u.L2}"); Map(r => r.VarW).Name($"var_W_{u.L2}");
+        Map(r => r.VarAlongRaw).Name($"var_along_raw_{u.L2}"); Map(r => r.VarAcrossRaw).Name($"var_across_raw_{u.L2}");
+        Map(r => r.FloorAlong).Name($"floor_along_{u.L2}"); Map(r => r.FloorAcross).Name($"floor_across_{u.L2}");
+        Map(r => r.VarAlong).Name($"var_along_{u.L2}"); Map(r => r.VarAcross).Name($"var_across_{u.L2}");
+        Map(r => r.BelowFloor).Name("below_floor");
+    }
+}
+
+internal sealed class SpectrumMap : ClassMap<SpectrumRow>
+{
+    public SpectrumMap(Units u)
+    {
+        Map(r => r.Mode).Name("mode"); Map(r => r.PowerRaw).Name($"power_raw_{u.L2}");
+        Map(r => r.Floor).Name($"floor_{u.L2}"); Map(r => r.PowerCorrected).Name($"power_corrected_{u.L2}");
+    }
+}
+
+internal sealed class ProfileMap : ClassMap<ProfileRow>
+{
+    public ProfileMap(Units u)
+    {
+        Map(r => r.AngleLowDeg).Name("normal_angle_low_deg"); Map(r => r.AngleHighDeg).Name("normal_angle_high_deg");
+        Map(r => r.AngleDeg).Name("normal_angle_deg"); Map(r => r.VarianceRaw).Name($"variance_raw_{u.L2}");
+        Map(r => r.Floor).Name($"floor_{u.L2}"); Map(r => r.VarianceCorrected).Name($"variance_corrected_{u.L2}");
+    }
+}
+
+/// <summary>Builds the tidy tables of an analysis in the run's units (lengths x s, areas and variances x s^2, times x dt).</summary>
+public static class Tables
+{
+    public static List<CellRow> Cells(AnalysisResult r)
+    {
+        double s = r.Units.S, s2 = s * s, dt = r.Units.Dt;
+        var used = new HashSet<int>();
+        foreach (var t in r.Tracks) if (t.Used) used.Add(t.Id);
+        var rows = new List<CellRow>(r.Cells.Count);
+        foreach (var c in r.Cells)
+        {
+            var sh = c.Shape;
+            double th = Math.IEEERemainder(c.ThetaContinuousRad, Math.PI);
+            if (th <= -Math.PI / 2) th += Math.PI;
+            rows.Add(new CellRow(c.Frame, c.Frame * dt, c.Label, c.TrackId, used.Contains(c.TrackId), sh.CentroidX * s, sh.CentroidY * s,
+                sh.AreaPx2 * s2, sh.PerimeterPx * s, sh.LengthPx * s, sh.WidthPx * s, sh.AspectRatio, sh.Elongation, th,
+                c.MeanRadiusPx * s, c.Mode2AmplitudePx * s, c.StarShaped, c.Vertices));
+        }
+        return rows;
+    }
+
+    public static List<TrackRow> Tracks(AnalysisResult r)
+    {
+        double s = r.Units.S, s2 = s * s, dt = r.Units.Dt;
+        var fr = r.FloorReference;
+        var rows = new List<TrackRow>(r.Tracks.Count);
+        foreach (var t in r.Tracks)
+        {
+            var c = t.Contour;
+            double? fa = c is null ? null : MovieAnalyzer.FloorAlongOf(c, fr) * s2, fc = c is null ? null : MovieAnalyzer.FloorAcrossOf(c, fr) * s2;
+            double? ar = c?.VarAlongRaw * s2, cr = c?.VarAcrossRaw * s2;
+            double? vL = double.IsFinite(t.VarLPx2) ? (t.VarLPx2 - (fr?.VarLPx2 ?? 0)) * s2 : null;
+            double? vW = double.IsFinite(t.VarWPx2) ? (t.VarWPx2 - (fr?.VarWPx2 ?? 0)) * s2 : null;
+            rows.Add(new TrackRow(t.Id, t.FirstFrame, t.LastFrame, t.Frames, (t.LastFrame - t.FirstFrame) * dt, EndName(t.End), t.Used,
+                t.AreaPx2.Average() * s2, t.LengthPx.Average() * s, t.WidthPx.Average() * s, vL, vW, ar, cr, fa, fc,
+                ar - fa, cr - fc, c is null ? null : (ar - fa <= 0 || cr - fc <= 0)));
+        }
+        return rows;
+    }
+
+    public static string EndName(TrackEnd e) => e switch
+    {
+        TrackEnd.MovieEnd => "movie_end", TrackEnd.Lost => "lost", TrackEnd.Border => "border", TrackEnd.Small => "too_small",
+        TrackEnd.Division => "division", TrackEnd.Merge => "merge", _ => e.ToString().ToLowerInvariant(),
+    };
+
+    public static List<SpectrumRow> Spectrum(AnalysisResult r)
+    {
+        double s2 = r.Units.S * r.Units.S;
+        var p = r.Pooled;
+        var rows = new List<SpectrumRow>();
+        for (int n = 2; n < p.ModePowerRaw.Length; n++)
+            rows.Add(new SpectrumRow(n, p.ModePowerRaw[n] * s2, p.FloorPerMode * s2, (p.ModePowerRaw[n] - p.FloorPerMode) * s2));
+        return rows;
+    }
+
+    public static List<ProfileRow> Profile(AnalysisResult r)
+    {
+        double s2 = r.Units.S * r.Units.S;
+        var p = r.Pooled;
+        int bins = p.ProfileBinCentreDeg.Length;
+        double width = 90.0 / bins;
+        var rows = new List<ProfileRow>();
+        for (int b = 0; b < bins; b++)
+            rows.Add(new ProfileRow(b * width, (b + 1) * width, p.ProfileBinCentreDeg[b], p.ProfileRaw[b] * s2, p.ProfileFloor[b] * s2, p.ProfileCorrected[b] * s2));
+        return rows;
+    }
+
+    /// <summary>Writes rows as UTF-8 comma-separated values with a header, through a CsvHelper class map.</summary>
+    public static void Write<T>(string path, IEnumerable<T> rows, ClassMap<T> map)
+    {
+        using var w = new StreamWriter(path, false, new System.Text.UTF8Encoding(false));
+        using var csv = new CsvWriter(w, new CsvConfiguration(CultureInfo.InvariantCulture));
+        csv.Context.RegisterClassMap(map);
+        csv.WriteRecords(rows);
+    }
+
+    public static void WriteAll(AnalysisResult r, string dir)
+    {
+        var u = r.Units;
+        Write(Path.Combine(dir, "cells.csv"), Cells(r), new CellMap(u));
+        Write(Path.Combine(dir, "tracks.csv"), Tracks(r), new TrackMap(u));
+        Write(Path.Combine(dir, "spectrum.csv"), Spectrum(r), new SpectrumMap(u));
+        Write(Path.Combine(dir, "profile.csv"), Profile(r), new ProfileMap(u));
+    }
+}
