@@ -31,14 +31,17 @@ public static class RadialFunction
             prevU = uQ;
             double du = uQ - uP;
             if (du > 0.5 * m) du -= m; else if (du <= -0.5 * m) du += m;
-            double lo = du >= 0 ? uP : uP + du, hi = du >= 0 ? uP + du : uP;
-            int k0 = (int)Math.Ceiling(lo), k1 = (int)Math.Ceiling(hi); // rays k with lo <= k < hi
-            if (k1 <= k0) continue;
+            // Rays k in [min, max) of the edge's angular span. Ceilings are taken of each vertex's own (normalised) angle,
+            // so the two edges meeting at a vertex agree on which of them owns a ray through it.
+            int kP = (int)Math.Ceiling(uP), kQ = (int)Math.Ceiling(uQ);
+            int start = du >= 0 ? kP : kQ, count = du >= 0 ? kQ - kP : kP - kQ;
+            if (count < 0) count += m;
+            if (count == 0) continue;
             double px = p.X - cx, py = p.Y - cy, ex = q.X - p.X, ey = q.Y - p.Y;
             double pe = px * ey - py * ex; // cross(p - c, e)
-            for (int k = k0; k < k1; k++)
+            for (int j = 0; j < count; j++)
             {
-                int kk = ((k % m) + m) % m;
+                int kk = (start + j) % m;
                 double phi = theta0 + kk * step;
                 double dx = Math.Cos(phi), dy = Math.Sin(phi);
                 double de = dx * ey - dy * ex; // cross(d, e)
@@ -59,6 +62,7 @@ public static class RadialFunction
         double u = (Math.Atan2(dy, dx) - theta0) / step;
         u %= m;
         if (u < 0) u += m;
+        if (u >= m) u -= m;
         return u;
     }
 
