@@ -127,3 +127,16 @@ public class TiffReadingTests
         Assert.Contains("not a TIFF", e.Message);
     }
 }
+
+public class ImageJHeaderTests
+{
+    [Fact]
+    public void Metadata_ImageJHeader_UsesXResolutionAndFinterval()
+    {
+        // ImageJ stores the pixel size as XResolution (pixels per unit) and the frame interval as finterval in seconds
+        // (common practice of ImageJ/Fiji TIFF headers).
+        var s = MovieMetadata.FromDescription("x.tif", "ImageJ=1.54f\nimages=10\nframes=10\nunit=micron\nfinterval=30\n", 2.0);
+        Assert.Equal(0.5, s.PixelSizeUm!.Value, 12);
+        Assert.Equal(0.5, s.FrameIntervalMin!.Value, 12);
+    }
+}
