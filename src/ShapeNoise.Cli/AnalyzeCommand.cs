@@ -26,6 +26,9 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--bootstrap <N>"), Description("Bootstrap resamples over tracks.")] public int Bootstrap { get; init; } = 1000;
         [CommandOption("--seed <N>"), Description("Seed of every random resample.")] public int Seed { get; init; } = 1;
         [CommandOption("--floor-from <DIR>"), Description("Output folder of a fixed-cell movie analysed the same way: its fluctuations are the noise floor.")] public string? FloorFrom { get; init; }
+        [CommandOption("--max-lag <FRAMES>"), Description("Longest lag of the autocorrelation curves.")] public int MaxLag { get; init; } = 30;
+        [CommandOption("--time-unit <UNIT>"), Description("Time unit of the dimensionless simulation parameters: tau_q, min, or a number of minutes.")] public string TimeUnit { get; init; } = "tau_q";
+        [CommandOption("--sim-format <FORMAT>"), Description("Simulation parameters as json (sim-params.json) or toml (sim-params.toml).")] public string SimFormat { get; init; } = "json";
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         [CommandOption("--json"), Description("Print summary.json to standard output, nothing else.")] public bool Json { get; init; }
 
@@ -46,7 +49,13 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         {
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
             MinTrackFrames = s.MinTrack, Outline = ParseOutline(s.Outline), LinkOverlapFraction = s.LinkOverlap, BootstrapResamples = s.Bootstrap,
-            Seed = s.Seed, FloorFrom = s.FloorFrom,
+            Seed = s.Seed, FloorFrom = s.FloorFrom, MaxLagFrames = s.MaxLag, TimeUnit = s.TimeUnit,
+            SimFormat = s.SimFormat.ToLowerInvariant() switch
+            {
+                "json" => ShapeNoise.Pipeline.SimFormat.Json,
+                "toml" => ShapeNoise.Pipeline.SimFormat.Toml,
+                _ => throw new ArgumentException($"--sim-format must be json or toml (got '{s.SimFormat}')"),
+            },
         }.Validated();
         var cmd = Environment.GetCommandLineArgs().Skip(1);
         bool chatty = !s.Quiet && !s.Json;
@@ -83,6 +92,9 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         Row($"var_W ({u.L2})", r.Pooled.VarW.Scale(s2));
         Row($"var_along ({u.L2}, floor-corrected)", r.Pooled.VarAlong.Scale(s2));
         Row($"var_across ({u.L2}, floor-corrected)", r.Pooled.VarAcross.Scale(s2));
+        var d = r.Dynamics;
+        Row($"tau_q ({u.Time}, bias-corrected)", d.TauQFrames.Scale(u.Dt));
+        Row($"tau_theta ({u.Time})", d.TauThetaFrames.Scale(u.Dt));
         t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");
         t.AddRow("frames", $"{r.Counts.Frames}", "");
         AnsiConsole.Write(t);

@@ -18,7 +18,8 @@ public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings
         [CommandOption("--sigma-along <PX>"), Description("Standard deviation of a(t) (px).")] public double SigmaAlong { get; init; } = 1.0;
         [CommandOption("--sigma-across <PX>"), Description("Standard deviation of b(t) (px).")] public double SigmaAcross { get; init; } = 0.5;
         [CommandOption("--tau <FRAMES>"), Description("Correlation time of the semi-axes (frames).")] public double Tau { get; init; } = 5;
-        [CommandOption("--rotation <DEG>"), Description("Axis rotation per frame (degrees).")] public double Rotation { get; init; } = 0.5;
+        [CommandOption("--rotation <DEG>"), Description("Steady axis rotation per frame (degrees).")] public double Rotation { get; init; }
+        [CommandOption("--tau-theta <FRAMES>"), Description("Orientation correlation time under rotational diffusion (frames; 0 = none).")] public double TauTheta { get; init; } = 40;
         [CommandOption("--drift <PX>"), Description("Standard deviation of the centre's slow drift (px).")] public double Drift { get; init; } = 1.5;
         [CommandOption("--width <PX>"), Description("Canvas width (0 = fit the cells).")] public int Width { get; init; }
         [CommandOption("--height <PX>"), Description("Canvas height (0 = fit the cells).")] public int Height { get; init; }
@@ -34,7 +35,7 @@ public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings
         var o = new EllipseMovieOptions
         {
             Cells = s.Cells, Frames = s.Frames, SemiMajorPx = s.A, SemiMinorPx = s.B, SigmaAlongPx = s.SigmaAlong, SigmaAcrossPx = s.SigmaAcross,
-            TauFrames = s.Tau, RotationDegPerFrame = s.Rotation, DriftPx = s.Drift, Width = s.Width, Height = s.Height,
+            TauFrames = s.Tau, RotationDegPerFrame = s.Rotation, TauThetaFrames = s.TauTheta, DriftPx = s.Drift, Width = s.Width, Height = s.Height,
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         }.Validated();
         var m = SynthJob.Ellipses(o, s.Out, Environment.GetCommandLineArgs().Skip(1));

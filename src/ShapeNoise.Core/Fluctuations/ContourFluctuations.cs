@@ -16,8 +16,12 @@ namespace ShapeNoise.Fluctuations;
 /// <param name="SampleFloor">Per ray sample k: M f cos^2 g_k.</param>
 /// <param name="NormalAngleDeg">Per ray sample k: angle of the outward normal from the long axis, folded into [0, 90] degrees.</param>
 /// <param name="ArcWeight">Per ray sample k: w = sqrt(m^2 + m'^2).</param>
+/// <param name="AlongSeries">Per frame: the w-weighted mean over pole samples of the normal displacement n(psi, t), the
+/// "along" fluctuation coordinate.</param>
+/// <param name="AcrossSeries">Per frame: the same over flank samples, the "across" coordinate.</param>
 public sealed record TrackContour(int Frames, double VarAlongRaw, double VarAcrossRaw, double FloorAlong, double FloorAcross,
-    double FloorPerMode, double[] ModePower, double[] SampleVariance, double[] SampleFloor, double[] NormalAngleDeg, double[] ArcWeight)
+    double FloorPerMode, double[] ModePower, double[] SampleVariance, double[] SampleFloor, double[] NormalAngleDeg, double[] ArcWeight,
+    double[] AlongSeries, double[] AcrossSeries)
 {
     /// <summary>Floor-corrected var_along = raw - floor.</summary>
     public double VarAlong => VarAlongRaw - FloorAlong;
@@ -72,6 +76,7 @@ public static class ContourFluctuations
         double dpsi = 2 * Math.PI / m;
         var sampleVar = new double[m]; var sampleFloor = new double[m]; var angle = new double[m]; var weight = new double[m];
         double wPole = 0, wFlank = 0, vPole = 0, vFlank = 0, fPole = 0, fFlank = 0;
+        var poleW = new double[m]; var cosG = new double[m];
         for (int k = 0; k < m; k++)
         {
             double mk = mean[k];
@@ -86,11 +91,23 @@ public static class ContourFluctuations
             sampleFloor[k] = m * floorMode * cg2;
             angle[k] = Math.Acos(Math.Min(1, c)) * 180 / Math.PI;
             weight[k] = w;
+            poleW[k] = pole; cosG[k] = Math.Cos(g);
             wPole += pole * w; vPole += pole * w * sampleVar[k]; fPole += pole * w * sampleFloor[k];
             wFlank += (1 - pole) * w; vFlank += (1 - pole) * w * sampleVar[k]; fFlank += (1 - pole) * w * sampleFloor[k];
         }
+        var along = new double[frames]; var across = new double[frames];
+        for (int t = 0; t < frames; t++)
+        {
+            double a = 0, c = 0;
+            for (int k = 0; k < m; k++)
+            {
+                double nrm = (rho[t * m + k] - mean[k]) * cosG[k] * weight[k];
+                a += poleW[k] * nrm; c += (1 - poleW[k]) * nrm;
+            }
+            along[t] = a / wPole; across[t] = c / wFlank;
+        }
         return new TrackContour(frames, vPole / wPole, vFlank / wFlank, fPole / wPole, fFlank / wFlank, floorMode,
-            power, sampleVar, sampleFloor, angle, weight);
+            power, sampleVar, sampleFloor, angle, weight, along, across);
     }
 
     /// <summary>Convenience overload: computes the Fourier modes of each row first.</summary>

@@ -2,6 +2,9 @@ using ShapeNoise.Outlines;
 
 namespace ShapeNoise.Pipeline;
 
+/// <summary>File format of the simulation parameters.</summary>
+public enum SimFormat { Json, Toml }
+
 /// <summary>Options of <c>analyze</c>; validated on construction. Defaults are the spec's.</summary>
 public sealed record AnalysisOptions
 {
@@ -25,6 +28,12 @@ public sealed record AnalysisOptions
     public int BootstrapResamples { get; init; } = 1000;
     /// <summary>Seed of every random resample.</summary>
     public int Seed { get; init; } = 1;
+    /// <summary>Longest lag (frames) of the autocorrelation curves.</summary>
+    public int MaxLagFrames { get; init; } = 30;
+    /// <summary>Time unit of the dimensionless simulation parameters: "tau_q", "min", or a number of minutes.</summary>
+    public string TimeUnit { get; init; } = "tau_q";
+    /// <summary>Format of the simulation-parameter file.</summary>
+    public SimFormat SimFormat { get; init; } = SimFormat.Json;
     /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
     public string? FloorFrom { get; init; }
 
@@ -38,6 +47,9 @@ public sealed record AnalysisOptions
         if (LinkOverlapFraction is <= 0 or > 1) throw new ArgumentException($"--link-overlap must be in (0, 1] (got {LinkOverlapFraction})");
         if (PixelSizeUm is { } s && !(s > 0 && double.IsFinite(s))) throw new ArgumentException($"--pixel-size must be a positive number (got {s})");
         if (FrameIntervalMin is { } t && !(t > 0 && double.IsFinite(t))) throw new ArgumentException($"--frame-interval must be a positive number (got {t})");
+        if (MaxLagFrames < 2) throw new ArgumentException($"--max-lag must be at least 2 frames (got {MaxLagFrames})");
+        if (TimeUnit is not ("tau_q" or "min") && !(double.TryParse(TimeUnit, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var tu) && tu > 0 && double.IsFinite(tu)))
+            throw new ArgumentException($"--time-unit must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
         if (BootstrapResamples < 0) throw new ArgumentException($"--bootstrap must be >= 0 (got {BootstrapResamples})");
         return this;
     }

@@ -110,7 +110,10 @@ public static class MovieAnalyzer
         if (nArea > 0 && nonStar > 0.1 * nArea) warnings.Add($"{nonStar} of {nArea} outlines are not star-shaped about their centroid: the radial function takes the farthest crossing");
         if (used > 0 && below > 0.25 * used) warnings.Add($"{below} of {used} tracks have contour fluctuations below the noise floor");
         var counts = new AnalysisCounts(frames, objects, nArea, border, small, nonStar, tracks.Count, used, below, divisions, merges);
-        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings);
+        var dynamics = Dynamics.DynamicsAnalysis.Run(tracks, options);
+        if (used > 0 && !dynamics.SokalWindowReached)
+            warnings.Add($"the integrated correlation time of q did not converge within {dynamics.MaxLag} lags (Sokal window): tracks are short compared with tau_q");
+        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics);
     }
 
     private static int[] PixelCounts(LabelScan s)

@@ -46,7 +46,7 @@ public sealed record Units(double? PixelSizeUm, string PixelSizeSource, double? 
 /// <summary>Everything <see cref="MovieAnalyzer"/> measured on one movie.</summary>
 public sealed record AnalysisResult(Reading.MovieInfo Movie, AnalysisOptions Options, Units Units, AnalysisCounts Counts,
     IReadOnlyList<CellRecord> Cells, IReadOnlyList<TrackRecord> Tracks, PooledFluctuations Pooled, double MeanCellRadiusPx,
-    NoiseFloorReference? FloorReference, IReadOnlyList<string> Warnings);
+    NoiseFloorReference? FloorReference, IReadOnlyList<string> Warnings, Dynamics.DynamicsResult Dynamics);
 
 /// <summary>The floor values a fixed-cell analysis exports (floor.json) for <c>--floor-from</c>, in px^2.</summary>
 public sealed record NoiseFloorReference(int Rays, string Outline, double VarAlongPx2, double VarAcrossPx2,

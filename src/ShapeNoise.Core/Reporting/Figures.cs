@@ -13,6 +13,66 @@ public static class Figures
         Spectrum(r).SavePng(Path.Combine(dir, "spectrum.png"), W, H);
         Anisotropy(r).SavePng(Path.Combine(dir, "anisotropy.png"), W, H);
         Profile(r).SavePng(Path.Combine(dir, "profile.png"), W, H);
+        if (r.Dynamics.Series.Count > 0) SaveGrid(Autocorrelation(r), 3, Path.Combine(dir, "autocorrelation.png"), 480, 360);
+    }
+
+    private static readonly Dictionary<string, string> SeriesTitle = new()
+    {
+        ["q"] = "elongation q", ["theta"] = "orientation (cos 2 delta theta)", ["length"] = "length L",
+        ["width"] = "width W", ["along"] = "pole sector (along)", ["across"] = "flank sector (across)",
+    };
+
+    /// <summary>One panel per series: pooled correlation with its 95% band, the fitted model, and the fitted time.</summary>
+    public static List<Plot> Autocorrelation(AnalysisResult r)
+    {
+        var plots = new List<Plot>();
+        var d = r.Dynamics; double dt = r.Units.Dt; string tu = r.Units.Time;
+        string[] order = ["q", "theta", "length", "width", "along", "across"];
+        foreach (var name in order)
+        {
+            var s = d.Series.FirstOrDefault(x => x.Name == name);
+            if (s is null) continue;
+            var plt = new Plot();
+            var xs = Enumerable.Range(0, s.Correlation.Length).Select(k => k * dt).ToArray();
+            var okBand = Enumerable.Range(0, xs.Length).Where(k => double.IsFinite(s.Low[k]) && double.IsFinite(s.High[k])).ToArray();
+            if (okBand.Length > 1)
+            {
+                var band = plt.Add.FillY(okBand.Select(k => xs[k]).ToArray(), okBand.Select(k => s.Low[k]).ToArray(), okBand.Select(k => s.High[k]).ToArray());
+                band.FillStyle.Color = Colors.SteelBlue.WithAlpha(0.25); band.LegendText = "95% band";
+            }
+            var data = plt.Add.ScatterPoints(xs, s.Correlation); data.LegendText = "pooled data"; data.Color = Colors.SteelBlue; data.MarkerSize = 5;
+            var model = plt.Add.ScatterLine(xs, s.Model); model.LegendText = "fitted model"; model.Color = Colors.OrangeRed; model.LineWidth = 2;
+            double tau = name switch
+            {
+                "q" => d.TauQFrames.Value,
+                "theta" => d.TauThetaFrames.Value,
+                _ => d.Coordinates.FirstOrDefault(c => c.Name == name)?.TauFrames.Value ?? double.NaN,
+            };
+            plt.Title($"{SeriesTitle[name]}: tau = {tau * dt:G3} {tu}");
+            plt.XLabel($"lag ({tu})");
+            plt.YLabel("correlation");
+            plt.ShowLegend(Alignment.UpperRight);
+            plots.Add(plt);
+        }
+        return plots;
+    }
+
+    /// <summary>Renders plots side by side into one PNG (SkiaSharp canvas, ScottPlot renders each panel).</summary>
+    public static void SaveGrid(IReadOnlyList<Plot> plots, int columns, string path, int panelWidth, int panelHeight)
+    {
+        int rows = (plots.Count + columns - 1) / columns;
+        var info = new SkiaSharp.SKImageInfo(columns * panelWidth, rows * panelHeight);
+        using var surface = SkiaSharp.SKSurface.Create(info);
+        surface.Canvas.Clear(SkiaSharp.SKColors.White);
+        for (int i = 0; i < plots.Count; i++)
+        {
+            var rect = new PixelRect(new Pixel((i % columns) * panelWidth, (i / columns) * panelHeight), new PixelSize(panelWidth, panelHeight));
+            plots[i].Render(surface.Canvas, rect);
+        }
+        using var img = surface.Snapshot();
+        using var png = img.Encode(SkiaSharp.SKEncodedImageFormat.Png, 100);
+        using var fs = File.Create(path);
+        png.SaveTo(fs);
     }
 
     /// <summary>Pooled mode power against mode number on a log axis: raw, floor-corrected and the floor.</summary>

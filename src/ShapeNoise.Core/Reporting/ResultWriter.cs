@@ -14,6 +14,9 @@ public static class ResultWriter
             File.WriteAllText(Path.Combine(dir, "summary.json"), Summary.Build(r).ToJsonString(Summary.Indented));
             File.WriteAllText(Path.Combine(dir, "floor.json"), Summary.Floor(r).ToJsonString(Summary.Indented));
             File.WriteAllText(Path.Combine(dir, "run.json"), provenance.ToJsonString(Summary.Indented));
+            var sim = SimulationParameters.Build(r, provenance);
+            if (r.Options.SimFormat == SimFormat.Toml) File.WriteAllText(Path.Combine(dir, "sim-params.toml"), SimulationParameters.ToToml(sim));
+            else File.WriteAllText(Path.Combine(dir, "sim-params.json"), sim.ToJsonString(Summary.Indented));
             Figures.WriteAll(r, dir);
         });
     }

@@ -21,6 +21,20 @@ public sealed record SpectrumRow(int Mode, double PowerRaw, double Floor, double
 /// <summary>profile.csv: pooled contour variance against the normal's angle from the long axis.</summary>
 public sealed record ProfileRow(double AngleLowDeg, double AngleHighDeg, double AngleDeg, double VarianceRaw, double Floor, double VarianceCorrected);
 
+/// <summary>autocorrelation.csv: one row per series and lag (tidy, long format).</summary>
+public sealed record CorrelationRow(string Series, int LagFrames, double Lag, double Correlation, long Pairs, double Low, double High, double Model);
+
+internal sealed class CorrelationMap : ClassMap<CorrelationRow>
+{
+    public CorrelationMap(Units u)
+    {
+        Map(r => r.Series).Name("series"); Map(r => r.LagFrames).Name("lag_frames");
+        if (u.FrameIntervalMin is null) Map(r => r.Lag).Ignore(); else Map(r => r.Lag).Name("lag_min");
+        Map(r => r.Correlation).Name("correlation"); Map(r => r.Pairs).Name("pairs");
+        Map(r => r.Low).Name("ci95_low"); Map(r => r.High).Name("ci95_high"); Map(r => r.Model).Name("model");
+    }
+}
+
 internal sealed class CellMap : ClassMap<CellRow>
 {
     public CellMap(Units u)
@@ -138,6 +152,15 @@ public static class Tables
         return rows;
     }
 
+    public static List<CorrelationRow> Correlations(AnalysisResult r)
+    {
+        var rows = new List<CorrelationRow>();
+        foreach (var s in r.Dynamics.Series)
+            for (int k = 0; k < s.Correlation.Length; k++)
+                rows.Add(new CorrelationRow(s.Name, k, k * r.Units.Dt, s.Correlation[k], s.Pairs[k], s.Low[k], s.High[k], s.Model[k]));
+        return rows;
+    }
+
     /// <summary>Writes rows as UTF-8 comma-separated values with a header, through a CsvHelper class map.</summary>
     public static void Write<T>(string path, IEnumerable<T> rows, ClassMap<T> map)
     {
@@ -154,5 +177,6 @@ public static class Tables
         Write(Path.Combine(dir, "tracks.csv"), Tracks(r), new TrackMap(u));
         Write(Path.Combine(dir, "spectrum.csv"), Spectrum(r), new SpectrumMap(u));
         Write(Path.Combine(dir, "profile.csv"), Profile(r), new ProfileMap(u));
+        Write(Path.Combine(dir, "autocorrelation.csv"), Correlations(r), new CorrelationMap(u));
     }
 }

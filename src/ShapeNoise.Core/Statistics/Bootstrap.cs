@@ -23,18 +23,34 @@ public static class Bootstrap
         Array.Fill(ones, 1);
         double value = statistic(ones);
         if (units == 0 || resamples <= 0) return new Estimate(value, double.NaN, double.NaN);
-        var rng = new Random(seed);
-        var counts = new int[units];
         var stats = new List<double>(resamples);
-        for (int b = 0; b < resamples; b++)
+        foreach (var counts in Draws(units, resamples, seed))
         {
-            Array.Clear(counts);
-            for (int i = 0; i < units; i++) counts[rng.Next(units)]++;
             double s = statistic(counts);
             if (double.IsFinite(s)) stats.Add(s);
         }
-        if (stats.Count < 2) return new Estimate(value, double.NaN, double.NaN);
-        var sorted = stats.ToArray();
+        return Interval(value, stats);
+    }
+
+    /// <summary>The resamples themselves: for each, every unit's multiplicity (units drawn with replacement from one
+    /// System.Random stream seeded with <paramref name="seed"/>, in order).</summary>
+    public static int[][] Draws(int units, int resamples, int seed)
+    {
+        var rng = new Random(seed);
+        var draws = new int[resamples][];
+        for (int b = 0; b < resamples; b++)
+        {
+            draws[b] = new int[units];
+            for (int i = 0; i < units; i++) draws[b][rng.Next(units)]++;
+        }
+        return draws;
+    }
+
+    /// <summary>Point value with the 2.5% and 97.5% percentiles of the finite resampled values (NaN when fewer than 2).</summary>
+    public static Estimate Interval(double value, IEnumerable<double> resampled)
+    {
+        var sorted = resampled.Where(double.IsFinite).ToArray();
+        if (sorted.Length < 2) return new Estimate(value, double.NaN, double.NaN);
         Array.Sort(sorted);
         return new Estimate(value, Descriptive.QuantileSorted(sorted, 0.025), Descriptive.QuantileSorted(sorted, 0.975));
     }

@@ -20,8 +20,11 @@ public sealed record EllipseMovieOptions
     public double SigmaAcrossPx { get; init; } = 0.5;
     /// <summary>Correlation time of the semi-axis processes (frames).</summary>
     public double TauFrames { get; init; } = 5;
-    /// <summary>Rotation speed of each cell's axis (degrees per frame; sign drawn per cell).</summary>
-    public double RotationDegPerFrame { get; init; } = 0.5;
+    /// <summary>Steady rotation speed of each cell's axis (degrees per frame; sign drawn per cell).</summary>
+    public double RotationDegPerFrame { get; init; } = 0;
+    /// <summary>Correlation time of the axis orientation under rotational diffusion (frames): C_theta(k) = exp(-k / tau_theta),
+    /// i.e. angular steps of variance 1 / (2 tau_theta) rad^2 per frame, since E cos 2 dtheta = exp(-2 var dtheta). 0 = no rotational diffusion.</summary>
+    public double TauThetaFrames { get; init; } = 40;
     /// <summary>Standard deviation of the centre's slow Ornstein-Uhlenbeck drift (px).</summary>
     public double DriftPx { get; init; } = 1.5;
     /// <summary>Canvas width; 0 = just large enough for the cells.</summary>
@@ -40,6 +43,7 @@ public sealed record EllipseMovieOptions
         if (SigmaAlongPx < 0 || SigmaAcrossPx < 0) throw new ArgumentException("--sigma-along and --sigma-across must be >= 0");
         if (SemiMinorPx - 4 * SigmaAcrossPx < 1) throw new ArgumentException("--sigma-across is too large for --b (b - 4 sigma must stay above 1 px)");
         if (!(TauFrames > 0)) throw new ArgumentException("--tau must be > 0 frames");
+        if (TauThetaFrames < 0) throw new ArgumentException("--tau-theta must be >= 0 frames (0 = no rotational diffusion)");
         if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
         if (Width < 0 || Height < 0) throw new ArgumentException("--width and --height must be >= 0");
         return this;
@@ -50,6 +54,7 @@ public sealed record EllipseMovieOptions
 public sealed record EllipseTruth(
     double Anisotropy, double AnisotropyContour, double VarLPx2, double VarWPx2, double VarAlongPx2, double VarAcrossPx2,
     double TauFrames, double SigmaAlongPx, double SigmaAcrossPx, double MeanCellRadiusPx,
+    double TauQRealisedFrames, double TauLengthRealisedFrames, double TauThetaFrames, double TauThetaRealisedFrames,
     double[][] CentreX, double[][] CentreY, double[][] A, double[][] B, double[][] Theta, int[][] LabelOfCell);
 
 /// <summary>
@@ -90,6 +95,7 @@ public sealed class EllipseMovie
             double sx = 2 + (i % fitCols + 0.5) * slot, sy = 2 + (i / fitCols + 0.5) * slot;
             double x = Normal.Sample(rng, 0, 1), y = Normal.Sample(rng, 0, 1), dx = Normal.Sample(rng, 0, 1), dy = Normal.Sample(rng, 0, 1);
             double theta0 = (rng.NextDouble() - 0.5) * Math.PI, omega = (rng.Next(2) == 0 ? -1 : 1) * o.RotationDegPerFrame * Math.PI / 180;
+            double rotSd = o.TauThetaFrames > 0 ? Math.Sqrt(1 / (2 * o.TauThetaFrames)) : 0, theta = theta0;   // E cos 2 dtheta = exp(-2 k sd^2)
             for (int t = 0; t < T; t++)
             {
                 if (t > 0)
@@ -103,7 +109,8 @@ public sealed class EllipseMovie
                 b[i][t] = o.SemiMinorPx + o.SigmaAcrossPx * y;
                 cx[i][t] = sx + o.DriftPx * dx;
                 cy[i][t] = sy + o.DriftPx * dy;
-                th[i][t] = theta0 + omega * t;
+                if (t > 0) theta += omega + rotSd * Normal.Sample(rng, 0, 1);
+                th[i][t] = theta;
             }
         }
         var labels = new int[T][];
@@ -124,6 +131,8 @@ public sealed class EllipseMovie
     {
         int n = a.Length, T = a[0].Length;
         double sL = 0, sW = 0, sAl = 0, sAc = 0, sArea = 0;
+        var frames = new int[n][]; var qSums = new List<Dynamics.LagSums>(); var lSums = new List<Dynamics.LagSums>(); var thSums = new List<Dynamics.LagSums>();
+        int maxLag = Math.Min(30, T - 1), fitLags = Math.Min(maxLag, Math.Max(4, T / 3));
         var rho = new double[T * m];
         var twoA = new double[T]; var twoB = new double[T];
         for (int i = 0; i < n; i++)
@@ -134,14 +143,25 @@ public sealed class EllipseMovie
                 sArea += Math.PI * a[i][t] * b[i][t];
                 for (int k = 0; k < m; k++) rho[t * m + k] = RadialFunction.Ellipse(a[i][t], b[i][t], 2 * Math.PI * k / m);
             }
+            frames[i] = Enumerable.Range(0, T).ToArray();
+            var q = new double[T];
+            for (int t = 0; t < T; t++) q[t] = (a[i][t] - b[i][t]) / (a[i][t] + b[i][t]);
+            qSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], q), maxLag));
+            lSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], (double[])twoA.Clone()), maxLag));
+            thSums.Add(Dynamics.OrientationCorrelation.Of(new Dynamics.TrackSeries(frames[i], th[i]), maxLag));
             sL += Descriptive.PopulationVariance(twoA);
             sW += Descriptive.PopulationVariance(twoB);
             var c = ContourFluctuations.Of(rho, T, m);
             sAl += c.VarAlongRaw; sAc += c.VarAcrossRaw;
         }
+        // Realised correlation times: the same estimators on the noise-free continuous shapes.
+        double tauQ = Dynamics.OrnsteinUhlenbeckFit.Fit(qSums, frames, [], fitLags).TauFrames;
+        double tauL = Dynamics.OrnsteinUhlenbeckFit.Fit(lSums, frames, [], fitLags).TauFrames;
+        var cTh = Dynamics.OrientationCorrelation.Pool(thSums, [], out var thPairs);
+        double tauTh = Dynamics.OrientationCorrelation.Fit(cTh, thPairs, maxLag, 20.0 * T).TauFrames;
         // Every track has T frames, so the frame-weighted pooled mean is the plain mean over cells.
         return new EllipseTruth(sL / sW, sAl / sAc, sL / n, sW / n, sAl / n, sAc / n, o.TauFrames, o.SigmaAlongPx, o.SigmaAcrossPx,
-            Math.Sqrt(sArea / (n * T) / Math.PI), cx, cy, a, b, th, labels);
+            Math.Sqrt(sArea / (n * T) / Math.PI), tauQ, tauL, o.TauThetaFrames, tauTh, cx, cy, a, b, th, labels);
     }
 
     /// <summary>Rasterises frame <paramref name="t"/>: a pixel belongs to a cell when its centre lies inside the ellipse.</summary>

@@ -32,7 +32,8 @@ public class AnalyzeCommandTests
         Assert.Equal(0, s.ExitCode);
         var r = Support.Cli.Run("analyze", d["demo/labels.tif"], "--out", d["run"], "--bootstrap", "100");
         Assert.True(r.ExitCode == 0, r.Stderr);
-        foreach (var f in new[] { "summary.json", "cells.csv", "tracks.csv", "spectrum.csv", "profile.csv", "run.json", "floor.json", "spectrum.png", "anisotropy.png", "profile.png" })
+        foreach (var f in new[] { "summary.json", "cells.csv", "tracks.csv", "spectrum.csv", "profile.csv", "run.json", "floor.json", "spectrum.png", "anisotropy.png", "profile.png",
+                                 "autocorrelation.csv", "autocorrelation.png", "sim-params.json" })
             Assert.True(new FileInfo(d[$"run/{f}"]).Length > 0, f);
         var run = JsonNode.Parse(File.ReadAllText(d["run/run.json"]))!;
         var input = run["inputs"]![0]!;
@@ -46,6 +47,18 @@ public class AnalyzeCommandTests
         var header = File.ReadLines(d["run/cells.csv"]).First();
         Assert.Contains("area_um2", header);
         Assert.Contains("time_min", header);
+    }
+
+    [Fact]
+    public void Analyze_SimFormatToml_WritesTomlInsteadOfJson()
+    {
+        using var d = new TempDir();
+        Support.Cli.Run("synth", "ellipses", "--out", d["m"], "--cells", "4", "--frames", "12");
+        var r = Support.Cli.Run("analyze", d["m/labels.tif"], "--out", d["o"], "--sim-format", "toml", "--time-unit", "min", "--bootstrap", "20");
+        Assert.True(r.ExitCode == 0, r.Stderr);
+        Assert.True(File.Exists(d["o/sim-params.toml"]));
+        Assert.False(File.Exists(d["o/sim-params.json"]));
+        Assert.Contains("T_definition = \"min\"", File.ReadAllText(d["o/sim-params.toml"]));
     }
 
     [Fact]

@@ -1,0 +1,194 @@
+namespace ShapeNoise.Dynamics;
+
+/// <summary>Result of fitting the mean-subtracted autocovariance of an Ornstein-Uhlenbeck signal plus white noise.</summary>
+/// <param name="Rho">Lag-1 correlation of the signal, exp(-dt/tau).</param>
+/// <param name="TauFrames">Correlation time in frames, -1 / ln rho.</param>
+/// <param name="SignalVariance">Stationary variance of the OU signal, sigma^2 (measurement noise removed).</param>
+/// <param name="NoiseVariance">Variance of the white measurement noise, eta^2.</param>
+/// <param name="UncorrectedTauFrames">-1 / ln C(1) of the raw pooled autocorrelation: what ignoring both biases would give.</param>
+public readonly record struct OuFit(double Rho, double TauFrames, double SignalVariance, double NoiseVariance, double UncorrectedTauFrames);
+
+/// <summary>
+/// Correlation time of an Ornstein-Uhlenbeck process seen in many short tracks, corrected for the bias that subtracting
+/// each track's own mean introduces, by fitting the exact expected value of the pooled mean-subtracted autocovariance.
+/// </summary>
+/// <remarks>
+/// For a stationary series with autocovariance gamma(h), centred on its own mean over n samples,
+/// E[sum_t (x_t - xbar)(x_{t+k} - xbar)] = sum_t [gamma(k) - a_t - a_{t+k} + b], a_t = (1/n) sum_u gamma(t - u),
+/// b = (1/n^2) sum_{u,v} gamma(u - v). With gamma(h) = sigma^2 rho^|h| + eta^2 [h = 0] (OU signal sampled at the frame
+/// interval plus white measurement noise) every term is a geometric sum, so the expectation is linear in sigma^2 and
+/// eta^2 and closed-form in rho. The pooled estimate is fitted by weighted least squares over lags 0..K (weights = pair
+/// counts): sigma^2 and eta^2 in closed form for each rho, rho by a grid over log tau refined by golden section.
+/// To first order in 1/n the expectation is the textbook E[c(k)] = gamma(k) - Var(xbar) (Priestley M.B. (1981), Spectral
+/// Analysis and Time Series, Academic Press, sec. 5.3), so the pooled lag-1 autocorrelation C(1) is biased by
+/// -(1 + rho)/n; the classical single-series result E[r1] = rho - (1 + 3 rho)/n (Marriott F.H.C. and Pope J.A. (1954),
+/// "Bias in the estimation of autocorrelations", Biometrika 41:390-402; Kendall M.G. (1954), Biometrika 41:403-404) adds
+/// the numerator-denominator correlation of a single ratio, which pooling over tracks removes. The fit is exact for any n, any mix of
+/// track lengths and gaps, rather than first-order. The OU autocorrelation exp(-|t|/tau) is that of
+/// Uhlenbeck G.E. and Ornstein L.S. (1930), "On the theory of the Brownian motion", Phys. Rev. 36:823-841.
+/// </remarks>
+public static class OrnsteinUhlenbeckFit
+{
+    /// <summary>
+    /// Expected lagged sums per unit sigma^2 (<paramref name="signal"/>) and per unit eta^2 (<paramref name="noise"/>) of a
+    /// contiguous track of n samples, lags 0..K, for the OU signal with lag-1 correlation rho. Closed form.
+    /// </summary>
+    public static void ExpectedSumsContiguous(int n, double rho, Span<double> signal, Span<double> noise)
+    {
+        double q = 1 - rho;
+        double b = (n * (1 + rho) / q - 2 * rho * (1 - Math.Pow(rho, n)) / (q * q)) / ((double)n * n);
+        for (int k = 0; k < signal.Length; k++)
+        {
+            int m = n - k;
+            if (m <= 0) { signal[k] = 0; noise[k] = 0; continue; }
+            double rk = Math.Pow(rho, k);
+            double sumA = 2.0 / (n * q) * (m * (1 + rho) - (rho + rk * rho) * (1 - Math.Pow(rho, m)) / q);
+            signal[k] = m * rk + m * b - sumA;
+            noise[k] = (k == 0 ? m : 0) - (double)m / n;
+        }
+    }
+
+    /// <summary>The same expectation for any set of frames (gaps allowed), by direct summation: O(n^2 + nK).</summary>
+    public static void ExpectedSums(ReadOnlySpan<int> frames, double rho, Span<double> signal, Span<double> noise)
+    {
+        int n = frames.Length;
+        var a = new double[n];
+        double b = 0;
+        for (int i = 0; i < n; i++)
+        {
+            double s = 0;
+            for (int j = 0; j < n; j++) s += Math.Pow(rho, Math.Abs(frames[i] - frames[j]));
+            a[i] = s / n; b += s;
+        }
+        b /= (double)n * n;
+        signal.Clear(); noise.Clear();
+        int f0 = frames[0], span = frames[n - 1] - f0 + 1;
+        var at = new int[span];
+        Array.Fill(at, -1);
+        for (int i = 0; i < n; i++) at[frames[i] - f0] = i;
+        for (int i = 0; i < n; i++)
+            for (int k = 0; k < signal.Length && frames[i] - f0 + k < span; k++)
+            {
+                int j = at[frames[i] - f0 + k];
+                if (j < 0) continue;
+                signal[k] += Math.Pow(rho, k) - a[i] - a[j] + b;
+                noise[k] += (k == 0 ? 1 : 0) - 1.0 / n;
+            }
+    }
+
+    /// <summary>Fitted tau (frames) with its seeded percentile-bootstrap 95% interval over tracks.</summary>
+    public static Statistics.Estimate TauWithInterval(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, int fitLags, int resamples, int seed)
+        => Statistics.Bootstrap.Percentile(tracks.Count, w => Fit(tracks, frames, w, fitLags).TauFrames, resamples, seed);
+
+    /// <summary>
+    /// The pooled autocorrelation the fitted model predicts for these tracks, lags 0..K: E[c(k)] / E[c(0)], including
+    /// the mean-subtraction bias and the measurement noise at lag 0.
+    /// </summary>
+    public static double[] ModelCorrelation(IReadOnlyList<int[]> frames, OuFit fit, int maxLag)
+    {
+        int K = maxLag + 1;
+        var e = new double[K]; var p = new double[K]; var tS = new double[K]; var tN = new double[K];
+        foreach (var f in frames)
+        {
+            if (f[^1] - f[0] == f.Length - 1) ExpectedSumsContiguous(f.Length, fit.Rho, tS, tN);
+            else ExpectedSums(f, fit.Rho, tS, tN);
+            for (int k = 0; k < K; k++) { e[k] += fit.SignalVariance * tS[k] + fit.NoiseVariance * tN[k]; p[k] += Math.Max(0, f[^1] - f[0] + 1 - k); }
+        }
+        var c = new double[K];
+        for (int k = 0; k < K; k++) c[k] = p[k] > 0 ? e[k] / p[k] : double.NaN;
+        double c0 = c[0];
+        for (int k = 0; k < K; k++) c[k] /= c0;
+        return c;
+    }
+
+    /// <summary>
+    /// Fits the pooled lagged sums of <paramref name="tracks"/> (with bootstrap multiplicities <paramref name="weights"/>,
+    /// empty = all 1) over lags 0..<paramref name="fitLags"/>. <paramref name="frames"/> gives each track's frames.
+    /// </summary>
+    public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags)
+    {
+        int K = fitLags + 1;
+        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs);
+        if (c.Length < 2 || !(c[0] > 0) || pairs[1] == 0) return new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
+        K = Math.Min(K, c.Length);
+        double r1 = c[1] / c[0];
+        double uncorrected = r1 > 0 && r1 < 1 ? -1 / Math.Log(r1) : double.NaN;
+
+        // Group tracks by shape: contiguous tracks of the same length share one expectation.
+        var groups = new Dictionary<int, long>();          // length -> total weight (contiguous tracks)
+        var gapped = new List<(int[] Frames, int W)>();
+        int maxLen = 1;
+        var w = weights.ToArray();
+        for (int i = 0; i < tracks.Count; i++)
+        {
+            int wi = w.Length == 0 ? 1 : w[i];
+            if (wi == 0) continue;
+            var f = frames[i];
+            maxLen = Math.Max(maxLen, f[^1] - f[0] + 1);
+            if (f[^1] - f[0] == f.Length - 1) groups[f.Length] = groups.GetValueOrDefault(f.Length) + wi;
+            else gapped.Add((f, wi));
+        }
+        var eS = new double[K]; var eN = new double[K]; var tS = new double[K]; var tN = new double[K];
+        var target = new double[K]; var weight = new double[K];
+        for (int k = 0; k < K; k++) { target[k] = c[k]; weight[k] = pairs[k]; }
+
+        double Objective(double rho, out double s2, out double e2)
+        {
+            Array.Clear(eS); Array.Clear(eN);
+            foreach (var (len, gw) in groups)
+            {
+                ExpectedSumsContiguous(len, rho, tS, tN);
+                for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
+            }
+            foreach (var (f, gw) in gapped)
+            {
+                ExpectedSums(f, rho, tS, tN);
+                for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
+            }
+            // Model of the pooled estimate: E[c(k)] = (sigma^2 eS[k] + eta^2 eN[k]) / pairs[k].
+            double saa = 0, sab = 0, sbb = 0, sya = 0, syb = 0;
+            for (int k = 0; k < K; k++)
+            {
+                if (weight[k] <= 0) continue;
+                double A = eS[k] / pairs[k], B = eN[k] / pairs[k], y = target[k], wk = weight[k];
+                saa += wk * A * A; sab += wk * A * B; sbb += wk * B * B; sya += wk * y * A; syb += wk * y * B;
+            }
+            double det = saa * sbb - sab * sab;
+            s2 = det != 0 ? (sya * sbb - syb * sab) / det : 0;
+            e2 = det != 0 ? (syb * saa - sya * sab) / det : 0;
+            if (e2 < 0) { e2 = 0; s2 = saa > 0 ? sya / saa : 0; }
+            if (s2 < 0) { s2 = 0; e2 = sbb > 0 ? syb / sbb : 0; }
+            double sse = 0;
+            for (int k = 0; k < K; k++)
+            {
+                if (weight[k] <= 0) continue;
+                double r = target[k] - (s2 * eS[k] + e2 * eN[k]) / pairs[k];
+                sse += weight[k] * r * r;
+            }
+            return sse;
+        }
+
+        // Grid over log tau from 0.05 frame to 20 x the longest track, then golden-section refinement.
+        double lo = Math.Log(0.05), hi = Math.Log(20.0 * maxLen);
+        const int grid = 48;
+        double best = double.PositiveInfinity; int bi = 0;
+        for (int g = 0; g <= grid; g++)
+        {
+            double lt = lo + (hi - lo) * g / grid;
+            double v = Objective(Math.Exp(-1 / Math.Exp(lt)), out _, out _);
+            if (v < best) { best = v; bi = g; }
+        }
+        double x0 = lo + (hi - lo) * Math.Max(0, bi - 1) / grid, x1 = lo + (hi - lo) * Math.Min(grid, bi + 1) / grid;
+        double gr = (Math.Sqrt(5) - 1) / 2;
+        double xa = x1 - gr * (x1 - x0), xb = x0 + gr * (x1 - x0);
+        double fa = Objective(Math.Exp(-1 / Math.Exp(xa)), out _, out _), fb = Objective(Math.Exp(-1 / Math.Exp(xb)), out _, out _);
+        for (int it = 0; it < 60 && x1 - x0 > 1e-7; it++)
+        {
+            if (fa < fb) { x1 = xb; xb = xa; fb = fa; xa = x1 - gr * (x1 - x0); fa = Objective(Math.Exp(-1 / Math.Exp(xa)), out _, out _); }
+            else { x0 = xa; xa = xb; fa = fb; xb = x0 + gr * (x1 - x0); fb = Objective(Math.Exp(-1 / Math.Exp(xb)), out _, out _); }
+        }
+        double tau = Math.Exp(0.5 * (x0 + x1)), rho = Math.Exp(-1 / tau);
+        Objective(rho, out var sig2, out var eta2);
+        return new OuFit(rho, tau, sig2, eta2, uncorrected);
+    }
+}

@@ -1,0 +1,154 @@
+using System.Globalization;
+using System.Text.Json.Nodes;
+using ShapeNoise.Dynamics;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Statistics;
+using Tomlyn.Model;
+
+namespace ShapeNoise.Reporting;
+
+/// <summary>
+/// Noise parameters for simulations (sim-params.json / .toml, schema documented in docs/sim-params.md): every
+/// fluctuation coordinate as an Ornstein-Uhlenbeck process dx = -x/tau dt + sqrt(2 D) dW with var = D tau, in physical
+/// units and made dimensionless with R0 = sqrt(mean area / pi) and the chosen time unit T.
+/// </summary>
+public static class SimulationParameters
+{
+    public const int SchemaVersion = 1;
+
+    /// <summary>The time unit T in the run's time unit, and its name.</summary>
+    public static (double Value, string Name) TimeUnit(AnalysisResult r)
+    {
+        double dt = r.Units.Dt;
+        return r.Options.TimeUnit switch
+        {
+            "tau_q" => (r.Dynamics.TauQFrames.Value * dt, "tau_q"),
+            "min" => (1.0, r.Units.FrameIntervalMin is null ? "frame" : "min"),
+            var x => (double.Parse(x, CultureInfo.InvariantCulture), $"{x} {r.Units.Time}"),
+        };
+    }
+
+    static JsonNode? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+    static JsonObject I(Estimate e) => Summary.Interval(e);
+
+    /// <summary>The parameter blocks shared by sim-params and summary.json ("dynamics"), so both report the same numbers.</summary>
+    public static JsonObject Dynamics(AnalysisResult r)
+    {
+        var u = r.Units; var d = r.Dynamics;
+        double s2 = u.S * u.S, dt = u.Dt, R0 = r.MeanCellRadiusPx * u.S;
+        var (T, tName) = TimeUnit(r);
+        string L2 = u.L2, Tn = u.T, D = $"{u.L2}_per_{(u.FrameIntervalMin is null ? "frame" : "min")}";
+        var coords = new JsonObject();
+        foreach (var c in d.Coordinates)
+        {
+            var tau = c.TauFrames.Scale(dt); var v = c.VariancePx2.Scale(s2); var dd = c.DPx2PerFrame.Scale(s2 / dt);
+            coords[c.Name] = new JsonObject
+            {
+                ["meaning"] = c.Meaning,
+                [$"tau_{Tn}"] = I(tau),
+                [$"variance_{L2}"] = I(v),
+                [$"D_{D}"] = I(dd),
+                ["dimensionless"] = new JsonObject
+                {
+                    ["tau_over_T"] = I(tau.Scale(1 / T)),
+                    ["variance_over_R0_squared"] = I(v.Scale(1 / (R0 * R0))),
+                    ["D_times_T_over_R0_squared"] = I(dd.Scale(T / (R0 * R0))),
+                },
+                [$"measurement_noise_variance_{L2}"] = Num(c.NoiseVariancePx2 * s2),
+            };
+        }
+        return new JsonObject
+        {
+            ["coordinates"] = coords,
+            ["elongation_q"] = new JsonObject
+            {
+                [$"tau_{Tn}"] = I(d.TauQFrames.Scale(dt)),
+                [$"tau_uncorrected_{Tn}"] = Num(d.TauQUncorrectedFrames * dt),
+                [$"tau_integrated_{Tn}"] = I(d.TauQIntegratedFrames.Scale(dt)),
+                ["sokal_window_frames"] = d.SokalWindow,
+                ["variance"] = Num(d.VarianceQ),
+                ["dimensionless"] = new JsonObject { ["tau_over_T"] = I(d.TauQFrames.Scale(dt / T)) },
+            },
+            ["orientation"] = new JsonObject
+            {
+                [$"tau_theta_{Tn}"] = I(d.TauThetaFrames.Scale(dt)),
+                ["plateau"] = Num(d.ThetaPlateau),
+                ["dimensionless"] = new JsonObject { ["tau_over_T"] = I(d.TauThetaFrames.Scale(dt / T)) },
+            },
+            ["scales"] = new JsonObject
+            {
+                [$"R0_{u.L}"] = Num(R0),
+                ["R0_definition"] = "sqrt(mean cell area / pi)",
+                [$"T_{Tn}"] = Num(T),
+                ["T_definition"] = tName,
+            },
+            ["tracks"] = d.Tracks,
+            ["max_lag_frames"] = d.MaxLag,
+            ["fit_lags_frames"] = d.FitLags,
+        };
+    }
+
+    /// <summary>sim-params content: schema, model, units, the headline anisotropy, the dynamics blocks, provenance.</summary>
+    public static JsonObject Build(AnalysisResult r, JsonObject provenance)
+    {
+        var u = r.Units;
+        var o = new JsonObject
+        {
+            ["schema"] = "shapenoise.sim-params",
+            ["schema_version"] = SchemaVersion,
+            ["model"] = "Each coordinate x is an Ornstein-Uhlenbeck process dx = -x/tau dt + sqrt(2 D) dW with stationary variance var = D tau; coordinates are independent.",
+            ["units"] = new JsonObject { ["length"] = u.Length, ["time"] = u.Time },
+            ["noise_anisotropy"] = I(r.Pooled.Anisotropy),
+            ["noise_anisotropy_definition"] = "pooled var_L / var_W over tracks (spec: anisotropy)",
+            ["noise_anisotropy_contour"] = I(r.Pooled.AnisotropyContour),
+            ["frames"] = r.Counts.Frames,
+        };
+        foreach (var (k, v) in Dynamics(r)) o[k] = v?.DeepClone();
+        o["provenance"] = new JsonObject
+        {
+            ["tool_version"] = provenance["version"]?.DeepClone(),
+            ["inputs"] = provenance["inputs"]?.DeepClone(),
+            ["options"] = provenance["options"]?.DeepClone(),
+        };
+        return o;
+    }
+
+    /// <summary>The same content as TOML (nulls become nan; TOML has no null).</summary>
+    public static string ToToml(JsonObject o) => Tomlyn.TomlSerializer.Serialize(ToTable(o), typeof(TomlTable), (Tomlyn.TomlSerializerOptions?)null);
+
+    private static TomlTable ToTable(JsonObject o)
+    {
+        var t = new TomlTable();
+        foreach (var (k, v) in o)
+        {
+            if (v is null) { t[k] = double.NaN; continue; }
+            t[k] = ToToml(v);
+        }
+        return t;
+    }
+
+    private static object ToToml(JsonNode n) => n switch
+    {
+        JsonObject jo => ToTable(jo),
+        JsonArray ja => ToArray(ja),
+        JsonValue jv when jv.TryGetValue<string>(out var s) => s,
+        JsonValue jv when jv.TryGetValue<bool>(out var b) => b,
+        JsonValue jv when jv.TryGetValue<int>(out var i) => (long)i,
+        JsonValue jv when jv.TryGetValue<long>(out var l) => l,
+        JsonValue jv => jv.GetValue<double>(),
+        _ => n.ToJsonString(),
+    };
+
+    private static object ToArray(JsonArray a)
+    {
+        if (a.Count > 0 && a.All(x => x is JsonObject))
+        {
+            var ta = new TomlTableArray();
+            foreach (var x in a) ta.Add(ToTable((JsonObject)x!));
+            return ta;
+        }
+        var arr = new TomlArray();
+        foreach (var x in a) arr.Add(x is null ? double.NaN : ToToml(x));
+        return arr;
+    }
+}
