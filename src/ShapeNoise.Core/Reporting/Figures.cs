@@ -66,8 +66,9 @@ public static class Figures
         surface.Canvas.Clear(SkiaSharp.SKColors.White);
         for (int i = 0; i < plots.Count; i++)
         {
-            var rect = new PixelRect(new Pixel((i % columns) * panelWidth, (i / columns) * panelHeight), new PixelSize(panelWidth, panelHeight));
-            plots[i].Render(surface.Canvas, rect);
+            // Each panel is rendered on its own (a plot clears the canvas it renders to), then placed on the sheet.
+            using var panel = SkiaSharp.SKBitmap.Decode(plots[i].GetImageBytes(panelWidth, panelHeight, ImageFormat.Png));
+            surface.Canvas.DrawBitmap(panel, (i % columns) * panelWidth, (i / columns) * panelHeight);
         }
         using var img = surface.Snapshot();
         using var png = img.Encode(SkiaSharp.SKEncodedImageFormat.Png, 100);
