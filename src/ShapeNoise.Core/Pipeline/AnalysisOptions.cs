@@ -34,6 +34,10 @@ public sealed record AnalysisOptions
     public string TimeUnit { get; init; } = "tau_q";
     /// <summary>Format of the simulation-parameter file.</summary>
     public SimFormat SimFormat { get; init; } = SimFormat.Json;
+    /// <summary>Gaussian width of the coarse-graining: a length in the run's unit, or a multiple of R0 ("2R0").</summary>
+    public string CoarseWidth { get; init; } = "2R0";
+    /// <summary>Grid spacing of the coarse-grained fields: a length in the run's unit, or a multiple of R0 ("0.5R0").</summary>
+    public string GridSpacing { get; init; } = "0.5R0";
     /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
     public string? FloorFrom { get; init; }
 
@@ -50,6 +54,8 @@ public sealed record AnalysisOptions
         if (MaxLagFrames < 2) throw new ArgumentException($"--max-lag must be at least 2 frames (got {MaxLagFrames})");
         if (TimeUnit is not ("tau_q" or "min") && !(double.TryParse(TimeUnit, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var tu) && tu > 0 && double.IsFinite(tu)))
             throw new ArgumentException($"--time-unit must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
+        foreach (var (name, v) in new[] { ("--coarse", CoarseWidth), ("--grid", GridSpacing) })
+            _ = Nematic.DefectAnalysis.ParseLengthPx(v, 1, 1, name);
         if (BootstrapResamples < 0) throw new ArgumentException($"--bootstrap must be >= 0 (got {BootstrapResamples})");
         return this;
     }

@@ -113,7 +113,10 @@ public static class MovieAnalyzer
         var dynamics = Dynamics.DynamicsAnalysis.Run(tracks, options);
         if (used > 0 && !dynamics.SokalWindowReached)
             warnings.Add($"the integrated correlation time of q did not converge within {dynamics.MaxLag} lags (Sokal window): tracks are short compared with tau_q");
-        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics);
+        var defects = Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options);
+        if (defects.Tracks.Count > 0 && defects.PlusTracksUsed == 0)
+            warnings.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
+        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects);
     }
 
     private static int[] PixelCounts(LabelScan s)

@@ -14,6 +14,7 @@ public enum TrackEnd { MovieEnd, Lost, Border, Small, Division, Merge }
 /// <summary>One track with its fluctuation measures (px, frames). Series are per frame of the track.</summary>
 public sealed record TrackRecord(int Id, int FirstFrame, int LastFrame, TrackEnd End,
     int[] FrameIndex, double[] LengthPx, double[] WidthPx, double[] Elongation, double[] ThetaRad, double[] AreaPx2,
+    double[] CentroidX, double[] CentroidY,
     TrackContour? Contour, double VarLPx2, double VarWPx2, bool Used)
 {
     public int Frames => FrameIndex.Length;
@@ -46,7 +47,8 @@ public sealed record Units(double? PixelSizeUm, string PixelSizeSource, double? 
 /// <summary>Everything <see cref="MovieAnalyzer"/> measured on one movie.</summary>
 public sealed record AnalysisResult(Reading.MovieInfo Movie, AnalysisOptions Options, Units Units, AnalysisCounts Counts,
     IReadOnlyList<CellRecord> Cells, IReadOnlyList<TrackRecord> Tracks, PooledFluctuations Pooled, double MeanCellRadiusPx,
-    NoiseFloorReference? FloorReference, IReadOnlyList<string> Warnings, Dynamics.DynamicsResult Dynamics);
+    NoiseFloorReference? FloorReference, IReadOnlyList<string> Warnings, Dynamics.DynamicsResult Dynamics,
+    Nematic.DefectResult Defects);
 
 /// <summary>The floor values a fixed-cell analysis exports (floor.json) for <c>--floor-from</c>, in px^2.</summary>
 public sealed record NoiseFloorReference(int Rays, string Outline, double VarAlongPx2, double VarAcrossPx2,

@@ -17,7 +17,7 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
     {
         public int Id;
         public readonly List<int> Frames = [];
-        public readonly List<double> L = [], W = [], Q = [], Theta = [], Area = [];
+        public readonly List<double> L = [], W = [], Q = [], Theta = [], Area = [], Cx = [], Cy = [];
         public readonly List<double[]> Rho = [];
         public readonly List<Complex[]> Modes = [];
     }
@@ -64,7 +64,7 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
         FourierModes.Of(rho, modes);
 
         tr.Frames.Add(frame); tr.L.Add(shape.LengthPx); tr.W.Add(shape.WidthPx); tr.Q.Add(shape.Elongation);
-        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Rho.Add(rho); tr.Modes.Add(modes);
+        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Cx.Add(shape.CentroidX); tr.Cy.Add(shape.CentroidY); tr.Rho.Add(rho); tr.Modes.Add(modes);
         return (slot, theta, modes);
     }
 
@@ -90,7 +90,7 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
             contour = ContourFluctuations.Of(rho, modes, n, rays);
         }
         Finished.Add(new TrackRecord(tr.Id, tr.Frames[0], tr.Frames[^1], why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(),
-            tr.Q.ToArray(), tr.Theta.ToArray(), tr.Area.ToArray(), contour, varL, varW, used));
+            tr.Q.ToArray(), tr.Theta.ToArray(), tr.Area.ToArray(), tr.Cx.ToArray(), tr.Cy.ToArray(), contour, varL, varW, used));
     }
 
     /// <summary>Closes every open track.</summary>

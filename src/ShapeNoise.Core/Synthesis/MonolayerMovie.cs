@@ -1,0 +1,233 @@
+namespace ShapeNoise.Synthesis;
+
+/// <summary>How the +1/2 defect of the synthetic monolayer moves.</summary>
+public enum DefectMotion { Headward, Tailward, None }
+
+/// <summary>Options of the confluent-monolayer scenario; validated on construction.</summary>
+public sealed record MonolayerMovieOptions
+{
+    public int Cells { get; init; } = 600;
+    public int Frames { get; init; } = 60;
+    /// <summary>Mean cell area (px^2).</summary>
+    public double CellAreaPx2 { get; init; } = 250;
+    /// <summary>Aspect ratio of the cells' metric ellipse (length over width along the director).</summary>
+    public double Aspect { get; init; } = 2.0;
+    /// <summary>Distance between the +1/2 and the -1/2 defect at frame 0, as a fraction of the canvas width.</summary>
+    public double Separation { get; init; } = 0.35;
+    public DefectMotion Motion { get; init; } = DefectMotion.Headward;
+    /// <summary>Speed of the +1/2 defect (px per frame).</summary>
+    public double DefectSpeedPx { get; init; } = 0.4;
+    /// <summary>Uniform flow carrying every cell (px per frame).</summary>
+    public double FlowSpeedPx { get; init; }
+    /// <summary>Direction of the flow relative to the +1/2 defect's head direction (degrees; 0 = headward).</summary>
+    public double FlowAngleDeg { get; init; }
+    /// <summary>Canvas width and height; 0 = square, just large enough for the cells.</summary>
+    public int Width { get; init; }
+    public int Height { get; init; }
+    public double PixelSizeUm { get; init; } = 0.5;
+    public double FrameIntervalMin { get; init; } = 5;
+    public int Seed { get; init; } = 11;
+
+    public MonolayerMovieOptions Validated()
+    {
+        if (Cells < 20) throw new ArgumentException($"--cells must be >= 20 (got {Cells})");
+        if (Frames < 2) throw new ArgumentException($"--frames must be >= 2 (got {Frames})");
+        if (!(CellAreaPx2 >= 40)) throw new ArgumentException($"--cell-area must be >= 40 px^2 (got {CellAreaPx2})");
+        if (!(Aspect >= 1 && Aspect <= 5)) throw new ArgumentException($"--aspect must be in [1, 5] (got {Aspect})");
+        if (!(Separation > 0.1 && Separation < 0.7)) throw new ArgumentException($"--separation must be in (0.1, 0.7) (got {Separation})");
+        if (DefectSpeedPx < 0 || FlowSpeedPx < 0) throw new ArgumentException("--defect-speed and --flow-speed must be >= 0");
+        if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
+        return this;
+    }
+}
+
+/// <summary>Prescribed truth of the monolayer scenario, per frame (px, frames).</summary>
+public sealed record MonolayerTruth(double[] PlusX, double[] PlusY, double[] MinusX, double[] MinusY, double HeadX, double HeadY,
+    double DefectHeadwardSpeedPx, double FlowVx, double FlowVy, double FlowHeadwardSpeedPx, double ThetaOffset, int Cells);
+
+/// <summary>
+/// A confluent tissue (every pixel belongs to a cell) whose cells are elongated along a prescribed director field that
+/// holds a +1/2 / -1/2 defect pair. Our own generator:
+/// <list type="number">
+/// <item>Director: theta(x) = phi_+(x)/2 - phi_-(x)/2 + pi/2, with phi_+- the polar angles about the two cores, so the
+/// +1/2 comet's head points away from the -1/2 (along -x).</item>
+/// <item>Cells: an anisotropic centroidal Voronoi tessellation. Each seed carries the metric
+/// M = R(theta) diag(1/A^2, 1/B^2) R(theta)^T of the director at its position (A/B = aspect, A B fixed by the cell area);
+/// every pixel joins the seed nearest in that seed's metric; seeds start from dart throwing with an anisotropic exclusion
+/// and are relaxed to the centroids of their cells (Lloyd's algorithm), so cells pack as ellipses aligned with the field.</item>
+/// <item>Motion: each frame the +1/2 core moves by the chosen speed along (headward) or against (tailward) its head, every
+/// seed is carried by the uniform flow, and two Lloyd steps let the packing follow the moving field.</item>
+/// </list>
+/// Label ids are redrawn every frame.
+/// </summary>
+/// <remarks>Lloyd S.P. (1982), "Least squares quantization in PCM", IEEE Trans. Inf. Theory 28:129-137; anisotropic
+/// centroidal Voronoi tessellations: Du Q. and Wang D. (2005), "Anisotropic centroidal Voronoi tessellations and their
+/// applications", SIAM J. Sci. Comput. 26:737-761.</remarks>
+public sealed class MonolayerMovie
+{
+    public MonolayerMovieOptions Options { get; }
+    public int Width { get; }
+    public int Height { get; }
+    public MonolayerTruth Truth { get; }
+    private readonly double _a, _b;
+    private List<(double X, double Y)> _initial = [];
+    /// <summary>Lloyd steps per frame that let the packing follow the moving field.</summary>
+    public const int RelaxStepsPerFrame = 4;
+
+    private MonolayerMovie(MonolayerMovieOptions o, int w, int h, MonolayerTruth truth, double a, double b)
+    { Options = o; Width = w; Height = h; Truth = truth; _a = a; _b = b; }
+
+    public static MonolayerMovie Generate(MonolayerMovieOptions o)
+    {
+        o.Validated();
+        int side = (int)Math.Ceiling(Math.Sqrt(o.Cells * o.CellAreaPx2));
+        int w = o.Width > 0 ? o.Width : side, h = o.Height > 0 ? o.Height : side;
+        // Hexagonal packing at unit metric spacing has 0.866 units of area per seed, so A B = area / 0.866.
+        double ab = o.CellAreaPx2 / 0.866, b = Math.Sqrt(ab / o.Aspect), a = o.Aspect * b;
+        double d = o.Separation * w, x0 = 0.5 * w - 0.5 * d, y0 = 0.5 * h;
+        double headX = -1, headY = 0;                           // theta offset pi/2 puts the head at -x (see the class summary)
+        double sgn = o.Motion switch { DefectMotion.Headward => 1, DefectMotion.Tailward => -1, _ => 0 };
+        var px = new double[o.Frames]; var py = new double[o.Frames]; var mx = new double[o.Frames]; var my = new double[o.Frames];
+        for (int t = 0; t < o.Frames; t++)
+        {
+            px[t] = x0 + sgn * o.DefectSpeedPx * t * headX; py[t] = y0;
+            mx[t] = x0 + d; my[t] = y0;
+        }
+        double fa = o.FlowAngleDeg * Math.PI / 180;
+        double fvx = o.FlowSpeedPx * (Math.Cos(fa) * headX - Math.Sin(fa) * headY), fvy = o.FlowSpeedPx * (Math.Sin(fa) * headX + Math.Cos(fa) * headY);
+        var truth = new MonolayerTruth(px, py, mx, my, headX, headY, sgn * o.DefectSpeedPx, fvx, fvy, fvx * headX + fvy * headY, Math.PI / 2, 0);
+        var movie = new MonolayerMovie(o, w, h, truth, a, b);
+        var rng = new Random(o.Seed);
+        var seeds = movie.DartThrow(rng, 0);
+        var owner = new int[w * h];
+        for (int it = 0; it < 10; it++) { movie.Assign(seeds, 0, owner); movie.Relax(seeds, owner); }
+        movie._initial = seeds;
+        return new MonolayerMovie(o, w, h, truth with { Cells = seeds.Count }, a, b) { _initial = seeds };
+    }
+
+    /// <summary>Director angle of the prescribed field at (x, y) in frame t.</summary>
+    public double Director(int t, double x, double y)
+        => 0.5 * Math.Atan2(y - Truth.PlusY[t], x - Truth.PlusX[t]) - 0.5 * Math.Atan2(y - Truth.MinusY[t], x - Truth.MinusX[t]) + Truth.ThetaOffset;
+
+    /// <summary>The frames in order (the tessellation evolves, so frames are produced sequentially).</summary>
+    public IEnumerable<int[]> Frames()
+    {
+        var o = Options;
+        var rng = new Random(o.Seed + 1);
+        var seeds = new List<(double X, double Y)>(_initial);
+        var owner = new int[Width * Height];
+        for (int t = 0; t < o.Frames; t++)
+        {
+            if (t > 0)
+            {
+                for (int i = 0; i < seeds.Count; i++)
+                {
+                    var (x, y) = seeds[i];
+                    x = Wrap(x + Truth.FlowVx, Width); y = Wrap(y + Truth.FlowVy, Height);
+                    seeds[i] = (x, y);
+                }
+                for (int it = 0; it < RelaxStepsPerFrame; it++) { Assign(seeds, t, owner); Relax(seeds, owner); }
+            }
+            Assign(seeds, t, owner);
+            var ids = new int[seeds.Count];
+            var used = new HashSet<int>();
+            for (int i = 0; i < ids.Length; i++) { int id; do id = 1 + rng.Next(65535); while (!used.Add(id)); ids[i] = id; }
+            var img = new int[owner.Length];
+            for (int p = 0; p < owner.Length; p++) img[p] = ids[owner[p]];
+            yield return img;
+        }
+    }
+
+    private static double Wrap(double v, int size) => v < 0 ? v + size : v >= size ? v - size : v;
+
+    private List<(double X, double Y)> DartThrow(Random rng, int t)
+    {
+        var seeds = new List<(double X, double Y)>();
+        double cell = _a;                                         // bucket size
+        int bx = (int)Math.Ceiling(Width / cell), by = (int)Math.Ceiling(Height / cell);
+        var buckets = new List<int>[bx * by];
+        for (int i = 0; i < buckets.Length; i++) buckets[i] = [];
+        const double r = 0.7;                                     // exclusion radius in metric units (reaches the target count)
+        int attempts = 0, target = Options.Cells;
+        while (seeds.Count < target && attempts++ < 200 * target)
+        {
+            double x = rng.NextDouble() * Width, y = rng.NextDouble() * Height;
+            var m = Metric(Director(t, x, y));
+            int cx = (int)(x / cell), cy = (int)(y / cell);
+            bool ok = true;
+            for (int j = Math.Max(0, cy - 1); j <= Math.Min(by - 1, cy + 1) && ok; j++)
+                for (int i = Math.Max(0, cx - 1); i <= Math.Min(bx - 1, cx + 1) && ok; i++)
+                    foreach (var s in buckets[j * bx + i])
+                        if (Dist2(m, seeds[s].X - x, seeds[s].Y - y) < r * r) { ok = false; break; }
+            if (!ok) continue;
+            buckets[cy * bx + cx].Add(seeds.Count);
+            seeds.Add((x, y));
+        }
+        return seeds;
+    }
+
+    private (double Mxx, double Mxy, double Myy) Metric(double theta)
+    {
+        double c = Math.Cos(theta), s = Math.Sin(theta), ia = 1 / (_a * _a), ib = 1 / (_b * _b);
+        return (c * c * ia + s * s * ib, c * s * (ia - ib), s * s * ia + c * c * ib);
+    }
+
+    private static double Dist2((double Mxx, double Mxy, double Myy) m, double dx, double dy) => m.Mxx * dx * dx + 2 * m.Mxy * dx * dy + m.Myy * dy * dy;
+
+    /// <summary>Every pixel (centre) joins the seed nearest in that seed's own metric (seeds bucketed on a grid of cell length A).</summary>
+    private void Assign(List<(double X, double Y)> seeds, int t, int[] owner)
+    {
+        double cell = _a;
+        int bx = (int)Math.Ceiling(Width / cell), by = (int)Math.Ceiling(Height / cell), n = seeds.Count;
+        var sx = new double[n]; var sy = new double[n]; var mxx = new double[n]; var mxy = new double[n]; var myy = new double[n];
+        var bucketOf = new int[n]; var start = new int[bx * by + 1];
+        for (int s = 0; s < n; s++)
+        {
+            (sx[s], sy[s]) = seeds[s];
+            (mxx[s], mxy[s], myy[s]) = Metric(Director(t, sx[s], sy[s]));
+            bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / cell)) * bx + Math.Min(bx - 1, (int)(sx[s] / cell));
+            start[bucketOf[s] + 1]++;
+        }
+        for (int k = 0; k < bx * by; k++) start[k + 1] += start[k];
+        var items = new int[n]; var fill = (int[])start.Clone();
+        for (int s = 0; s < n; s++) items[fill[bucketOf[s]]++] = s;
+        Parallel.For(0, Height, y =>
+        {
+            double fy = y + 0.5;
+            int cy = Math.Min(by - 1, (int)(fy / cell));
+            for (int x = 0; x < Width; x++)
+            {
+                double fx = x + 0.5;
+                int cx = Math.Min(bx - 1, (int)(fx / cell));
+                double best = double.PositiveInfinity; int bestS = 0;
+                for (int r = 1; r <= 3 && double.IsPositiveInfinity(best); r++)   // widen the search if nothing is near
+                    for (int j = Math.Max(0, cy - r); j <= Math.Min(by - 1, cy + r); j++)
+                        for (int i = Math.Max(0, cx - r); i <= Math.Min(bx - 1, cx + r); i++)
+                        {
+                            int k = j * bx + i;
+                            for (int q = start[k]; q < start[k + 1]; q++)
+                            {
+                                int s = items[q];
+                                double dx = fx - sx[s], dy = fy - sy[s];
+                                double d2 = mxx[s] * dx * dx + 2 * mxy[s] * dx * dy + myy[s] * dy * dy;
+                                if (d2 < best) { best = d2; bestS = s; }
+                            }
+                        }
+                owner[y * Width + x] = bestS;
+            }
+        });
+    }
+
+    /// <summary>One Lloyd step: every seed moves to the centroid of its cell.</summary>
+    private void Relax(List<(double X, double Y)> seeds, int[] owner)
+    {
+        var sx = new double[seeds.Count]; var sy = new double[seeds.Count]; var n = new int[seeds.Count];
+        for (int y = 0; y < Height; y++)
+            for (int x = 0; x < Width; x++)
+            {
+                int s = owner[y * Width + x];
+                sx[s] += x + 0.5; sy[s] += y + 0.5; n[s]++;
+            }
+        for (int s = 0; s < seeds.Count; s++) if (n[s] > 0) seeds[s] = (sx[s] / n[s], sy[s] / n[s]);
+    }
+}
