@@ -1,6 +1,11 @@
 #!/usr/bin/env bash
-# Runs the main job on the bundled demo movie (demo-data/ellipses), writing runs/demo.
+# Runs the main job on the bundled demo movies:
+#  - demo-data/ellipses  (isolated fluctuating cells with known truth) -> runs/demo-ellipses
+#  - demo-data/monolayer (confluent tissue with a moving +1/2 / -1/2 defect pair) -> runs/demo-monolayer
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/ensure-deps.sh
-dotnet run --project src/ShapeNoise.Cli -c Release -- analyze demo-data/ellipses/labels.tif --out runs/demo "$@"
+dotnet build src/ShapeNoise.Cli -c Release -nologo -v quiet >/dev/null
+tool=(dotnet src/ShapeNoise.Cli/bin/Release/net10.0/shapenoise.dll)
+"${tool[@]}" analyze demo-data/ellipses/labels.tif --out runs/demo-ellipses "$@"
+"${tool[@]}" analyze demo-data/monolayer/labels.tif --out runs/demo-monolayer "$@"

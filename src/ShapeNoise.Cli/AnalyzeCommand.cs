@@ -29,6 +29,8 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--max-lag <FRAMES>"), Description("Longest lag of the autocorrelation curves.")] public int MaxLag { get; init; } = 30;
         [CommandOption("--time-unit <UNIT>"), Description("Time unit of the dimensionless simulation parameters: tau_q, min, or a number of minutes.")] public string TimeUnit { get; init; } = "tau_q";
         [CommandOption("--sim-format <FORMAT>"), Description("Simulation parameters as json (sim-params.json) or toml (sim-params.toml).")] public string SimFormat { get; init; } = "json";
+        [CommandOption("--coarse <LENGTH>"), Description("Gaussian width of the nematic coarse-graining: um (px if unknown) or a multiple of R0 such as 2R0.")] public string Coarse { get; init; } = "2R0";
+        [CommandOption("--grid <LENGTH>"), Description("Grid spacing of the coarse-grained fields: um or a multiple of R0.")] public string Grid { get; init; } = "0.5R0";
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         [CommandOption("--json"), Description("Print summary.json to standard output, nothing else.")] public bool Json { get; init; }
 
@@ -49,7 +51,7 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         {
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
             MinTrackFrames = s.MinTrack, Outline = ParseOutline(s.Outline), LinkOverlapFraction = s.LinkOverlap, BootstrapResamples = s.Bootstrap,
-            Seed = s.Seed, FloorFrom = s.FloorFrom, MaxLagFrames = s.MaxLag, TimeUnit = s.TimeUnit,
+            Seed = s.Seed, FloorFrom = s.FloorFrom, MaxLagFrames = s.MaxLag, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, GridSpacing = s.Grid,
             SimFormat = s.SimFormat.ToLowerInvariant() switch
             {
                 "json" => ShapeNoise.Pipeline.SimFormat.Json,
@@ -68,10 +70,10 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 .Start(ctx =>
                 {
                     var task = ctx.AddTask("frames");
-                    result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, new SyncProgress(task), cmd);
+                    result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, new SyncProgress(task), cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
                 });
         }
-        else result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, null, cmd);
+        else result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, null, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
         if (s.Json) { Console.WriteLine(Summary.Build(result).ToJsonString(Summary.Indented)); return 0; }
         if (s.Quiet) return 0;
@@ -95,6 +97,10 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         var d = r.Dynamics;
         Row($"tau_q ({u.Time}, bias-corrected)", d.TauQFrames.Scale(u.Dt));
         Row($"tau_theta ({u.Time})", d.TauThetaFrames.Scale(u.Dt));
+        var df = r.Defects; double sv = u.S / u.Dt;
+        t.AddRow("+1/2 / -1/2 defects per frame", $"{df.PlusPerFrame:G3} / {df.MinusPerFrame:G3}", "");
+        Row($"defect headward speed ({u.Length}/{u.Time}, > 0 headward)", df.HeadwardSpeed.Scale(sv));
+        Row($"flow headward speed ({u.Length}/{u.Time})", df.FlowHeadwardSpeed.Scale(sv));
         t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");
         t.AddRow("frames", $"{r.Counts.Frames}", "");
         AnsiConsole.Write(t);

@@ -5,6 +5,13 @@ using ShapeNoise.Reporting;
 
 namespace ShapeNoise.Pipeline;
 
+/// <summary>Extra figures drawn on the movie's own frames (implemented by the imaging layer).</summary>
+public interface IFrameFigures
+{
+    /// <summary>Writes figures into <paramref name="dir"/>; <paramref name="reopen"/> opens the movie again to read frames.</summary>
+    void Write(AnalysisResult result, Func<ILabelMovie> reopen, string dir);
+}
+
 /// <summary>The whole <c>analyze</c> job: open the movie, analyse it, write the output folder with provenance.</summary>
 public static class AnalyzeJob
 {
@@ -14,8 +21,9 @@ public static class AnalyzeJob
     /// <param name="open">Opens a movie path (supplied by the imaging layer).</param>
     /// <param name="progress">Optional progress sink.</param>
     /// <param name="commandLine">The command line, for run.json.</param>
+    /// <param name="frameFigures">Optional figures drawn on the movie's frames.</param>
     public static AnalysisResult Run(string input, string outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
-        IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null)
+        IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null)
     {
         options.Validated();
         var floor = options.FloorFrom is null ? null : Summary.ReadFloor(options.FloorFrom);
@@ -27,7 +35,7 @@ public static class AnalyzeJob
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
         var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
-        ResultWriter.Write(result, outDir, prov);
+        ResultWriter.Write(result, outDir, prov, frameFigures is null ? null : dir => frameFigures.Write(result, () => open(input), dir));
         return result;
     }
 }

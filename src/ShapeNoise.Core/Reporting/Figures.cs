@@ -14,6 +14,81 @@ public static class Figures
         Anisotropy(r).SavePng(Path.Combine(dir, "anisotropy.png"), W, H);
         Profile(r).SavePng(Path.Combine(dir, "profile.png"), W, H);
         if (r.Dynamics.Series.Count > 0) SaveGrid(Autocorrelation(r), 3, Path.Combine(dir, "autocorrelation.png"), 480, 360);
+        Headward(r).SavePng(Path.Combine(dir, "headward.png"), W, H);
+        DefectFlow(r).SavePng(Path.Combine(dir, "defect-flow.png"), 640, 640);
+    }
+
+    /// <summary>Distribution of the mean headward speed per +1/2 defect track: defect displacement and cell flow at the core.</summary>
+    public static Plot Headward(AnalysisResult r)
+    {
+        var plt = new Plot();
+        double sv = r.Units.S / r.Units.Dt;
+        string unit = $"{r.Units.Length}/{r.Units.Time}";
+        var plus = r.Defects.Tracks.Where(t => t.Charge == 0.5).ToList();
+        var kin = plus.Where(t => double.IsFinite(t.HeadwardSpeed)).Select(t => t.HeadwardSpeed * sv).ToArray();
+        var flow = plus.Where(t => double.IsFinite(t.FlowHeadwardSpeed)).Select(t => t.FlowHeadwardSpeed * sv).ToArray();
+        var all = kin.Concat(flow).ToArray();
+        if (all.Length > 0)
+        {
+            double lo = Math.Min(0, all.Min()), hi = Math.Max(0, all.Max());
+            if (hi - lo < 1e-12) { lo -= 1; hi += 1; }
+            int bins = Math.Clamp((int)Math.Ceiling(Math.Sqrt(all.Length)) + 2, 5, 30);
+            double w = (hi - lo) / bins;
+            void Hist(double[] v, string label, double shift)
+            {
+                if (v.Length == 0) return;
+                var counts = new double[bins];
+                foreach (var x in v) counts[Math.Min(bins - 1, (int)((x - lo) / w))]++;
+                var pos = Enumerable.Range(0, bins).Select(b => lo + (b + 0.25 + shift) * w).ToArray();
+                var bars = plt.Add.Bars(pos, counts);
+                bars.LegendText = label;
+                foreach (var bar in bars.Bars) bar.Size = 0.45 * w;
+            }
+            Hist(kin, $"defect displacement (mean {r.Defects.HeadwardSpeed.Value * sv:G3})", 0);
+            Hist(flow, $"cell flow at the core (mean {r.Defects.FlowHeadwardSpeed.Value * sv:G3})", 0.5);
+        }
+        var zero = plt.Add.VerticalLine(0); zero.LinePattern = LinePattern.Dashed; zero.LegendText = "0: tailward <- | -> headward";
+        plt.Title($"Headward speed per +1/2 defect track (n = {kin.Length})");
+        plt.XLabel($"speed along e_head ({unit}; > 0 headward, extensile-like)");
+        plt.YLabel("defect tracks");
+        plt.ShowLegend(Alignment.UpperLeft);
+        return plt;
+    }
+
+    /// <summary>Mean cell velocity (arrows) and director (bars) around +1/2 defects, in the defect's frame with e_head along +x.</summary>
+    public static Plot DefectFlow(AnalysisResult r)
+    {
+        var plt = new Plot();
+        var f = r.Defects.Flow;
+        int side = 2 * f.Half + 1;
+        double maxV = 0;
+        for (int k = 0; k < f.Samples.Length; k++)
+            if (f.Samples[k] > 0) maxV = Math.Max(maxV, Math.Sqrt(f.Vpar[k] * f.Vpar[k] + f.Vperp[k] * f.Vperp[k]));
+        double arrowScale = maxV > 0 ? 0.9 * f.StepCoarse / maxV : 0;
+        for (int b = -f.Half; b <= f.Half && f.Samples.Length > 0; b++)
+            for (int a = -f.Half; a <= f.Half; a++)
+            {
+                int k = (b + f.Half) * side + a + f.Half;
+                if (f.Samples[k] == 0) continue;
+                double x = a * f.StepCoarse, y = b * f.StepCoarse;
+                double th = 0.5 * Math.Atan2(f.Qxy[k], f.Qxx[k]), len = 0.35 * f.StepCoarse;
+                var dl = plt.Add.Line(x - len * Math.Cos(th), y - len * Math.Sin(th), x + len * Math.Cos(th), y + len * Math.Sin(th));
+                dl.Color = Colors.Gray; dl.LineWidth = 2;
+                if (arrowScale > 0)
+                {
+                    var ar = plt.Add.Arrow(new Coordinates(x, y), new Coordinates(x + arrowScale * f.Vpar[k], y + arrowScale * f.Vperp[k]));
+                    ar.ArrowFillColor = Colors.OrangeRed; ar.ArrowLineColor = Colors.OrangeRed;
+                    ar.ArrowheadLength = 7; ar.ArrowheadWidth = 7; ar.ArrowWidth = 1.5f;
+                }
+            }
+        var core = plt.Add.Marker(0, 0); core.Color = Colors.Black; core.Size = 12;
+        var head = plt.Add.Arrow(new Coordinates(0, 0), new Coordinates(1, 0)); head.ArrowFillColor = Colors.Black; head.ArrowLineColor = Colors.Black;
+        plt.Axes.SquareUnits();
+        plt.Axes.InvertY();
+        plt.Title($"Mean cell flow around +1/2 defects (head to +x)\nlongest arrow {maxV * r.Units.S / r.Units.Dt:G3} {r.Units.Length}/{r.Units.Time}; grey: director");
+        plt.XLabel("along e_head (coarse widths)");
+        plt.YLabel("across (coarse widths)");
+        return plt;
     }
 
     private static readonly Dictionary<string, string> SeriesTitle = new()

@@ -6,7 +6,7 @@ namespace ShapeNoise.Reporting;
 /// <summary>Writes every output of <c>analyze</c> into a folder, atomically.</summary>
 public static class ResultWriter
 {
-    public static void Write(AnalysisResult r, string outDir, JsonObject provenance)
+    public static void Write(AnalysisResult r, string outDir, JsonObject provenance, Action<string>? extra = null)
     {
         OutputFolder.Write(outDir, dir =>
         {
@@ -18,6 +18,7 @@ public static class ResultWriter
             if (r.Options.SimFormat == SimFormat.Toml) File.WriteAllText(Path.Combine(dir, "sim-params.toml"), SimulationParameters.ToToml(sim));
             else File.WriteAllText(Path.Combine(dir, "sim-params.json"), sim.ToJsonString(Summary.Indented));
             Figures.WriteAll(r, dir);
+            extra?.Invoke(dir);
         });
     }
 }

@@ -35,6 +35,42 @@ internal sealed class CorrelationMap : ClassMap<CorrelationRow>
     }
 }
 
+/// <summary>defects.csv: one row per defect per frame.</summary>
+public sealed record DefectRow(int Frame, double Time, int DefectTrackId, double Charge, double X, double Y, double XPx, double YPx,
+    double? HeadX, double? HeadY, double? Vx, double? Vy, double? HeadwardSpeed, double? FlowVx, double? FlowVy, double? FlowHeadwardSpeed, double Order);
+
+internal sealed class DefectMap : ClassMap<DefectRow>
+{
+    public DefectMap(Units u)
+    {
+        string v = $"{u.L}_per_{(u.FrameIntervalMin is null ? "frame" : "min")}";
+        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name($"time_{u.T}"); Map(r => r.DefectTrackId).Name("defect_track_id");
+        Map(r => r.Charge).Name("charge");
+        if (u.PixelSizeUm is null) { Map(r => r.X).Ignore(); Map(r => r.Y).Ignore(); }
+        else { Map(r => r.X).Name("x_um"); Map(r => r.Y).Name("y_um"); }
+        Map(r => r.XPx).Name("x_px"); Map(r => r.YPx).Name("y_px");
+        Map(r => r.HeadX).Name("head_x"); Map(r => r.HeadY).Name("head_y");
+        Map(r => r.Vx).Name($"vx_{v}"); Map(r => r.Vy).Name($"vy_{v}"); Map(r => r.HeadwardSpeed).Name($"headward_speed_{v}");
+        Map(r => r.FlowVx).Name($"flow_vx_{v}"); Map(r => r.FlowVy).Name($"flow_vy_{v}"); Map(r => r.FlowHeadwardSpeed).Name($"flow_headward_speed_{v}");
+        Map(r => r.Order).Name("order");
+    }
+}
+
+/// <summary>defect-flow.csv: mean cell velocity and director around +1/2 defects in the defect's frame (head along +x).</summary>
+public sealed record FlowRow(double XCoarse, double YCoarse, double X, double Y, double? VHead, double? VSide, double? Qxx, double? Qxy, int Samples);
+
+internal sealed class FlowMap : ClassMap<FlowRow>
+{
+    public FlowMap(Units u)
+    {
+        string v = $"{u.L}_per_{(u.FrameIntervalMin is null ? "frame" : "min")}";
+        Map(r => r.XCoarse).Name("x_coarse_widths"); Map(r => r.YCoarse).Name("y_coarse_widths");
+        Map(r => r.X).Name($"x_{u.L}"); Map(r => r.Y).Name($"y_{u.L}");
+        Map(r => r.VHead).Name($"v_head_{v}"); Map(r => r.VSide).Name($"v_side_{v}");
+        Map(r => r.Qxx).Name("qxx"); Map(r => r.Qxy).Name("qxy"); Map(r => r.Samples).Name("samples");
+    }
+}
+
 internal sealed class CellMap : ClassMap<CellRow>
 {
     public CellMap(Units u)
@@ -161,6 +197,32 @@ public static class Tables
         return rows;
     }
 
+    static double? N(double v) => double.IsFinite(v) ? v : null;
+
+    public static List<DefectRow> Defects(AnalysisResult r)
+    {
+        double s = r.Units.S, dt = r.Units.Dt, sv = s / dt;
+        return r.Defects.Observations.Select(o => new DefectRow(o.Frame, o.Frame * dt, o.TrackId, o.Defect.Charge, o.Defect.X * s, o.Defect.Y * s,
+            o.Defect.X, o.Defect.Y, N(o.Defect.HeadX), N(o.Defect.HeadY), N(o.Vx * sv), N(o.Vy * sv), N(o.HeadwardSpeed * sv),
+            N(o.FlowVx * sv), N(o.FlowVy * sv), N(o.FlowHeadwardSpeed * sv), o.Defect.Order)).ToList();
+    }
+
+    public static List<FlowRow> DefectFlow(AnalysisResult r)
+    {
+        var f = r.Defects.Flow; double s = r.Units.S, sv = s / r.Units.Dt, c = r.Defects.CoarsePx;
+        var rows = new List<FlowRow>();
+        int side = 2 * f.Half + 1;
+        if (f.Samples.Length == 0) return rows;
+        for (int b = -f.Half; b <= f.Half; b++)
+            for (int a = -f.Half; a <= f.Half; a++)
+            {
+                int k = (b + f.Half) * side + a + f.Half;
+                rows.Add(new FlowRow(a * f.StepCoarse, b * f.StepCoarse, a * f.StepCoarse * c * s, b * f.StepCoarse * c * s,
+                    N(f.Vpar[k] * sv), N(f.Vperp[k] * sv), N(f.Qxx[k]), N(f.Qxy[k]), f.Samples[k]));
+            }
+        return rows;
+    }
+
     /// <summary>Writes rows as UTF-8 comma-separated values with a header, through a CsvHelper class map.</summary>
     public static void Write<T>(string path, IEnumerable<T> rows, ClassMap<T> map)
     {
@@ -178,5 +240,7 @@ public static class Tables
         Write(Path.Combine(dir, "spectrum.csv"), Spectrum(r), new SpectrumMap(u));
         Write(Path.Combine(dir, "profile.csv"), Profile(r), new ProfileMap(u));
         Write(Path.Combine(dir, "autocorrelation.csv"), Correlations(r), new CorrelationMap(u));
+        Write(Path.Combine(dir, "defects.csv"), Defects(r), new DefectMap(u));
+        Write(Path.Combine(dir, "defect-flow.csv"), DefectFlow(r), new FlowMap(u));
     }
 }

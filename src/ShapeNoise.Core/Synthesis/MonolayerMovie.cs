@@ -24,6 +24,12 @@ public sealed record MonolayerMovieOptions
     /// <summary>Canvas width and height; 0 = square, just large enough for the cells.</summary>
     public int Width { get; init; }
     public int Height { get; init; }
+    /// <summary>Relative standard deviation of each cell's metric length A (shape noise along the long axis).</summary>
+    public double SigmaAlong { get; init; } = 0.12;
+    /// <summary>Relative standard deviation of each cell's metric width B (shape noise across the long axis).</summary>
+    public double SigmaAcross { get; init; } = 0.06;
+    /// <summary>Correlation time of the shape noise (frames).</summary>
+    public double TauFrames { get; init; } = 5;
     public double PixelSizeUm { get; init; } = 0.5;
     public double FrameIntervalMin { get; init; } = 5;
     public int Seed { get; init; } = 11;
@@ -35,6 +41,8 @@ public sealed record MonolayerMovieOptions
         if (!(CellAreaPx2 >= 40)) throw new ArgumentException($"--cell-area must be >= 40 px^2 (got {CellAreaPx2})");
         if (!(Aspect >= 1 && Aspect <= 5)) throw new ArgumentException($"--aspect must be in [1, 5] (got {Aspect})");
         if (!(Separation > 0.1 && Separation < 0.7)) throw new ArgumentException($"--separation must be in (0.1, 0.7) (got {Separation})");
+        if (SigmaAlong < 0 || SigmaAcross < 0 || SigmaAlong > 0.3 || SigmaAcross > 0.3) throw new ArgumentException("--sigma-along and --sigma-across must be in [0, 0.3] (relative)");
+        if (!(TauFrames > 0)) throw new ArgumentException("--tau must be > 0 frames");
         if (DefectSpeedPx < 0 || FlowSpeedPx < 0) throw new ArgumentException("--defect-speed and --flow-speed must be >= 0");
         if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
         return this;
@@ -55,6 +63,8 @@ public sealed record MonolayerTruth(double[] PlusX, double[] PlusY, double[] Min
 /// M = R(theta) diag(1/A^2, 1/B^2) R(theta)^T of the director at its position (A/B = aspect, A B fixed by the cell area);
 /// every pixel joins the seed nearest in that seed's metric; seeds start from dart throwing with an anisotropic exclusion
 /// and are relaxed to the centroids of their cells (Lloyd's algorithm), so cells pack as ellipses aligned with the field.</item>
+/// <item>Shape noise: each seed's A and B are scaled by 1 + sigma x(t) with x an independent unit-variance AR(1) process
+/// (correlation time tau), so cells fluctuate along and across their long axis.</item>
 /// <item>Motion: each frame the +1/2 core moves by the chosen speed along (headward) or against (tailward) its head, every
 /// seed is carried by the uniform flow, and two Lloyd steps let the packing follow the moving field.</item>
 /// </list>
@@ -70,6 +80,7 @@ public sealed class MonolayerMovie
     public int Height { get; }
     public MonolayerTruth Truth { get; }
     private readonly double _a, _b;
+    private double[]? _noiseA, _noiseB;   // per-seed shape noise of the frame being generated (null while seeding)
     private List<(double X, double Y)> _initial = [];
     /// <summary>Lloyd steps per frame that let the packing follow the moving field.</summary>
     public const int RelaxStepsPerFrame = 4;
@@ -116,10 +127,18 @@ public sealed class MonolayerMovie
         var rng = new Random(o.Seed + 1);
         var seeds = new List<(double X, double Y)>(_initial);
         var owner = new int[Width * Height];
+        double rho = Math.Exp(-1 / o.TauFrames), innov = Math.Sqrt(1 - rho * rho);
+        _noiseA = new double[seeds.Count]; _noiseB = new double[seeds.Count];
+        for (int i = 0; i < seeds.Count; i++) { _noiseA[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); _noiseB[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); }
         for (int t = 0; t < o.Frames; t++)
         {
             if (t > 0)
             {
+                for (int i = 0; i < seeds.Count; i++)
+                {
+                    _noiseA[i] = rho * _noiseA[i] + innov * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
+                    _noiseB[i] = rho * _noiseB[i] + innov * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
+                }
                 for (int i = 0; i < seeds.Count; i++)
                 {
                     var (x, y) = seeds[i];
@@ -166,9 +185,9 @@ public sealed class MonolayerMovie
         return seeds;
     }
 
-    private (double Mxx, double Mxy, double Myy) Metric(double theta)
+    private (double Mxx, double Mxy, double Myy) Metric(double theta, double scaleA = 1, double scaleB = 1)
     {
-        double c = Math.Cos(theta), s = Math.Sin(theta), ia = 1 / (_a * _a), ib = 1 / (_b * _b);
+        double c = Math.Cos(theta), s = Math.Sin(theta), ia = 1 / (_a * _a * scaleA * scaleA), ib = 1 / (_b * _b * scaleB * scaleB);
         return (c * c * ia + s * s * ib, c * s * (ia - ib), s * s * ia + c * c * ib);
     }
 
@@ -184,7 +203,8 @@ public sealed class MonolayerMovie
         for (int s = 0; s < n; s++)
         {
             (sx[s], sy[s]) = seeds[s];
-            (mxx[s], mxy[s], myy[s]) = Metric(Director(t, sx[s], sy[s]));
+            (mxx[s], mxy[s], myy[s]) = Metric(Director(t, sx[s], sy[s]),
+                _noiseA is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAlong * _noiseA[s]), _noiseB is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAcross * _noiseB[s]));
             bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / cell)) * bx + Math.Min(bx - 1, (int)(sx[s] / cell));
             start[bucketOf[s] + 1]++;
         }

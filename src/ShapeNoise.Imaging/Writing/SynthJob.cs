@@ -25,6 +25,45 @@ public static class SynthJob
         return movie;
     }
 
+    /// <summary>Confluent monolayer with a moving defect pair: labels.tif (uint16, Deflate, OME-XML) and truth.json.</summary>
+    public static MonolayerMovie Monolayer(MonolayerMovieOptions o, string outDir, IEnumerable<string>? commandLine = null)
+    {
+        var movie = MonolayerMovie.Generate(o);
+        OutputFolder.Write(outDir, dir =>
+        {
+            var xml = TiffWriter.OmeXml(movie.Width, movie.Height, o.Frames, "uint16", o.PixelSizeUm, o.FrameIntervalMin);
+            TiffWriter.Write(Path.Combine(dir, "labels.tif"), movie.Width, movie.Height, movie.Frames(), TiffWriter.PixelType.UInt16, xml);
+            var t = movie.Truth; double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
+            var frames = new JsonArray();
+            for (int f = 0; f < o.Frames; f++)
+                frames.Add(new JsonObject
+                {
+                    ["frame"] = f,
+                    ["plus_x_um"] = t.PlusX[f] * s, ["plus_y_um"] = t.PlusY[f] * s, ["minus_x_um"] = t.MinusX[f] * s, ["minus_y_um"] = t.MinusY[f] * s,
+                    ["plus_x_px"] = t.PlusX[f], ["plus_y_px"] = t.PlusY[f], ["minus_x_px"] = t.MinusX[f], ["minus_y_px"] = t.MinusY[f],
+                    ["head_x"] = t.HeadX, ["head_y"] = t.HeadY,
+                });
+            var truth = new JsonObject
+            {
+                ["scenario"] = "monolayer",
+                ["description"] = "Confluent anisotropic centroidal Voronoi tissue aligned with a prescribed director field holding a +1/2/-1/2 pair; values are the prescribed truth.",
+                ["pixel_size_um"] = s, ["frame_interval_min"] = o.FrameIntervalMin,
+                ["width_px"] = movie.Width, ["height_px"] = movie.Height, ["frames"] = o.Frames, ["cells"] = t.Cells,
+                ["motion"] = o.Motion.ToString().ToLowerInvariant(),
+                ["defect_headward_speed_um_per_min"] = t.DefectHeadwardSpeedPx * sv, ["defect_headward_speed_px_per_frame"] = t.DefectHeadwardSpeedPx,
+                ["flow_vx_um_per_min"] = t.FlowVx * sv, ["flow_vy_um_per_min"] = t.FlowVy * sv,
+                ["flow_headward_speed_um_per_min"] = t.FlowHeadwardSpeedPx * sv, ["flow_headward_speed_px_per_frame"] = t.FlowHeadwardSpeedPx,
+                ["shape_noise_sigma_along"] = o.SigmaAlong, ["shape_noise_sigma_across"] = o.SigmaAcross, ["shape_noise_tau_min"] = o.TauFrames * o.FrameIntervalMin,
+                ["director"] = "theta = phi_plus/2 - phi_minus/2 + pi/2 (phi: polar angle about each core)",
+                ["defects"] = frames,
+            };
+            File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
+            var opts = JsonSerializer.SerializeToNode(o, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
+            File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("synth monolayer", [], opts, commandLine).ToJsonString(Summary.Indented));
+        });
+        return movie;
+    }
+
     /// <summary>truth.json: the realised truth by the spec's definitions (px and um), plus every cell's trajectory and label ids.</summary>
     public static JsonObject TruthJson(EllipseMovie m)
     {

@@ -62,6 +62,27 @@ public class AnalyzeCommandTests
     }
 
     [Fact]
+    public void SynthMonolayerThenAnalyze_WritesDefectOutputs()
+    {
+        using var d = new TempDir();
+        var s = Support.Cli.Run("synth", "monolayer", "--out", d["mono"], "--cells", "150", "--frames", "12", "--motion", "tailward");
+        Assert.True(s.ExitCode == 0, s.Stderr);
+        var truth = JsonNode.Parse(File.ReadAllText(d["mono/truth.json"]))!;
+        Assert.Equal("tailward", truth["motion"]!.GetValue<string>());
+        Assert.Equal(12, truth["defects"]!.AsArray().Count);
+        var r = Support.Cli.Run("analyze", d["mono/labels.tif"], "--out", d["run"], "--bootstrap", "50", "--min-track", "5");
+        Assert.True(r.ExitCode == 0, r.Stderr);
+        foreach (var f in new[] { "defects.csv", "defect-flow.csv", "defect-flow.png", "headward.png", "defects-frame-000.png", "defects-frame-011.png" })
+            Assert.True(new FileInfo(d[$"run/{f}"]).Length > 0, f);
+        var header = File.ReadLines(d["run/defects.csv"]).First();
+        Assert.StartsWith("frame,time_min,defect_track_id,charge,x_um,y_um,x_px,y_px,head_x,head_y", header);
+        Assert.Contains("headward_speed_um_per_min", header);
+        var sum = JsonNode.Parse(File.ReadAllText(d["run/summary.json"]))!;
+        foreach (var k in new[] { "plus_half_defects", "minus_half_defects", "defect_headward_speed", "flow_headward_speed", "fraction_headward" })
+            Assert.NotNull(sum[k]);
+    }
+
+    [Fact]
     public void Synth_SameSeed_SameBytes()
     {
         using var d = new TempDir();
