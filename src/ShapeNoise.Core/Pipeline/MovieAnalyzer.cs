@@ -16,8 +16,9 @@ public static class MovieAnalyzer
 
     /// <summary>Runs outlines, shape, tracking and fluctuations over <paramref name="movie"/>, one frame at a time.</summary>
     public static AnalysisResult Run(ILabelMovie movie, AnalysisOptions options, IProgress<Progress>? progress = null,
-        NoiseFloorReference? floorReference = null)
+        NoiseFloorReference? floorReference = null, PhaseTimes? times = null)
     {
+        times ??= new PhaseTimes();
         options.Validated();
         var info = movie.Info;
         if (info.FrameCount < 2)
@@ -34,21 +35,24 @@ public static class MovieAnalyzer
         int[]? prevSlot = null; // active-track slot of each object of the previous frame, or -1
         int objects = 0, border = 0, small = 0, nonStar = 0, divisions = 0, merges = 0, frames = 0;
         var rho = new double[m];
-        foreach (var frame in movie.Frames())
+        using var frameStream = movie.Frames().GetEnumerator();
+        while (times.Time("decode", frameStream.MoveNext))
         {
+            var frame = frameStream.Current;
             if (frame.Width != info.Width || frame.Height != info.Height)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
-            var scan = LabelScan.Of(frame);
+            var scan = times.Time("scan", () => LabelScan.Of(frame));
             if (scan.Boxes.Length == 0)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
             objects += scan.Boxes.Length;
             var outlines = new Outline[scan.Boxes.Length];
-            Parallel.For(0, outlines.Length, i =>
+            times.Time("outlines", () => Parallel.For(0, outlines.Length, i =>
                 outlines[i] = OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[i], i + 1,
-                    options.Outline, options.BorderMarginPx, options.MinAreaPx));
+                    options.Outline, options.BorderMarginPx, options.MinAreaPx)));
 
             FrameLinks? links = prevScan is null ? null
-                : OverlapLinking.Link(prevScan.DenseImage, PixelCounts(prevScan), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction);
+                : times.Time("tracking", () => OverlapLinking.Link(prevScan.DenseImage, PixelCounts(prevScan), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction));
+            long shapeStart = System.Diagnostics.Stopwatch.GetTimestamp();
             var slot = new int[outlines.Length];
             Array.Fill(slot, -1);
             var continued = prevSlot is null ? null : new bool[prevSlot.Length];
@@ -68,6 +72,8 @@ public static class MovieAnalyzer
                 cells.Add(new CellRecord(frame.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star,
                     modes[0].Real, 2 * modes[2].Magnitude, o.Vertices.Length));
             }
+            times.Add("shape", System.Diagnostics.Stopwatch.GetElapsedTime(shapeStart).TotalSeconds);
+            long endStart = System.Diagnostics.Stopwatch.GetTimestamp();
             if (links is not null)
             {
                 divisions += links.Divisions; merges += links.Merges;
@@ -83,18 +89,19 @@ public static class MovieAnalyzer
                     builder.End(prevSlot[a], why);
                 }
             }
+            times.Add("fluctuations", System.Diagnostics.Stopwatch.GetElapsedTime(endStart).TotalSeconds);
             prevScan = scan; prevSlot = slot;
             frames++;
             progress?.Report(new Progress(frames, info.FrameCount));
         }
         if (frames < 2)
             throw new InputException(info.Path, $"has {frames} frame(s); fluctuations need a movie of at least 2 frames");
-        builder.EndAll(TrackEnd.MovieEnd);
+        times.Time("fluctuations", () => { builder.EndAll(TrackEnd.MovieEnd); return 0; });
         var tracks = builder.Finished;
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
 
         // Cells carry the final track ids; mark which tracks are used.
-        var pooled = Pool(tracks, m, options, floorReference);
+        var pooled = times.Time("fluctuations", () => Pool(tracks, m, options, floorReference));
         int used = 0, below = 0;
         foreach (var t in tracks)
         {
@@ -110,10 +117,10 @@ public static class MovieAnalyzer
         if (nArea > 0 && nonStar > 0.1 * nArea) warnings.Add($"{nonStar} of {nArea} outlines are not star-shaped about their centroid: the radial function takes the farthest crossing");
         if (used > 0 && below > 0.25 * used) warnings.Add($"{below} of {used} tracks have contour fluctuations below the noise floor");
         var counts = new AnalysisCounts(frames, objects, nArea, border, small, nonStar, tracks.Count, used, below, divisions, merges);
-        var dynamics = Dynamics.DynamicsAnalysis.Run(tracks, options);
+        var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options));
         if (used > 0 && !dynamics.SokalWindowReached)
             warnings.Add($"the integrated correlation time of q did not converge within {dynamics.MaxLag} lags (Sokal window): tracks are short compared with tau_q");
-        var defects = Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options);
+        var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options));
         if (defects.Tracks.Count > 0 && defects.PlusTracksUsed == 0)
             warnings.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects);

@@ -1,0 +1,185 @@
+// ShapeNoise benchmark: speed and memory of `analyze` on a large synthetic monolayer, measured in one run.
+// Usage: dotnet run --project bench/ShapeNoise.Bench -c Release -- [--quick] [--guard]
+//   default : 1024 x 1024 px, ~2500 cells, 100 and 200 frames (movies generated once into bench/data)
+//   --quick : 512 x 512 px, ~625 cells, 30 and 60 frames
+//   --guard : quick run that fails (exit 1) when analysis/decode exceeds 3x the ratio recorded in bench/baseline.json
+using System.Diagnostics;
+using System.Text.Json;
+using System.Text.Json.Nodes;
+using ShapeNoise.Imaging.Reading;
+using ShapeNoise.Imaging.Writing;
+using ShapeNoise.Outlines;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Reading;
+using ShapeNoise.Reporting;
+using ShapeNoise.Shape;
+using ShapeNoise.Synthesis;
+
+bool quick = args.Contains("--quick") || args.Contains("--guard");
+bool guard = args.Contains("--guard");
+string root = FindRoot();
+string data = Path.Combine(root, "bench", "data");
+int side = quick ? 512 : 1024, cells = quick ? 625 : 2500, frames = quick ? 30 : 100;
+var movieLong = Ensure(Path.Combine(data, $"monolayer-{side}-{2 * frames}"), 2 * frames);
+var movieShort = Path.Combine(data, $"monolayer-{side}-{frames}.tif");
+if (!File.Exists(movieShort)) FirstPages(movieLong, movieShort, frames);
+
+var rows = new List<(string Name, double Seconds, string Note)>();
+var json = new JsonObject { ["machine"] = $"{Environment.ProcessorCount} cores, {GC.GetGCMemoryInfo().TotalAvailableMemoryBytes / (1 << 30)} GiB, {System.Runtime.InteropServices.RuntimeInformation.OSDescription}", ["runtime"] = Environment.Version.ToString(), ["movie"] = Path.GetFileName(movieShort), ["frames"] = frames, ["side_px"] = side };
+
+// 1. Decode only: read every page, nothing else.
+double decode = Decode(movieShort);
+rows.Add(("decode only", decode, "read and decompress every page"));
+
+// 2. In-process analysis, phase by phase.
+var times = new PhaseTimes();
+AnalysisResult result;
+using (var m = LabelMovies.Open(movieShort)) result = MovieAnalyzer.Run(m, new AnalysisOptions(), null, null, times);
+foreach (var (phase, sec) in times.Phases) rows.Add((phase, sec, phase == "decode" ? "inside the analysis" : ""));
+string tmpOut = Path.Combine(Path.GetTempPath(), $"shapenoise-bench-{Environment.ProcessId}");
+var sw = Stopwatch.StartNew();
+ResultWriter.Write(result, tmpOut, Provenance.Describe("analyze", [movieShort], new JsonObject()), dir => new ShapeNoise.Imaging.Drawing.DefectOverlays().Write(result, () => LabelMovies.Open(movieShort), dir));
+rows.Add(("report", sw.Elapsed.TotalSeconds, "tables, JSON, figures, overlays"));
+Directory.Delete(tmpOut, true);
+double analysisTotal = times.Phases.Sum(p => p.Seconds);
+int outlines = result.Counts.Outlines;
+
+// 3. Naive C#: per-label full-frame mask and per-label contour search, on the first frames.
+int naiveFrames = quick ? 3 : 1;
+var (naive, ours) = NaiveVsOurs(movieShort, naiveFrames);
+
+// 4. End to end through the command (process start to report written), with peak memory; 1x and 2x frames.
+var (e2e, peak) = EndToEnd(movieShort, root);
+var (e2eLong, peakLong) = guard ? (double.NaN, 0L) : EndToEnd(movieLong, root);
+
+double defectsPerFrame = times.Phases.First(p => p.Phase == "defects").Seconds / frames;
+double outlinesPerFrame = times.Phases.First(p => p.Phase == "outlines").Seconds / frames;
+Console.WriteLine($"ShapeNoise benchmark — {json["machine"]}, .NET {Environment.Version}");
+Console.WriteLine($"movie: {side} x {side} px, {frames} frames, {outlines / frames} analysed outlines per frame ({cells} cells generated)");
+Console.WriteLine();
+Console.WriteLine($"{"phase",-28}{"seconds",10}  note");
+foreach (var (name, sec, note) in rows) Console.WriteLine($"{name,-28}{sec,10:F3}  {note}");
+Console.WriteLine();
+var ratios = new JsonObject
+{
+    ["end_to_end_s"] = e2e,
+    ["frames_per_s"] = frames / e2e,
+    ["outlines_per_s"] = outlines / e2e,
+    ["end_to_end_over_decode"] = e2e / decode,
+    ["analysis_over_decode"] = analysisTotal / decode,
+    ["naive_over_ours_outlines_per_frame"] = naive / ours,
+    ["defects_over_outlines_per_frame"] = defectsPerFrame / outlinesPerFrame,
+    ["peak_memory_mb"] = peak / 1048576.0,
+};
+if (!guard)
+{
+    ratios["end_to_end_2x_frames_s"] = e2eLong;
+    ratios["time_2x_over_1x"] = e2eLong / e2e;
+    ratios["peak_memory_2x_frames_mb"] = peakLong / 1048576.0;
+}
+foreach (var (k, v) in ratios) Console.WriteLine($"{k,-36}{v!.GetValue<double>(),12:G4}");
+Console.WriteLine($"(naive C#: {naive:F3} s per frame vs {ours:F3} s per frame for the same outlines and shape measures, over {naiveFrames} frame(s))");
+json["phases"] = new JsonObject(rows.Select(r => KeyValuePair.Create(r.Name, (JsonNode?)JsonValue.Create(r.Seconds))));
+json["ratios"] = ratios;
+string results = Path.Combine(root, "bench", "results");
+Directory.CreateDirectory(results);
+File.WriteAllText(Path.Combine(results, quick ? "latest-quick.json" : "latest.json"), json.ToJsonString(new JsonSerializerOptions { WriteIndented = true }));
+
+if (guard)
+{
+    var baseline = JsonNode.Parse(File.ReadAllText(Path.Combine(root, "bench", "baseline.json")))!;
+    double recorded = baseline["quick_analysis_over_decode"]!.GetValue<double>();
+    double now = analysisTotal / decode;
+    Console.WriteLine($"guard: analysis/decode {now:F1} (recorded {recorded:F1}, limit {3 * recorded:F1})");
+    if (now > 3 * recorded) { Console.WriteLine("guard: FAILED — gross slowdown"); return 1; }
+    Console.WriteLine("guard: ok");
+}
+return 0;
+
+static string FindRoot()
+{
+    var d = new DirectoryInfo(AppContext.BaseDirectory);
+    while (d is not null && !File.Exists(Path.Combine(d.FullName, "ShapeNoise.sln"))) d = d.Parent;
+    return d?.FullName ?? throw new InvalidOperationException("ShapeNoise.sln not found above the benchmark");
+}
+
+string Ensure(string dir, int n)
+{
+    string tif = Path.Combine(dir, "labels.tif");
+    if (File.Exists(tif)) return tif;
+    Console.WriteLine($"generating {tif} ({side} px, {cells} cells, {n} frames) ...");
+    SynthJob.Monolayer(new MonolayerMovieOptions { Cells = cells, CellAreaPx2 = side * side / (double)cells, Frames = n, Width = side, Height = side }, dir);
+    return tif;
+}
+
+static void FirstPages(string src, string dst, int n)
+{
+    using var t = new TiffPages(src);
+    var p0 = t.Pages[0];
+    TiffWriter.Write(dst, p0.Width, p0.Height, Enumerable.Range(0, n).Select(t.ReadLabels), TiffWriter.PixelType.UInt16, p0.Description?.Replace($"SizeT=\"{t.Pages.Count}\"", $"SizeT=\"{n}\"").Replace($"PlaneCount=\"{t.Pages.Count}\"", $"PlaneCount=\"{n}\""));
+}
+
+static double Decode(string movie)
+{
+    var sw = Stopwatch.StartNew();
+    long sum = 0;
+    using (var m = LabelMovies.Open(movie)) foreach (var f in m.Frames()) sum += f.Labels[f.Labels.Length / 2];
+    GC.KeepAlive(sum);
+    return sw.Elapsed.TotalSeconds;
+}
+
+static (double Naive, double Ours) NaiveVsOurs(string movie, int frames)
+{
+    double naive = 0, ours = 0;
+    using var m = LabelMovies.Open(movie);
+    var rho = new double[64];
+    foreach (var f in m.Frames().Take(frames))
+    {
+        // Ours: one scan, boxes, parallel tracing inside each box, then shape and rays.
+        var sw = Stopwatch.StartNew();
+        var scan = LabelScan.Of(f);
+        var outl = new Outline[scan.Boxes.Length];
+        Parallel.For(0, outl.Length, i => outl[i] = OutlineTracer.Trace(scan.DenseImage, f.Width, f.Height, scan.Boxes[i], i + 1, OutlineMethod.Midpoint, 1, 30));
+        foreach (var o in outl) if (o.Status == OutlineStatus.Ok) { var s = ShapeMeasures.Of(o.Vertices); RadialFunction.Sample(o.Vertices, new Point2(s.CentroidX, s.CentroidY), s.ThetaRad, rho); }
+        ours += sw.Elapsed.TotalSeconds;
+        // Naive: for every label, a full-frame mask, a full-frame component search and tracing, single-threaded.
+        sw.Restart();
+        var labels = new HashSet<int>(f.Labels); labels.Remove(0);
+        var full = new int[f.Labels.Length];
+        foreach (var l in labels)
+        {
+            for (int i = 0; i < full.Length; i++) full[i] = f.Labels[i] == l ? 1 : 0;
+            var box = new LabelBox(l, 0, 0, f.Width - 1, f.Height - 1, 0);
+            var o = OutlineTracer.Trace(full, f.Width, f.Height, box, 1, OutlineMethod.Midpoint, 0, 30);
+            if (o.Status == OutlineStatus.Ok) { var s = ShapeMeasures.Of(o.Vertices); RadialFunction.Sample(o.Vertices, new Point2(s.CentroidX, s.CentroidY), s.ThetaRad, rho); }
+        }
+        naive += sw.Elapsed.TotalSeconds;
+    }
+    return (naive / frames, ours / frames);
+}
+
+static (double Seconds, long PeakBytes) EndToEnd(string movie, string root)
+{
+    string dll = Path.Combine(root, "src", "ShapeNoise.Cli", "bin", "Release", "net10.0", "shapenoise.dll");
+    if (!File.Exists(dll)) dll = typeof(ShapeNoise.Cli.ExitCodes).Assembly.Location;
+    string outDir = Path.Combine(Path.GetTempPath(), $"shapenoise-bench-e2e-{Environment.ProcessId}");
+    var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+    foreach (var a in new[] { dll, "analyze", movie, "--out", outDir, "--quiet" }) psi.ArgumentList.Add(a);
+    var sw = Stopwatch.StartNew();
+    using var p = Process.Start(psi)!;
+    long peak = 0;
+    var err = p.StandardError.ReadToEndAsync();
+    while (!p.WaitForExit(20))
+    {
+        try
+        {
+            foreach (var line in File.ReadLines($"/proc/{p.Id}/status"))
+                if (line.StartsWith("VmHWM:")) peak = Math.Max(peak, 1024 * long.Parse(line.Split(' ', StringSplitOptions.RemoveEmptyEntries)[1]));
+        }
+        catch (IOException) { }
+    }
+    double s = sw.Elapsed.TotalSeconds;
+    if (p.ExitCode != 0) throw new InvalidOperationException($"analyze failed: {err.Result}");
+    Directory.Delete(outDir, true);
+    return (s, peak);
+}
