@@ -51,76 +51,104 @@ public static class OutlineTracer
     }
 
     /// <summary>Keeps only the largest 4-connected component of a 0/1 mask (ties: the first in raster order); returns its size.</summary>
+    /// <remarks>Fast path: a flood fill from the first pixel that reaches every set pixel proves there is one component.</remarks>
     public static int KeepLargestComponent(byte[] mask, int w, int h)
     {
+        int total = 0;
+        for (int i = 0; i < mask.Length; i++) total += mask[i];
+        int first = Array.IndexOf(mask, (byte)1);
+        if (first < 0) return 0;
+        var stack = new int[total];
+        int size = Fill(mask, w, h, first, 2, stack);          // mark the first component with 2
+        if (size == total)
+        {
+            for (int i = 0; i < mask.Length; i++) if (mask[i] == 2) mask[i] = 1;
+            return size;
+        }
+        // Several components: label them all (3, 4, ... in a side array), keep the largest.
         var comp = new int[mask.Length];
-        var stack = new Stack<int>();
-        int best = 0, bestId = 0, id = 0;
+        for (int i = 0; i < mask.Length; i++) if (mask[i] == 2) { comp[i] = 1; mask[i] = 1; }
+        int best = size, bestId = 1, id = 1;
         for (int i = 0; i < mask.Length; i++)
         {
-            if (mask[i] == 0 || comp[i] != 0) continue;
+            if (mask[i] != 1 || comp[i] != 0) continue;
             id++;
-            int size = 0;
-            comp[i] = id; stack.Push(i);
-            while (stack.Count > 0)
+            int n = 0, sp = 0;
+            comp[i] = id; stack[sp++] = i;
+            while (sp > 0)
             {
-                int p = stack.Pop(); size++;
-                int x = p % w, y = p / w;
-                if (x > 0 && mask[p - 1] != 0 && comp[p - 1] == 0) { comp[p - 1] = id; stack.Push(p - 1); }
-                if (x < w - 1 && mask[p + 1] != 0 && comp[p + 1] == 0) { comp[p + 1] = id; stack.Push(p + 1); }
-                if (y > 0 && mask[p - w] != 0 && comp[p - w] == 0) { comp[p - w] = id; stack.Push(p - w); }
-                if (y < h - 1 && mask[p + w] != 0 && comp[p + w] == 0) { comp[p + w] = id; stack.Push(p + w); }
+                int p = stack[--sp]; n++;
+                int x = p % w;
+                if (x > 0 && mask[p - 1] != 0 && comp[p - 1] == 0) { comp[p - 1] = id; stack[sp++] = p - 1; }
+                if (x < w - 1 && mask[p + 1] != 0 && comp[p + 1] == 0) { comp[p + 1] = id; stack[sp++] = p + 1; }
+                if (p >= w && mask[p - w] != 0 && comp[p - w] == 0) { comp[p - w] = id; stack[sp++] = p - w; }
+                if (p + w < mask.Length && mask[p + w] != 0 && comp[p + w] == 0) { comp[p + w] = id; stack[sp++] = p + w; }
             }
-            if (size > best) { best = size; bestId = id; }
+            if (n > best) { best = n; bestId = id; }
         }
-        if (id > 1)
-            for (int i = 0; i < mask.Length; i++) if (comp[i] != bestId) mask[i] = 0;
+        for (int i = 0; i < mask.Length; i++) if (comp[i] != bestId) mask[i] = 0;
         return best;
+    }
+
+    /// <summary>4-connected flood fill of value-1 pixels from <paramref name="start"/>, writing <paramref name="mark"/>; returns the size.</summary>
+    private static int Fill(byte[] mask, int w, int h, int start, byte mark, int[] stack)
+    {
+        int n = 0, sp = 0;
+        mask[start] = mark; stack[sp++] = start;
+        while (sp > 0)
+        {
+            int p = stack[--sp]; n++;
+            int x = p % w;
+            if (x > 0 && mask[p - 1] == 1) { mask[p - 1] = mark; stack[sp++] = p - 1; }
+            if (x < w - 1 && mask[p + 1] == 1) { mask[p + 1] = mark; stack[sp++] = p + 1; }
+            if (p >= w && mask[p - w] == 1) { mask[p - w] = mark; stack[sp++] = p - w; }
+            if (p + w < mask.Length && mask[p + w] == 1) { mask[p + w] = mark; stack[sp++] = p + w; }
+        }
+        return n;
     }
 
     private static List<Point2> FollowCracks(byte[] mask, int w, int h, OutlineMethod method, float[]? smooth)
     {
         int start = Array.IndexOf(mask, (byte)1);
         int sx = start % w, sy = start / w;
-        // Corners are integer (x, y); pixel (r, c) spans [c, c+1] x [r, r+1]. Start on the top crack of the first pixel, heading +x.
-        int vx = sx, vy = sy, dx = 1, dy = 0;
+        // Corners are integer (x, y); pixel (r, c) spans [c, c+1] x [r, r+1]. Start on the top crack of the first pixel,
+        // heading +x, inside on the right (right of (dx, dy) with y down is (-dy, dx)).
+        int vx = sx, vy = sy, dir = 0;
+        // Per direction E, S, W, N: the inside and outside pixel of the crack leaving a corner, and the pixels ahead-right
+        // and ahead-left at the corner it reaches, as offsets from the corner it leaves (integer arithmetic, no floors).
+        ReadOnlySpan<int> DX = [1, 0, -1, 0], DY = [0, 1, 0, -1];
+        ReadOnlySpan<int> inX = [0, -1, -1, 0], inY = [0, 0, -1, -1], outX = [0, 0, -1, -1], outY = [-1, 0, 0, -1];
         var pts = new List<Point2>(64);
-        bool Inside(int px, int py) => px >= 0 && py >= 0 && px < w && py < h && mask[py * w + px] != 0;
         int guard = 4 * (w + 1) * (h + 1) + 8;
         do
         {
-            // Crack from (vx, vy) to (vx+dx, vy+dy); inside on the right (right of (dx,dy) with y down is (-dy, dx)).
-            int rx = -dy, ry = dx;
-            // Pixel indices of the inside (right) and outside (left) pixels of this crack.
-            double mx = vx + 0.5 * dx, my = vy + 0.5 * dy;
-            int inX = (int)Math.Floor(mx + 0.5 * rx), inY = (int)Math.Floor(my + 0.5 * ry);
-            int outX = (int)Math.Floor(mx - 0.5 * rx), outY = (int)Math.Floor(my - 0.5 * ry);
+            int dx = DX[dir], dy = DY[dir];
+            int ix = vx + inX[dir], iy = vy + inY[dir], ox = vx + outX[dir], oy = vy + outY[dir];
             switch (method)
             {
                 case OutlineMethod.PixelEdge:
                     pts.Add(new Point2(vx, vy));
                     break;
                 case OutlineMethod.Midpoint:
-                    pts.Add(new Point2(mx, my));
+                    pts.Add(new Point2(vx + 0.5 * dx, vy + 0.5 * dy));
                     break;
                 default:
                 {
-                    double fi = smooth![inY * w + inX], fo = smooth[outY * w + outX];
+                    double fi = smooth![iy * w + ix], fo = smooth[oy * w + ox];
                     double t = fi > 0.5 && fo < 0.5 ? (fi - 0.5) / (fi - fo) : 0.5;
-                    double cxIn = inX + 0.5, cyIn = inY + 0.5, cxOut = outX + 0.5, cyOut = outY + 0.5;
-                    pts.Add(new Point2(cxIn + t * (cxOut - cxIn), cyIn + t * (cyOut - cyIn)));
+                    pts.Add(new Point2(ix + 0.5 + t * (ox - ix), iy + 0.5 + t * (oy - iy)));
                     break;
                 }
             }
             vx += dx; vy += dy;
-            // Pixels ahead-right and ahead-left of the new corner.
-            double ax = vx + 0.5 * dx, ay = vy + 0.5 * dy;
-            bool ar = Inside((int)Math.Floor(ax + 0.5 * rx), (int)Math.Floor(ay + 0.5 * ry));
-            bool al = Inside((int)Math.Floor(ax - 0.5 * rx), (int)Math.Floor(ay - 0.5 * ry));
-            if (!ar) { int t = dx; dx = -dy; dy = t; }          // turn right (also at diagonal contacts: 4-connectivity)
-            else if (al) { int t = dx; dx = dy; dy = -t; }      // turn left
+            // The crack that would continue straight has inside pixel (vx + inX, vy + inY) and outside (vx + outX, vy + outY).
+            int arX = vx + inX[dir], arY = vy + inY[dir], alX = vx + outX[dir], alY = vy + outY[dir];
+            bool ar = arX >= 0 && arY >= 0 && arX < w && arY < h && mask[arY * w + arX] != 0;
+            bool al = alX >= 0 && alY >= 0 && alX < w && alY < h && mask[alY * w + alX] != 0;
+            if (!ar) dir = (dir + 1) & 3;          // turn right (also at diagonal contacts: 4-connectivity)
+            else if (al) dir = (dir + 3) & 3;      // turn left
             if (--guard < 0) throw new InvalidOperationException("outline tracing did not close");
-        } while (vx != sx || vy != sy || dx != 1 || dy != 0);
+        } while (vx != sx || vy != sy || dir != 0);
 
         if (method == OutlineMethod.PixelEdge) RemoveCollinear(pts);
         return pts;

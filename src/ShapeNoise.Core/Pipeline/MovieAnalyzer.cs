@@ -34,7 +34,6 @@ public static class MovieAnalyzer
         LabelScan? prevScan = null;
         int[]? prevSlot = null; // active-track slot of each object of the previous frame, or -1
         int objects = 0, border = 0, small = 0, nonStar = 0, divisions = 0, merges = 0, frames = 0;
-        var rho = new double[m];
         using var frameStream = movie.Frames().GetEnumerator();
         while (times.Time("decode", frameStream.MoveNext))
         {
@@ -56,20 +55,32 @@ public static class MovieAnalyzer
             var slot = new int[outlines.Length];
             Array.Fill(slot, -1);
             var continued = prevSlot is null ? null : new bool[prevSlot.Length];
+            // Per-outline shape, rays and modes are independent: computed in parallel, then appended to tracks in order.
+            var shapes = new ShapeMeasures[outlines.Length]; var rays = new double[outlines.Length][]; var modesRaw = new Complex[outlines.Length][];
+            var star = new bool[outlines.Length];
+            Parallel.For(0, outlines.Length, i =>
+            {
+                var o = outlines[i];
+                if (o.Status != OutlineStatus.Ok) return;
+                shapes[i] = ShapeMeasures.Of(o.Vertices);
+                rays[i] = new double[m];
+                star[i] = RadialFunction.Sample(o.Vertices, new Point2(shapes[i].CentroidX, shapes[i].CentroidY), shapes[i].ThetaRad, rays[i]);
+                modesRaw[i] = new Complex[nm];
+                FourierModes.Of(rays[i], modesRaw[i]);
+            });
             for (int i = 0; i < outlines.Length; i++)
             {
                 var o = outlines[i];
                 if (o.Status == OutlineStatus.Border) { border++; continue; }
                 if (o.Status == OutlineStatus.Small) { small++; continue; }
-                var shape = ShapeMeasures.Of(o.Vertices);
-                bool star = RadialFunction.Sample(o.Vertices, new Point2(shape.CentroidX, shape.CentroidY), shape.ThetaRad, rho);
-                if (!star) nonStar++;
+                var shape = shapes[i];
+                if (!star[i]) nonStar++;
                 int a = links is null ? -1 : links.Predecessor[i];
                 int s = a >= 0 && prevSlot![a] >= 0 ? prevSlot[a] : -1;
                 if (s >= 0) continued![a] = true;
-                var (trackSlot, thetaCont, modes) = builder.Append(s, frame.Index, shape, rho);
+                var (trackSlot, thetaCont, modes) = builder.Append(s, frame.Index, shape, rays[i], modesRaw[i]);
                 slot[i] = trackSlot;
-                cells.Add(new CellRecord(frame.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star,
+                cells.Add(new CellRecord(frame.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star[i],
                     modes[0].Real, 2 * modes[2].Magnitude, o.Vertices.Length));
             }
             times.Add("shape", System.Diagnostics.Stopwatch.GetElapsedTime(shapeStart).TotalSeconds);

@@ -123,22 +123,21 @@ internal sealed class ProfileMap : ClassMap<ProfileRow>
 /// <summary>Builds the tidy tables of an analysis in the run's units (lengths x s, areas and variances x s^2, times x dt).</summary>
 public static class Tables
 {
-    public static List<CellRow> Cells(AnalysisResult r)
+    /// <summary>cells.csv rows, produced lazily (a large movie has hundreds of thousands).</summary>
+    public static IEnumerable<CellRow> Cells(AnalysisResult r)
     {
         double s = r.Units.S, s2 = s * s, dt = r.Units.Dt;
         var used = new HashSet<int>();
         foreach (var t in r.Tracks) if (t.Used) used.Add(t.Id);
-        var rows = new List<CellRow>(r.Cells.Count);
         foreach (var c in r.Cells)
         {
             var sh = c.Shape;
             double th = Math.IEEERemainder(c.ThetaContinuousRad, Math.PI);
             if (th <= -Math.PI / 2) th += Math.PI;
-            rows.Add(new CellRow(c.Frame, c.Frame * dt, c.Label, c.TrackId, used.Contains(c.TrackId), sh.CentroidX * s, sh.CentroidY * s,
+            yield return new CellRow(c.Frame, c.Frame * dt, c.Label, c.TrackId, used.Contains(c.TrackId), sh.CentroidX * s, sh.CentroidY * s,
                 sh.AreaPx2 * s2, sh.PerimeterPx * s, sh.LengthPx * s, sh.WidthPx * s, sh.AspectRatio, sh.Elongation, th,
-                c.MeanRadiusPx * s, c.Mode2AmplitudePx * s, c.StarShaped, c.Vertices));
+                c.MeanRadiusPx * s, c.Mode2AmplitudePx * s, c.StarShaped, c.Vertices);
         }
-        return rows;
     }
 
     public static List<TrackRow> Tracks(AnalysisResult r)

@@ -19,7 +19,6 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
         public readonly List<int> Frames = [];
         public readonly List<double> L = [], W = [], Q = [], Theta = [], Area = [], Cx = [], Cy = [];
         public readonly List<double[]> Rho = [];
-        public readonly List<Complex[]> Modes = [];
     }
 
     private readonly List<Open?> _slots = [];
@@ -37,7 +36,8 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
     /// <paramref name="rhoRaw"/> holds the radial samples cast from the frame's own long axis; they are copied.
     /// Returns the slot, the continuous axis angle and the body-frame modes of this outline.
     /// </summary>
-    public (int Slot, double ThetaContinuous, Complex[] Modes) Append(int slot, int frame, ShapeMeasures shape, ReadOnlySpan<double> rhoRaw)
+    public (int Slot, double ThetaContinuous, Complex[] Modes) Append(int slot, int frame, ShapeMeasures shape, ReadOnlySpan<double> rhoRaw,
+        Complex[]? modesRaw = null)
     {
         if (rhoRaw.Length != rays) throw new ArgumentException($"expected {rays} radial samples");
         Open tr;
@@ -60,11 +60,17 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
         }
         int shift = (half & 1) != 0 ? rays / 2 : 0;   // r(theta + pi + psi_k) = rho_raw[k + M/2]
         for (int k = 0; k < rays; k++) rho[k] = rhoRaw[(k + shift) % rays];
-        var modes = new Complex[rays / 2 + 1];
-        FourierModes.Of(rho, modes);
+        Complex[] modes;
+        if (modesRaw is null) { modes = new Complex[rays / 2 + 1]; FourierModes.Of(rho, modes); }
+        else
+        {
+            // A shift by M/2 samples multiplies C_n by exp(i n pi) = (-1)^n.
+            modes = modesRaw;
+            if (shift != 0) for (int n = 1; n < modes.Length; n += 2) modes[n] = -modes[n];
+        }
 
         tr.Frames.Add(frame); tr.L.Add(shape.LengthPx); tr.W.Add(shape.WidthPx); tr.Q.Add(shape.Elongation);
-        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Cx.Add(shape.CentroidX); tr.Cy.Add(shape.CentroidY); tr.Rho.Add(rho); tr.Modes.Add(modes);
+        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Cx.Add(shape.CentroidX); tr.Cy.Add(shape.CentroidY); tr.Rho.Add(rho);
         return (slot, theta, modes);
     }
 
@@ -84,10 +90,10 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
         }
         if (used)
         {
-            int nm = rays / 2 + 1;
-            var rho = new double[n * rays]; var modes = new Complex[n * nm];
-            for (int t = 0; t < n; t++) { tr.Rho[t].CopyTo(rho, t * rays); tr.Modes[t].CopyTo(modes, t * nm); }
-            contour = ContourFluctuations.Of(rho, modes, n, rays);
+            // Modes are recomputed here rather than kept per outline: open tracks then hold only their radii.
+            var rho = new double[n * rays];
+            for (int t = 0; t < n; t++) tr.Rho[t].CopyTo(rho, t * rays);
+            contour = ContourFluctuations.Of(rho, n, rays);
         }
         Finished.Add(new TrackRecord(tr.Id, tr.Frames[0], tr.Frames[^1], why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(),
             tr.Q.ToArray(), tr.Theta.ToArray(), tr.Area.ToArray(), tr.Cx.ToArray(), tr.Cy.ToArray(), contour, varL, varW, used));

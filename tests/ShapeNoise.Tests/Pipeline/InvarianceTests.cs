@@ -23,7 +23,7 @@ public class InvarianceTests
         Assert.Equal(V(a, "anisotropy_contour"), V(b, "anisotropy_contour"), 12);
         Assert.Equal(V(a, "var_L") * 0.0625, V(b, "var_L"), 12);
         Assert.Equal(a["mean_cell_radius"]!.GetValue<double>() * 0.25, b["mean_cell_radius"]!.GetValue<double>(), 12);
-        var ca = Tables.Cells(px); var cb = Tables.Cells(um);
+        var ca = Tables.Cells(px).ToList(); var cb = Tables.Cells(um).ToList();
         Assert.Equal(ca[3].Area * 0.0625, cb[3].Area, 9);
         Assert.Equal(ca[3].Time * 3, cb[3].Time, 12);
         Assert.Equal(ca[3].Elongation, cb[3].Elongation, 12);
