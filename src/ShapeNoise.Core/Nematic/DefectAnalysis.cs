@@ -53,44 +53,55 @@ public static class DefectAnalysis
         double coarse = ParseLengthPx(o.CoarseWidth, r0Px, pixelSizeUm, "--coarse");
         double grid = ParseLengthPx(o.GridSpacing, r0Px, pixelSizeUm, "--grid");
 
-        // Cell velocities by central differences along each track (one-sided at the ends), px/frame.
-        var vel = new Dictionary<(int Track, int Frame), (double Vx, double Vy)>();
-        foreach (var t in tracks)
+        // Cell velocities by central differences along each track (one-sided at the ends), px/frame, looked up per cell
+        // through its track (no per-cell table: memory stays proportional to the tracks, not the outlines).
+        var trackById = new Dictionary<int, TrackRecord>(tracks.Count);
+        foreach (var t in tracks) trackById[t.Id] = t;
+        (double Vx, double Vy) Velocity(int trackId, int frame)
         {
+            if (!trackById.TryGetValue(trackId, out var t) || t.Frames < 2) return (double.NaN, double.NaN);
+            int i = Array.BinarySearch(t.FrameIndex, frame);
+            if (i < 0) return (double.NaN, double.NaN);
             int n = t.Frames;
-            if (n < 2) continue;
-            for (int i = 0; i < n; i++)
-            {
-                int a = i > 0 && t.FrameIndex[i - 1] == t.FrameIndex[i] - 1 ? i - 1 : i;
-                int b = i < n - 1 && t.FrameIndex[i + 1] == t.FrameIndex[i] + 1 ? i + 1 : i;
-                if (a == b) continue;
-                double df = t.FrameIndex[b] - t.FrameIndex[a];
-                vel[(t.Id, t.FrameIndex[i])] = ((t.CentroidX[b] - t.CentroidX[a]) / df, (t.CentroidY[b] - t.CentroidY[a]) / df);
-            }
+            int a = i > 0 && t.FrameIndex[i - 1] == frame - 1 ? i - 1 : i;
+            int b = i < n - 1 && t.FrameIndex[i + 1] == frame + 1 ? i + 1 : i;
+            if (a == b) return (double.NaN, double.NaN);
+            double df = t.FrameIndex[b] - t.FrameIndex[a];
+            return ((t.CentroidX[b] - t.CentroidX[a]) / df, (t.CentroidY[b] - t.CentroidY[a]) / df);
         }
 
-        var byFrame = cells.GroupBy(c => c.Frame).OrderBy(g => g.Key).ToList();
-        var perFrame = new List<(int Frame, List<Defect> Defects, NematicGrid Grid)>();
+        // Cells arrive in frame order; walk them frame by frame without copying.
+        var frameRuns = new List<(int Frame, int Start, int Count)>();
+        for (int i = 0; i < cells.Count;)
+        {
+            int j = i;
+            while (j < cells.Count && cells[j].Frame == cells[i].Frame) j++;
+            frameRuns.Add((cells[i].Frame, i, j - i));
+            i = j;
+        }
+        var perFrame = new List<(int Frame, List<Defect> Defects)>();   // grids are dropped after each frame: memory stays flat
         const int half = 6; double step = 0.5;              // ensemble-flow grid: +-3 coarse widths in steps of half a width
         int side = 2 * half + 1;
         var fVpar = new double[side * side]; var fVperp = new double[side * side]; var fQxx = new double[side * side]; var fQxy = new double[side * side]; var fN = new int[side * side];
         int plus = 0, minus = 0;
         var flowAt = new Dictionary<(int Frame, int Index), (double Vx, double Vy)>();
-        foreach (var g in byFrame)
+        foreach (var run in frameRuns)
         {
-            var samples = g.Select(c =>
+            var samples = new CellSample[run.Count];
+            for (int i = 0; i < run.Count; i++)
             {
+                var c = cells[run.Start + i];
                 var (qxx, qxy) = c.Shape.Nematic;
-                var v = vel.TryGetValue((c.TrackId, c.Frame), out var vv) ? vv : (double.NaN, double.NaN);
-                return new CellSample(c.Shape.CentroidX, c.Shape.CentroidY, qxx, qxy, v.Item1, v.Item2);
-            }).ToArray();
+                var (vx0, vy0) = Velocity(c.TrackId, c.Frame);
+                samples[i] = new CellSample(c.Shape.CentroidX, c.Shape.CentroidY, qxx, qxy, vx0, vy0);
+            }
             var field = CoarseGraining.Of(samples, widthPx, heightPx, grid, coarse);
             var defects = DefectFinder.Find(field, widthPx, heightPx, coarse, coarse);
-            perFrame.Add((g.Key, defects, field));
+            perFrame.Add((run.Frame, defects));
             for (int d = 0; d < defects.Count; d++)
             {
                 var df = defects[d];
-                flowAt[(g.Key, d)] = (field.Sample(field.Vx, df.X, df.Y), field.Sample(field.Vy, df.X, df.Y));
+                flowAt[(run.Frame, d)] = (field.Sample(field.Vx, df.X, df.Y), field.Sample(field.Vy, df.X, df.Y));
                 if (df.Charge == 0.5) plus++; else if (df.Charge == -0.5) minus++;
                 if (df.Charge != 0.5 || !double.IsFinite(df.HeadX)) continue;
                 double hx = df.HeadX, hy = df.HeadY, px = -hy, py = hx;

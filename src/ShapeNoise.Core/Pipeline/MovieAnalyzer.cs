@@ -29,7 +29,7 @@ public static class MovieAnalyzer
         var units = ResolveUnits(info, options, warnings);
 
         int m = options.Rays, nm = m / 2 + 1;
-        var builder = new TrackBuilder(m, options.MinTrackFrames);
+        using var builder = new TrackBuilder(m, options.MinTrackFrames);
         var cells = new List<CellRecord>();
         LabelScan? prevScan = null;
         int[]? prevSlot = null; // active-track slot of each object of the previous frame, or -1

@@ -9,16 +9,17 @@ namespace ShapeNoise.Tracking;
 /// <summary>
 /// Accumulates the outlines of the tracks that are still open, keeps the long axis continuous modulo pi along each track
 /// (each frame takes the representative within pi/2 of the previous one, which shifts the body-frame samples by M/2 when
-/// it adds pi), and turns a track into a <see cref="TrackRecord"/> when it ends. Memory holds only the open tracks' samples.
+/// it adds pi), and turns a track into a <see cref="TrackRecord"/> when it ends. Open tracks keep their radii in a temporary file (<see cref="RadiusStore"/>), so memory does not grow with the movie's length.
 /// </summary>
-public sealed class TrackBuilder(int rays, int minTrackFrames)
+public sealed class TrackBuilder(int rays, int minTrackFrames) : IDisposable
 {
+    private readonly RadiusStore _store = new(rays);
     private sealed class Open
     {
         public int Id;
         public readonly List<int> Frames = [];
         public readonly List<double> L = [], W = [], Q = [], Theta = [], Area = [], Cx = [], Cy = [];
-        public readonly List<double[]> Rho = [];
+        public readonly List<long> Rho = [];   // indices into the radius store
     }
 
     private readonly List<Open?> _slots = [];
@@ -70,7 +71,7 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
         }
 
         tr.Frames.Add(frame); tr.L.Add(shape.LengthPx); tr.W.Add(shape.WidthPx); tr.Q.Add(shape.Elongation);
-        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Cx.Add(shape.CentroidX); tr.Cy.Add(shape.CentroidY); tr.Rho.Add(rho);
+        tr.Theta.Add(theta); tr.Area.Add(shape.AreaPx2); tr.Cx.Add(shape.CentroidX); tr.Cy.Add(shape.CentroidY); tr.Rho.Add(_store.Append(rho));
         return (slot, theta, modes);
     }
 
@@ -92,12 +93,14 @@ public sealed class TrackBuilder(int rays, int minTrackFrames)
         {
             // Modes are recomputed here rather than kept per outline: open tracks then hold only their radii.
             var rho = new double[n * rays];
-            for (int t = 0; t < n; t++) tr.Rho[t].CopyTo(rho, t * rays);
+            for (int t = 0; t < n; t++) _store.Read(tr.Rho[t], rho.AsSpan(t * rays, rays));
             contour = ContourFluctuations.Of(rho, n, rays);
         }
         Finished.Add(new TrackRecord(tr.Id, tr.Frames[0], tr.Frames[^1], why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(),
             tr.Q.ToArray(), tr.Theta.ToArray(), tr.Area.ToArray(), tr.Cx.ToArray(), tr.Cy.ToArray(), contour, varL, varW, used));
     }
+
+    public void Dispose() => _store.Dispose();
 
     /// <summary>Closes every open track.</summary>
     public void EndAll(TrackEnd why)

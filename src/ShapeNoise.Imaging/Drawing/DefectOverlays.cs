@@ -15,7 +15,7 @@ public sealed class DefectOverlays(int frames = 3) : IFrameFigures
         int total = r.Counts.Frames;
         if (total == 0) return;
         var wanted = Enumerable.Range(0, frames).Select(i => frames == 1 ? 0 : (int)Math.Round(i * (total - 1) / (double)(frames - 1))).Distinct().ToHashSet();
-        var cellsByFrame = r.Cells.GroupBy(c => c.Frame).ToDictionary(g => g.Key, g => g.ToList());
+        var cellsByFrame = r.Cells.Where(c => wanted.Contains(c.Frame)).GroupBy(c => c.Frame).ToDictionary(g => g.Key, g => g.ToList());
         var defectsByFrame = r.Defects.Observations.GroupBy(o => o.Frame).ToDictionary(g => g.Key, g => g.ToList());
         using var movie = reopen();
         foreach (var frame in movie.Frames())

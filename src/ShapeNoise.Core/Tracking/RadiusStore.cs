@@ -1,0 +1,43 @@
+using System.Runtime.InteropServices;
+
+namespace ShapeNoise.Tracking;
+
+/// <summary>
+/// Holds the body-frame radii of every outline of the open tracks in a temporary file (deleted on close) instead of in
+/// memory, so memory stays flat however long the movie: each outline's M doubles are appended once and read back
+/// once, when its track ends. Exact: the doubles are stored bit for bit.
+/// </summary>
+public sealed class RadiusStore : IDisposable
+{
+    private readonly FileStream _file;
+    private readonly int _rays;
+    private long _length;
+    private bool _dirty;
+
+    public RadiusStore(int rays)
+    {
+        _rays = rays;
+        string path = Path.Combine(Path.GetTempPath(), $"shapenoise-radii-{Environment.ProcessId}-{Guid.NewGuid():N}.bin");
+        _file = new FileStream(path, FileMode.CreateNew, FileAccess.ReadWrite, FileShare.None, 1 << 20, FileOptions.DeleteOnClose);
+    }
+
+    /// <summary>Appends one outline's radii; returns its index.</summary>
+    public long Append(ReadOnlySpan<double> rho)
+    {
+        if (rho.Length != _rays) throw new ArgumentException($"expected {_rays} radii");
+        _file.Write(MemoryMarshal.AsBytes(rho));
+        _dirty = true;
+        return _length++;
+    }
+
+    /// <summary>Reads outline <paramref name="index"/>'s radii into <paramref name="rho"/>.</summary>
+    public void Read(long index, Span<double> rho)
+    {
+        if (_dirty) { _file.Flush(); _dirty = false; }
+        int bytes = _rays * sizeof(double);
+        int got = RandomAccess.Read(_file.SafeFileHandle, MemoryMarshal.AsBytes(rho[.._rays]), index * bytes);
+        if (got != bytes) throw new IOException("temporary radius file was cut short");
+    }
+
+    public void Dispose() => _file.Dispose();
+}
