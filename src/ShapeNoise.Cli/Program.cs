@@ -21,5 +21,9 @@ app.Configure(c =>
             "Analyse a label movie: outlines, Fourier modes, along/across fluctuations, correlation times, nematic defects.\n" +
             "Exit codes: 0 done; 2 bad input (named in the one-line error); 3 output folder not writable; 64 bad options; 1 unexpected error.")
         .WithExample("analyze", "demo-data/ellipses/labels.tif", "--out", "runs/ellipses");
+    c.AddCommand<CompareCommand>("compare").WithDescription("Compare conditions over several movies each (hierarchical bootstrap, movie-level tests).")
+        .WithExample("compare", "conditions.csv", "--out", "runs/compare");
+    c.AddCommand<PlanCommand>("plan").WithDescription("How many movies a comparison needs, from pilot analyses.")
+        .WithExample("plan", "runs/pilot-wt", "runs/pilot-ko", "--effect", "0.2", "--out", "runs/plan");
 });
 return ExitCodes.Run(() => app.Run(args));

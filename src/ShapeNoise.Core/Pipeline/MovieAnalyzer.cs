@@ -134,7 +134,10 @@ public static class MovieAnalyzer
         var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options));
         if (defects.Tracks.Count > 0 && defects.PlusTracksUsed == 0)
             warnings.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
-        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects);
+        var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, options));
+        if (defects.PlusTracksUsed > 0 && hypothesis.DefectTracks < 3)
+            warnings.Add($"only {hypothesis.DefectTracks} +1/2 defect track(s) with a local anisotropy: the within-movie hypothesis test needs 3 or more; compare movies instead");
+        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis);
     }
 
     private static int[] PixelCounts(LabelScan s)

@@ -69,6 +69,14 @@ public static class Summary
             ["defect_deaths"] = r.Defects.Deaths,
             ["coarse_width"] = Num(r.Defects.CoarsePx * s),
             ["grid_spacing"] = Num(r.Defects.GridPx * s),
+            ["hypothesis"] = new JsonObject
+            {
+                ["spearman_rho"] = Num(r.Hypothesis.SpearmanRho),
+                ["spearman_rho_ci95"] = new JsonArray(Num(r.Hypothesis.Rho95.Low), Num(r.Hypothesis.Rho95.High)),
+                ["p_value"] = Num(r.Hypothesis.PValue),
+                ["n_defect_tracks"] = r.Hypothesis.DefectTracks,
+                ["test"] = "Spearman correlation of log local anisotropy (var_L/var_W of cells within 2 coarse widths of the core) with headward speed over +1/2 defect tracks; two-sided permutation p-value (9999 seeded permutations)",
+            },
             ["dynamics"] = SimulationParameters.Dynamics(r),
             ["rays"] = r.Options.Rays,
             ["outline_method"] = r.Options.Outline.ToString().ToLowerInvariant(),

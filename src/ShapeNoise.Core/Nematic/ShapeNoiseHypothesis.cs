@@ -1,0 +1,72 @@
+using ShapeNoise.Pipeline;
+using ShapeNoise.Statistics;
+
+namespace ShapeNoise.Nematic;
+
+/// <summary>The within-movie test of the shape-noise hypothesis (spec section 5).</summary>
+/// <param name="SpearmanRho">Spearman correlation of log local anisotropy with headward speed over +1/2 defect tracks.</param>
+/// <param name="PValue">Two-sided permutation p-value (seeded).</param>
+/// <param name="Rho95">Bootstrap 95% interval of rho over defect tracks.</param>
+/// <param name="DefectTracks">Number of +1/2 defect tracks with both numbers.</param>
+/// <param name="LocalAnisotropy">Per defect track: local var_L / var_W of the cells near its core.</param>
+/// <param name="HeadwardSpeed">Per defect track: its headward speed (px/frame).</param>
+public sealed record HypothesisResult(double SpearmanRho, double PValue, Estimate Rho95, int DefectTracks, double[] LocalAnisotropy, double[] HeadwardSpeed)
+{
+    public static HypothesisResult Empty => new(double.NaN, double.NaN, Estimate.NaN, 0, [], []);
+}
+
+/// <summary>
+/// Local anisotropy around each +1/2 defect track (pooled var_L / var_W of the cells within two coarse widths of the core,
+/// residuals about each cell track's own mean, over the defect's lifetime), and its Spearman correlation with the
+/// defect's headward speed, with a seeded permutation p-value and a bootstrap interval over defect tracks.
+/// </summary>
+/// <remarks>The hypothesis that anisotropic shape fluctuations can turn the tailward motion expected from contractile
+/// stresses into headward motion; spec section 5. Statistics: <see cref="RankCorrelation"/>, <see cref="Bootstrap"/>.</remarks>
+public static class ShapeNoiseHypothesis
+{
+    public static HypothesisResult Test(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks, DefectResult defects, AnalysisOptions o)
+    {
+        var plus = defects.Tracks.Where(t => t.Charge == 0.5 && double.IsFinite(t.HeadwardSpeed)).ToList();
+        if (plus.Count == 0) return HypothesisResult.Empty;
+        var meanL = new Dictionary<int, (double L, double W)>();
+        foreach (var t in tracks) if (t.Used) meanL[t.Id] = (t.LengthPx.Average(), t.WidthPx.Average());
+        var runs = new Dictionary<int, (int Start, int Count)>();
+        for (int i = 0; i < cells.Count;)
+        {
+            int j = i;
+            while (j < cells.Count && cells[j].Frame == cells[i].Frame) j++;
+            runs[cells[i].Frame] = (i, j - i);
+            i = j;
+        }
+        double r2 = 4 * defects.CoarsePx * defects.CoarsePx;   // within 2 coarse widths
+        var local = new List<double>(); var speed = new List<double>();
+        foreach (var dt in plus)
+        {
+            double sl = 0, sw = 0;
+            foreach (var obs in defects.Observations)
+            {
+                if (obs.TrackId != dt.Id || !runs.TryGetValue(obs.Frame, out var run)) continue;
+                for (int i = run.Start; i < run.Start + run.Count; i++)
+                {
+                    var c = cells[i];
+                    double dx = c.Shape.CentroidX - obs.Defect.X, dy = c.Shape.CentroidY - obs.Defect.Y;
+                    if (dx * dx + dy * dy > r2 || !meanL.TryGetValue(c.TrackId, out var m)) continue;
+                    sl += (c.Shape.LengthPx - m.L) * (c.Shape.LengthPx - m.L);
+                    sw += (c.Shape.WidthPx - m.W) * (c.Shape.WidthPx - m.W);
+                }
+            }
+            if (sl > 0 && sw > 0) { local.Add(sl / sw); speed.Add(dt.HeadwardSpeed); }
+        }
+        int n = local.Count;
+        if (n < 3) return new HypothesisResult(double.NaN, double.NaN, Estimate.NaN, n, local.ToArray(), speed.ToArray());
+        var logA = local.Select(a => Math.Log(a)).ToArray(); var v = speed.ToArray();
+        var (rho, p) = RankCorrelation.PermutationTest(logA, v, 9999, o.Seed);
+        var ci = Bootstrap.Percentile(n, k =>
+        {
+            var xs = new List<double>(); var ys = new List<double>();
+            for (int i = 0; i < n; i++) for (int r = 0; r < k[i]; r++) { xs.Add(logA[i]); ys.Add(v[i]); }
+            return RankCorrelation.Spearman(xs.ToArray(), ys.ToArray());
+        }, o.BootstrapResamples, o.Seed);
+        return new HypothesisResult(rho, p, ci, n, local.ToArray(), speed.ToArray());
+    }
+}
