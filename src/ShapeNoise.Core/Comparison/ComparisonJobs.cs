@@ -125,6 +125,9 @@ public static class ComparisonJobs
         var conditions = r.Conditions.Select(x => x.Condition).Distinct().ToList();
         sb.Append(Ci, $"Movies: {string.Join(", ", conditions.Select(c => $"{c} {r.Conditions.First(x => x.Condition == c).Movies}"))}. ");
         sb.Append("Every interval is a 95% hierarchical-bootstrap interval (movies, then tracks within movies), so movies, not cells, are the replicates; p-values are from Welch's t test on the movie-level values.\n\n");
+        int fewest = r.Conditions.Min(c => c.Movies);
+        if (fewest < 5)
+            sb.Append(Ci, $"With {fewest} movies in a condition, bootstrap intervals are too narrow (a resample can only recombine those few movies); where an interval excludes 0 but the movie-level test does not reach p < 0.05, the difference is not confirmed.\n\n");
         foreach (var x in r.Differences)
         {
             var a = r.Conditions.First(c => c.Condition == x.A && c.Measure == x.Measure); var b = r.Conditions.First(c => c.Condition == x.B && c.Measure == x.Measure);
@@ -134,8 +137,10 @@ public static class ComparisonJobs
             sb.Append(Ci, $"Difference {x.A} − {x.B} = {F(x.Difference.Value)}{unit} (95% CI {F(x.Difference.Low)} to {F(x.Difference.High)})");
             if (double.IsFinite(x.PValue)) sb.Append(Ci, $", Welch p = {F(x.PValue)}");
             bool excl = x.Difference.Low > 0 || x.Difference.High < 0;
-            sb.Append(excl ? ". The interval excludes 0: the data show a difference in this measure.\n"
-                           : ". The interval includes 0: these data do not show a difference (which is not evidence that there is none).\n");
+            bool testAgrees = !double.IsFinite(x.PValue) || x.PValue < 0.05;
+            sb.Append(!excl ? ". The interval includes 0: these data do not show a difference (which is not evidence that there is none).\n"
+                : testAgrees ? ". The interval excludes 0: the data show a difference in this measure.\n"
+                : ". The bootstrap interval excludes 0 but the movie-level test does not reach p < 0.05: the difference is not confirmed with this many movies.\n");
         }
         sb.Append("\n## Anisotropy and defect motion\n\n");
         foreach (var s in r.OrderStatements) sb.Append("- ").Append(s).Append('\n');
