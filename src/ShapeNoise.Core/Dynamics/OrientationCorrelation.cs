@@ -70,24 +70,7 @@ public static class OrientationCorrelation
             }
             return sse;
         }
-        double lo = Math.Log(0.05), hi = Math.Log(Math.Max(1, maxTauFrames));
-        const int grid = 48;
-        double best = double.PositiveInfinity; int bi = 0;
-        for (int g = 0; g <= grid; g++)
-        {
-            double v = Sse(Math.Exp(lo + (hi - lo) * g / grid), out _, out _);
-            if (v < best) { best = v; bi = g; }
-        }
-        double x0 = lo + (hi - lo) * Math.Max(0, bi - 1) / grid, x1 = lo + (hi - lo) * Math.Min(grid, bi + 1) / grid;
-        double gr = (Math.Sqrt(5) - 1) / 2;
-        double xa = x1 - gr * (x1 - x0), xb = x0 + gr * (x1 - x0);
-        double fa = Sse(Math.Exp(xa), out _, out _), fb = Sse(Math.Exp(xb), out _, out _);
-        for (int it = 0; it < 60 && x1 - x0 > 1e-7; it++)
-        {
-            if (fa < fb) { x1 = xb; xb = xa; fb = fa; xa = x1 - gr * (x1 - x0); fa = Sse(Math.Exp(xa), out _, out _); }
-            else { x0 = xa; xa = xb; fa = fb; xb = x0 + gr * (x1 - x0); fb = Sse(Math.Exp(xb), out _, out _); }
-        }
-        double tau = Math.Exp(0.5 * (x0 + x1));
+        double tau = Math.Exp(Statistics.Minimize.GridThenGolden(lt => Sse(Math.Exp(lt), out _, out _), Math.Log(0.05), Math.Log(Math.Max(1, maxTauFrames))));
         Sse(tau, out var pp, out var aa);
         return new PlateauFit(tau, pp, aa);
     }

@@ -169,25 +169,8 @@ public static class OrnsteinUhlenbeckFit
         }
 
         // Grid over log tau from 0.05 frame to 20 x the longest track, then golden-section refinement.
-        double lo = Math.Log(0.05), hi = Math.Log(20.0 * maxLen);
-        const int grid = 48;
-        double best = double.PositiveInfinity; int bi = 0;
-        for (int g = 0; g <= grid; g++)
-        {
-            double lt = lo + (hi - lo) * g / grid;
-            double v = Objective(Math.Exp(-1 / Math.Exp(lt)), out _, out _);
-            if (v < best) { best = v; bi = g; }
-        }
-        double x0 = lo + (hi - lo) * Math.Max(0, bi - 1) / grid, x1 = lo + (hi - lo) * Math.Min(grid, bi + 1) / grid;
-        double gr = (Math.Sqrt(5) - 1) / 2;
-        double xa = x1 - gr * (x1 - x0), xb = x0 + gr * (x1 - x0);
-        double fa = Objective(Math.Exp(-1 / Math.Exp(xa)), out _, out _), fb = Objective(Math.Exp(-1 / Math.Exp(xb)), out _, out _);
-        for (int it = 0; it < 60 && x1 - x0 > 1e-7; it++)
-        {
-            if (fa < fb) { x1 = xb; xb = xa; fb = fa; xa = x1 - gr * (x1 - x0); fa = Objective(Math.Exp(-1 / Math.Exp(xa)), out _, out _); }
-            else { x0 = xa; xa = xb; fa = fb; xb = x0 + gr * (x1 - x0); fb = Objective(Math.Exp(-1 / Math.Exp(xb)), out _, out _); }
-        }
-        double tau = Math.Exp(0.5 * (x0 + x1)), rho = Math.Exp(-1 / tau);
+        double logTau = Statistics.Minimize.GridThenGolden(lt => Objective(Math.Exp(-1 / Math.Exp(lt)), out _, out _), Math.Log(0.05), Math.Log(20.0 * maxLen));
+        double tau = Math.Exp(logTau), rho = Math.Exp(-1 / tau);
         Objective(rho, out var sig2, out var eta2);
         return new OuFit(rho, tau, sig2, eta2, uncorrected);
     }

@@ -71,14 +71,7 @@ public static class DefectAnalysis
         }
 
         // Cells arrive in frame order; walk them frame by frame without copying.
-        var frameRuns = new List<(int Frame, int Start, int Count)>();
-        for (int i = 0; i < cells.Count;)
-        {
-            int j = i;
-            while (j < cells.Count && cells[j].Frame == cells[i].Frame) j++;
-            frameRuns.Add((cells[i].Frame, i, j - i));
-            i = j;
-        }
+        var frameRuns = FrameRuns.Of(cells);
         var perFrame = new List<(int Frame, List<Defect> Defects)>();   // grids are dropped after each frame: memory stays flat
         const int half = 6; double step = 0.5;              // ensemble-flow grid: +-3 coarse widths in steps of half a width
         int side = 2 * half + 1;

@@ -30,14 +30,7 @@ public static class ShapeNoiseHypothesis
         if (plus.Count == 0) return HypothesisResult.Empty;
         var meanL = new Dictionary<int, (double L, double W)>();
         foreach (var t in tracks) if (t.Used) meanL[t.Id] = (t.LengthPx.Average(), t.WidthPx.Average());
-        var runs = new Dictionary<int, (int Start, int Count)>();
-        for (int i = 0; i < cells.Count;)
-        {
-            int j = i;
-            while (j < cells.Count && cells[j].Frame == cells[i].Frame) j++;
-            runs[cells[i].Frame] = (i, j - i);
-            i = j;
-        }
+        var runs = FrameRuns.Of(cells).ToDictionary(r => r.Frame, r => (r.Start, r.Count));
         double r2 = 4 * defects.CoarsePx * defects.CoarsePx;   // within 2 coarse widths
         var local = new List<double>(); var speed = new List<double>();
         foreach (var dt in plus)

@@ -1,0 +1,29 @@
+namespace ShapeNoise.Statistics;
+
+/// <summary>One-dimensional minimisation on an interval: a coarse grid to find the basin, then golden-section refinement.</summary>
+/// <remarks>Golden-section search: Kiefer J. (1953), "Sequential minimax search for a maximum", Proc. Am. Math. Soc.
+/// 4:502-506; Press W.H. et al. (2007), Numerical Recipes, 3rd ed., sec. 10.2. The grid guards against local minima.</remarks>
+public static class Minimize
+{
+    /// <summary>Returns the x in [lo, hi] minimising f: the best of grid + 1 equally spaced points, refined by golden section
+    /// between its neighbours to width 1e-7.</summary>
+    public static double GridThenGolden(Func<double, double> f, double lo, double hi, int grid = 48)
+    {
+        double best = double.PositiveInfinity; int bi = 0;
+        for (int g = 0; g <= grid; g++)
+        {
+            double v = f(lo + (hi - lo) * g / grid);
+            if (v < best) { best = v; bi = g; }
+        }
+        double x0 = lo + (hi - lo) * Math.Max(0, bi - 1) / grid, x1 = lo + (hi - lo) * Math.Min(grid, bi + 1) / grid;
+        double gr = (Math.Sqrt(5) - 1) / 2;
+        double xa = x1 - gr * (x1 - x0), xb = x0 + gr * (x1 - x0);
+        double fa = f(xa), fb = f(xb);
+        for (int it = 0; it < 60 && x1 - x0 > 1e-7; it++)
+        {
+            if (fa < fb) { x1 = xb; xb = xa; fb = fa; xa = x1 - gr * (x1 - x0); fa = f(xa); }
+            else { x0 = xa; xa = xb; fa = fb; xb = x0 + gr * (x1 - x0); fb = f(xb); }
+        }
+        return 0.5 * (x0 + x1);
+    }
+}
