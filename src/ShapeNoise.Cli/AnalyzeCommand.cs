@@ -31,6 +31,8 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--sim-format <FORMAT>"), Description("Simulation parameters as json (sim-params.json) or toml (sim-params.toml).")] public string SimFormat { get; init; } = "json";
         [CommandOption("--coarse <LENGTH>"), Description("Gaussian width of the nematic coarse-graining: um (px if unknown) or a multiple of R0 such as 2R0.")] public string Coarse { get; init; } = "2R0";
         [CommandOption("--grid <LENGTH>"), Description("Grid spacing of the coarse-grained fields: um or a multiple of R0.")] public string Grid { get; init; } = "0.5R0";
+        [CommandOption("--raw"), Description("INPUT is a raw junction/membrane-marker movie: segment it first (kept in segmentation/).")] public bool Raw { get; init; }
+        [CommandOption("--cell-diameter <UM>"), Description("With --raw: expected cell diameter (um; px if the pixel size is unknown).")] public double CellDiameter { get; init; } = 10;
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         [CommandOption("--json"), Description("Print summary.json to standard output, nothing else.")] public bool Json { get; init; }
 
@@ -70,16 +72,21 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 .Start(ctx =>
                 {
                     var task = ctx.AddTask("frames");
-                    result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, new SyncProgress(task), cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
+                    result = Analyze(s, options, new SyncProgress(task), cmd);
                 });
         }
-        else result = AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, null, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
+        else result = Analyze(s, options, null, cmd);
 
         if (s.Json) { Console.WriteLine(Summary.Build(result).ToJsonString(Summary.Indented)); return 0; }
         if (s.Quiet) return 0;
         PrintSummary(result, s.Out);
         return 0;
     }
+
+    private static AnalysisResult Analyze(Settings s, AnalysisOptions options, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
+        => s.Raw
+            ? ShapeNoise.Imaging.Segmentation.RawAnalyzeJob.Run(s.Input, s.Out, options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd)
+            : AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
     private static void PrintSummary(AnalysisResult r, string outDir)
     {

@@ -21,6 +21,10 @@ app.Configure(c =>
             "Analyse a label movie: outlines, Fourier modes, along/across fluctuations, correlation times, nematic defects.\n" +
             "Exit codes: 0 done; 2 bad input (named in the one-line error); 3 output folder not writable; 64 bad options; 1 unexpected error.")
         .WithExample("analyze", "demo-data/ellipses/labels.tif", "--out", "runs/ellipses");
+    c.AddCommand<SegmentCommand>("segment").WithDescription("Segment a raw junction/membrane-marker movie into labels (watershed).")
+        .WithExample("segment", "raw.tif", "--out", "runs/seg");
+    c.AddCommand<ScoreCommand>("score").WithDescription("Segmentation quality against reference labels: SEG and detection F1.")
+        .WithExample("score", "runs/seg/labels.tif", "truth.tif");
     c.AddCommand<CompareCommand>("compare").WithDescription("Compare conditions over several movies each (hierarchical bootstrap, movie-level tests).")
         .WithExample("compare", "conditions.csv", "--out", "runs/compare");
     c.AddCommand<PlanCommand>("plan").WithDescription("How many movies a comparison needs, from pilot analyses.")

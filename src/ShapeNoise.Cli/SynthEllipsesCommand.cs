@@ -8,7 +8,7 @@ namespace ShapeNoise.Cli;
 
 public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings>
 {
-    public sealed class Settings : CommandSettings
+    public sealed class Settings : RawRenderSettings
     {
         [CommandOption("--out <DIR>"), Description("Output folder (labels.tif, truth.json, run.json).")] public string Out { get; init; } = "";
         [CommandOption("--cells <N>"), Description("Number of cells.")] public int Cells { get; init; } = 40;
@@ -38,7 +38,7 @@ public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings
             TauFrames = s.Tau, RotationDegPerFrame = s.Rotation, TauThetaFrames = s.TauTheta, DriftPx = s.Drift, Width = s.Width, Height = s.Height,
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         }.Validated();
-        var m = SynthJob.Ellipses(o, s.Out, Environment.GetCommandLineArgs().Skip(1));
+        var m = SynthJob.Ellipses(o, s.Out, Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
         AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {o.Cells} cells) and truth.json: anisotropy {m.Truth.Anisotropy:F3}, anisotropy_contour {m.Truth.AnisotropyContour:F3}");
         return 0;
     }

@@ -8,7 +8,7 @@ namespace ShapeNoise.Cli;
 
 public sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Settings>
 {
-    public sealed class Settings : CommandSettings
+    public sealed class Settings : RawRenderSettings
     {
         [CommandOption("--out <DIR>"), Description("Output folder (labels.tif, truth.json, run.json).")] public string Out { get; init; } = "";
         [CommandOption("--cells <N>"), Description("Number of cells.")] public int Cells { get; init; } = 600;
@@ -46,7 +46,7 @@ public sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Settin
             SigmaAcross = s.SigmaAcross, TauFrames = s.Tau, Width = s.Width, Height = s.Height, PixelSizeUm = s.PixelSize,
             FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         }.Validated();
-        var m = SynthJob.Monolayer(o, s.Out, Environment.GetCommandLineArgs().Skip(1));
+        var m = SynthJob.Monolayer(o, s.Out, Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
         AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {m.Truth.Cells} cells, +1/2 moving {o.Motion.ToString().ToLowerInvariant()}) and truth.json");
         return 0;
     }

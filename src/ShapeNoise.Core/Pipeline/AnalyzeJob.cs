@@ -22,8 +22,10 @@ public static class AnalyzeJob
     /// <param name="progress">Optional progress sink.</param>
     /// <param name="commandLine">The command line, for run.json.</param>
     /// <param name="frameFigures">Optional figures drawn on the movie's frames.</param>
+    /// <param name="extraInputs">Further input files for run.json (e.g. the raw movie a label movie was segmented from).</param>
     public static AnalysisResult Run(string input, string outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
-        IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null)
+        IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null,
+        IEnumerable<string>? extraInputs = null)
     {
         options.Validated();
         var floor = options.FloorFrom is null ? null : Summary.ReadFloor(options.FloorFrom);
@@ -33,6 +35,7 @@ public static class AnalyzeJob
         var result = MovieAnalyzer.Run(movie, options, progress, floor);
         var files = new List<string>(movie.Files);
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
+        if (extraInputs is not null) files.InsertRange(0, extraInputs);
         var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
         ResultWriter.Write(result, outDir, prov, frameFigures is null ? null : dir => frameFigures.Write(result, () => open(input), dir));

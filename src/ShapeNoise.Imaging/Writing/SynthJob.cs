@@ -9,7 +9,7 @@ namespace ShapeNoise.Imaging.Writing;
 public static class SynthJob
 {
     /// <summary>Fluctuating ellipses: labels.tif (uint16, Deflate, OME-XML with pixel size and frame interval) and truth.json.</summary>
-    public static EllipseMovie Ellipses(EllipseMovieOptions o, string outDir, IEnumerable<string>? commandLine = null)
+    public static EllipseMovie Ellipses(EllipseMovieOptions o, string outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
     {
         var movie = EllipseMovie.Generate(o);
         OutputFolder.Write(outDir, dir =>
@@ -17,6 +17,7 @@ public static class SynthJob
             string tif = Path.Combine(dir, "labels.tif");
             var xml = TiffWriter.OmeXml(movie.Width, movie.Height, o.Frames, "uint16", o.PixelSizeUm, o.FrameIntervalMin);
             TiffWriter.Write(tif, movie.Width, movie.Height, Enumerable.Range(0, o.Frames).Select(movie.RenderFrame), TiffWriter.PixelType.UInt16, xml);
+            if (raw is not null) WriteRaw(tif, Path.Combine(dir, "raw.tif"), raw);
             File.WriteAllText(Path.Combine(dir, "truth.json"), TruthJson(movie).ToJsonString(Summary.Indented));
             var opts = JsonSerializer.SerializeToNode(o)!;
             var prov = Provenance.Describe("synth ellipses", [], opts, commandLine);
@@ -25,14 +26,27 @@ public static class SynthJob
         return movie;
     }
 
+    /// <summary>Renders raw.tif (the junction-marker movie, uint16, same OME-XML) from a written labels.tif, page by page.</summary>
+    public static void WriteRaw(string labelsTif, string rawTif, RawRenderOptions o)
+    {
+        o.Validated();
+        using var t = new Reading.TiffPages(labelsTif);
+        var p0 = t.Pages[0];
+        var rng = new Random(o.Seed);
+        int n = t.Pages.Count;
+        TiffWriter.Write(rawTif, p0.Width, p0.Height, Enumerable.Range(0, n).Select(i => JunctionRenderer.Render(t.ReadLabels(i), p0.Width, p0.Height, i, n, o, rng)),
+            TiffWriter.PixelType.UInt16, p0.Description);
+    }
+
     /// <summary>Confluent monolayer with a moving defect pair: labels.tif (uint16, Deflate, OME-XML) and truth.json.</summary>
-    public static MonolayerMovie Monolayer(MonolayerMovieOptions o, string outDir, IEnumerable<string>? commandLine = null)
+    public static MonolayerMovie Monolayer(MonolayerMovieOptions o, string outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
     {
         var movie = MonolayerMovie.Generate(o);
         OutputFolder.Write(outDir, dir =>
         {
             var xml = TiffWriter.OmeXml(movie.Width, movie.Height, o.Frames, "uint16", o.PixelSizeUm, o.FrameIntervalMin);
             TiffWriter.Write(Path.Combine(dir, "labels.tif"), movie.Width, movie.Height, movie.Frames(), TiffWriter.PixelType.UInt16, xml);
+            if (raw is not null) WriteRaw(Path.Combine(dir, "labels.tif"), Path.Combine(dir, "raw.tif"), raw);
             var t = movie.Truth; double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
             var frames = new JsonArray();
             for (int f = 0; f < o.Frames; f++)

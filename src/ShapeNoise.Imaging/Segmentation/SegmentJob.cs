@@ -1,0 +1,98 @@
+using System.Text.Json;
+using System.Text.Json.Nodes;
+using OpenCvSharp;
+using ShapeNoise.Imaging.Reading;
+using ShapeNoise.Imaging.Writing;
+using ShapeNoise.Reading;
+using ShapeNoise.Reporting;
+using ShapeNoise.Segmentation;
+
+namespace ShapeNoise.Imaging.Segmentation;
+
+/// <summary>The <c>segment</c> and <c>score</c> jobs.</summary>
+public static class SegmentJob
+{
+    /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
+    /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
+    public static (int Frames, double MeanCells) Run(string input, string outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
+        int qcEvery = 10, IEnumerable<string>? commandLine = null)
+    {
+        using var movie = LabelMovies.Open(input);   // raw intensities arrive as integers (8- or 16-bit)
+        var info = movie.Info;
+        double? s = info.PixelSizeUm ?? pixelSizeUm, dt = info.FrameIntervalMin ?? frameIntervalMin;
+        var o = (options with { PixelSizeUm = s ?? 1 }).Validated();
+        int frames = 0; long cells = 0;
+        OutputFolder.Write(outDir, dir =>
+        {
+            var pages = movie.Frames().Select(f =>
+            {
+                var labels = JunctionSegmenter.Segment(f.Labels, f.Width, f.Height, o);
+                if (labels.Max() > 65535) throw new InputException(input, $"frame {f.Index + 1} has more than 65535 cells");
+                if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"));
+                frames++; cells += labels.Max();
+                return labels;
+            });
+            var xml = TiffWriter.OmeXml(info.Width, info.Height, info.FrameCount, "uint16", s, dt);
+            TiffWriter.Write(Path.Combine(dir, "labels.tif"), info.Width, info.Height, pages, TiffWriter.PixelType.UInt16, xml);
+            var opts = JsonSerializer.SerializeToNode(o)!;
+            File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("segment", movie.Files, opts, commandLine).ToJsonString(Summary.Indented));
+        });
+        return (frames, frames > 0 ? cells / (double)frames : 0);
+    }
+
+    /// <summary>Raw image with the segmented boundaries drawn in colour.</summary>
+    public static void Overlay(int[] raw, int[] labels, int w, int h, string path)
+    {
+        int min = raw.Min(), max = Math.Max(raw.Max(), min + 1);
+        var bgr = new byte[w * h * 3];
+        for (int y = 0; y < h; y++)
+            for (int x = 0; x < w; x++)
+            {
+                int i = y * w + x;
+                byte v = (byte)(255.0 * (raw[i] - min) / (max - min));
+                bool edge = (x + 1 < w && labels[i + 1] != labels[i]) || (y + 1 < h && labels[i + w] != labels[i]);
+                bgr[3 * i] = edge ? (byte)0 : v; bgr[3 * i + 1] = edge ? (byte)200 : v; bgr[3 * i + 2] = edge ? (byte)255 : v;
+            }
+        using var img = new Mat(h, w, MatType.CV_8UC3);
+        System.Runtime.InteropServices.Marshal.Copy(bgr, 0, img.Data, bgr.Length);
+        Cv2.ImWrite(path, img);
+    }
+
+    /// <summary>SEG and detection F1 of a label movie against reference labels, pooled over frames.</summary>
+    public static SegmentationScore Score(string labelsPath, string truthPath)
+    {
+        using var a = LabelMovies.Open(labelsPath);
+        using var b = LabelMovies.Open(truthPath);
+        if (a.Info.Width != b.Info.Width || a.Info.Height != b.Info.Height || a.Info.FrameCount != b.Info.FrameCount)
+            throw new InputException(labelsPath, $"is {a.Info.Width}x{a.Info.Height}x{a.Info.FrameCount}, the reference {truthPath} is {b.Info.Width}x{b.Info.Height}x{b.Info.FrameCount}");
+        return SegmentationScore.Pool(a.Frames().Zip(b.Frames(), (x, y) => SegmentationScore.Accumulate(y.Labels, x.Labels)));
+    }
+}
+
+/// <summary><c>analyze --raw</c>: segment a raw movie, analyse the labels, and keep the segmentation in the output folder.</summary>
+public static class RawAnalyzeJob
+{
+    public static ShapeNoise.Pipeline.AnalysisResult Run(string raw, string outDir, ShapeNoise.Pipeline.AnalysisOptions options, SegmentOptions seg,
+        IProgress<ShapeNoise.Pipeline.MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null)
+    {
+        string temp = Path.Combine(Path.GetTempPath(), $"shapenoise-seg-{Environment.ProcessId}-{Guid.NewGuid():N}");
+        try
+        {
+            SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin);
+            var figures = new CopyThenOverlays(temp);
+            return ShapeNoise.Pipeline.AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw]);
+        }
+        finally { if (Directory.Exists(temp)) Directory.Delete(temp, true); }
+    }
+
+    private sealed class CopyThenOverlays(string segDir) : ShapeNoise.Pipeline.IFrameFigures
+    {
+        public void Write(ShapeNoise.Pipeline.AnalysisResult result, Func<ILabelMovie> reopen, string dir)
+        {
+            string target = Path.Combine(dir, "segmentation");
+            Directory.CreateDirectory(target);
+            foreach (var f in Directory.GetFiles(segDir)) File.Copy(f, Path.Combine(target, Path.GetFileName(f)));
+            new Drawing.DefectOverlays().Write(result, reopen, dir);
+        }
+    }
+}
