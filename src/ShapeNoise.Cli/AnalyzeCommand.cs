@@ -33,6 +33,9 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--grid <LENGTH>"), Description("Grid spacing of the coarse-grained fields: um or a multiple of R0.")] public string Grid { get; init; } = "0.5R0";
         [CommandOption("--raw"), Description("INPUT is a raw junction/membrane-marker movie: segment it first (kept in segmentation/).")] public bool Raw { get; init; }
         [CommandOption("--cell-diameter <UM>"), Description("With --raw: expected cell diameter (um; px if the pixel size is unknown).")] public double CellDiameter { get; init; } = 10;
+        [CommandOption("--velocity <SOURCE>"), Description("Cell velocities for the defect analysis: centroids (tracked) or flow (Farneback optical flow of the raw movie; needs --raw).")] public string Velocity { get; init; } = "centroids";
+        [CommandOption("--ids-are-tracks"), Description("Outline tables: the cell ids are stable track ids (else cells are linked by centroid).")] public bool IdsAreTracks { get; init; }
+        [CommandOption("--max-displacement <PX>"), Description("Outline tables: largest centroid step between frames when linking by centroid (default: the mean cell radius).")] public double? MaxDisplacement { get; init; }
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         [CommandOption("--json"), Description("Print summary.json to standard output, nothing else.")] public bool Json { get; init; }
 
@@ -53,7 +56,14 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         {
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
             MinTrackFrames = s.MinTrack, Outline = ParseOutline(s.Outline), LinkOverlapFraction = s.LinkOverlap, BootstrapResamples = s.Bootstrap,
-            Seed = s.Seed, FloorFrom = s.FloorFrom, MaxLagFrames = s.MaxLag, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, GridSpacing = s.Grid,
+            Seed = s.Seed, FloorFrom = s.FloorFrom, MaxLagFrames = s.MaxLag, IdsAreTracks = s.IdsAreTracks, MaxDisplacementPx = s.MaxDisplacement,
+            Velocity = s.Velocity.ToLowerInvariant() switch
+            {
+                "centroids" => VelocitySource.Centroids,
+                "flow" when s.Raw => VelocitySource.Flow,
+                "flow" => throw new ArgumentException("--velocity flow needs --raw (optical flow runs on the raw movie)"),
+                _ => throw new ArgumentException($"--velocity must be centroids or flow (got '{s.Velocity}')"),
+            }, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, GridSpacing = s.Grid,
             SimFormat = s.SimFormat.ToLowerInvariant() switch
             {
                 "json" => ShapeNoise.Pipeline.SimFormat.Json,

@@ -46,8 +46,14 @@ public static class DefectAnalysis
         throw new ArgumentException($"{option} must be a positive length or a multiple of R0 such as 2R0 (got '{spec}')");
     }
 
+    /// <summary>Runs the defect stage over every analysed outline.</summary>
+    /// <param name="widthPx">Image width.</param><param name="heightPx">Image height.</param>
+    /// <param name="cells">Analysed outlines, in frame order.</param><param name="tracks">Their tracks.</param>
+    /// <param name="r0Px">Mean cell radius.</param><param name="pixelSizeUm">Pixel size for lengths given in um.</param>
+    /// <param name="o">Options.</param>
+    /// <param name="velocity">Optional velocity per cell (px/frame) replacing the tracked-centroid velocities, e.g. from optical flow.</param>
     public static DefectResult Run(int widthPx, int heightPx, IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks,
-        double r0Px, double pixelSizeUm, AnalysisOptions o)
+        double r0Px, double pixelSizeUm, AnalysisOptions o, Func<CellRecord, (double Vx, double Vy)>? velocity = null)
     {
         if (cells.Count == 0 || !double.IsFinite(r0Px)) return DefectResult.Empty;
         double coarse = ParseLengthPx(o.CoarseWidth, r0Px, pixelSizeUm, "--coarse");
@@ -85,7 +91,7 @@ public static class DefectAnalysis
             {
                 var c = cells[run.Start + i];
                 var (qxx, qxy) = c.Shape.Nematic;
-                var (vx0, vy0) = Velocity(c.TrackId, c.Frame);
+                var (vx0, vy0) = velocity is null ? Velocity(c.TrackId, c.Frame) : velocity(c);
                 samples[i] = new CellSample(c.Shape.CentroidX, c.Shape.CentroidY, qxx, qxy, vx0, vy0);
             }
             var field = CoarseGraining.Of(samples, widthPx, heightPx, grid, coarse);

@@ -2,6 +2,9 @@ using ShapeNoise.Outlines;
 
 namespace ShapeNoise.Pipeline;
 
+/// <summary>Where the cell velocities of the defect analysis come from.</summary>
+public enum VelocitySource { Centroids, Flow }
+
 /// <summary>File format of the simulation parameters.</summary>
 public enum SimFormat { Json, Toml }
 
@@ -38,6 +41,12 @@ public sealed record AnalysisOptions
     public string CoarseWidth { get; init; } = "2R0";
     /// <summary>Grid spacing of the coarse-grained fields: a length in the run's unit, or a multiple of R0 ("0.5R0").</summary>
     public string GridSpacing { get; init; } = "0.5R0";
+    /// <summary>Cell velocities for the defect analysis: tracked centroids, or dense optical flow of the raw movie (--raw only).</summary>
+    public VelocitySource Velocity { get; init; } = VelocitySource.Centroids;
+    /// <summary>Outline tables: the table's cell ids are stable track ids (otherwise cells are linked by centroid).</summary>
+    public bool IdsAreTracks { get; init; }
+    /// <summary>Outline tables: largest centroid displacement (px) between frames for linking; null = the mean cell radius.</summary>
+    public double? MaxDisplacementPx { get; init; }
     /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
     public string? FloorFrom { get; init; }
 

@@ -23,22 +23,40 @@ public static class AnalyzeJob
     /// <param name="commandLine">The command line, for run.json.</param>
     /// <param name="frameFigures">Optional figures drawn on the movie's frames.</param>
     /// <param name="extraInputs">Further input files for run.json (e.g. the raw movie a label movie was segmented from).</param>
+    /// <param name="postProcess">Optional step between analysis and writing (e.g. optical-flow velocities for the defect stage).</param>
     public static AnalysisResult Run(string input, string outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
         IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null,
-        IEnumerable<string>? extraInputs = null)
+        IEnumerable<string>? extraInputs = null, Func<AnalysisResult, AnalysisResult>? postProcess = null)
     {
         options.Validated();
         var floor = options.FloorFrom is null ? null : Summary.ReadFloor(options.FloorFrom);
         if (floor is not null && !string.Equals(floor.Outline, options.Outline.ToString(), StringComparison.OrdinalIgnoreCase))
             throw new InputException(options.FloorFrom!, $"floor was measured with --outline {floor.Outline}, this run uses {options.Outline.ToString().ToLowerInvariant()}");
-        using var movie = open(input);
-        var result = MovieAnalyzer.Run(movie, options, progress, floor);
-        var files = new List<string>(movie.Files);
+        AnalysisResult result;
+        List<string> files;
+        if (Path.GetExtension(input).Equals(".csv", StringComparison.OrdinalIgnoreCase))
+        {
+            var table = OutlineTable.Read(input, options.PixelSizeUm, options.FrameIntervalMin);
+            result = MovieAnalyzer.RunFrames(table.Info with { PixelSizeUm = null, FrameIntervalMin = null }, table.Linked(options, options.IdsAreTracks, options.MaxDisplacementPx),
+                options, progress, floor, new PhaseTimes());
+            if (table.SkippedFewVertices > 0)
+                result = result with { Warnings = [.. result.Warnings, $"{table.SkippedFewVertices} outline(s) with fewer than 3 vertices were skipped"] };
+            files = [input];
+            frameFigures = null;   // no image to draw on
+        }
+        else
+        {
+            using var movie = open(input);
+            result = MovieAnalyzer.Run(movie, options, progress, floor);
+            files = new List<string>(movie.Files);
+        }
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
         if (extraInputs is not null) files.InsertRange(0, extraInputs);
+        if (postProcess is not null) result = postProcess(result);
         var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
-        ResultWriter.Write(result, outDir, prov, frameFigures is null ? null : dir => frameFigures.Write(result, () => open(input), dir));
+        var figs = frameFigures;
+        ResultWriter.Write(result, outDir, prov, figs is null ? null : dir => figs.Write(result, () => open(input), dir));
         return result;
     }
 }

@@ -14,13 +14,48 @@ public static class MovieAnalyzer
     /// <summary>Progress: frames done of total.</summary>
     public readonly record struct Progress(int FramesDone, int FramesTotal);
 
+    /// <summary>One frame's outlines and their links to the previous frame's (null for the first frame).</summary>
+    public sealed record FrameOutlines(int Index, Outline[] Outlines, FrameLinks? Links, int Divisions, int Merges);
+
     /// <summary>Runs outlines, shape, tracking and fluctuations over <paramref name="movie"/>, one frame at a time.</summary>
     public static AnalysisResult Run(ILabelMovie movie, AnalysisOptions options, IProgress<Progress>? progress = null,
         NoiseFloorReference? floorReference = null, PhaseTimes? times = null)
     {
         times ??= new PhaseTimes();
         options.Validated();
+        return RunFrames(movie.Info, LabelFrames(movie, options, times), options, progress, floorReference, times);
+    }
+
+    /// <summary>Label frames to outlines (largest 4-connected component per label) linked by mask overlap.</summary>
+    private static IEnumerable<FrameOutlines> LabelFrames(ILabelMovie movie, AnalysisOptions options, PhaseTimes times)
+    {
         var info = movie.Info;
+        LabelScan? prevScan = null;
+        using var frameStream = movie.Frames().GetEnumerator();
+        while (times.Time("decode", frameStream.MoveNext))
+        {
+            var frame = frameStream.Current;
+            if (frame.Width != info.Width || frame.Height != info.Height)
+                throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
+            var scan = times.Time("scan", () => LabelScan.Of(frame));
+            if (scan.Boxes.Length == 0)
+                throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
+            var outlines = new Outline[scan.Boxes.Length];
+            times.Time("outlines", () => Parallel.For(0, outlines.Length, i =>
+                outlines[i] = OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[i], i + 1,
+                    options.Outline, options.BorderMarginPx, options.MinAreaPx)));
+            var prev = prevScan;
+            FrameLinks? links = prev is null ? null
+                : times.Time("tracking", () => OverlapLinking.Link(prev.DenseImage, PixelCounts(prev), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction));
+            prevScan = scan;
+            yield return new FrameOutlines(frame.Index, outlines, links, links?.Divisions ?? 0, links?.Merges ?? 0);
+        }
+    }
+
+    /// <summary>Shape, tracks and fluctuations from a stream of linked outlines (label movies and outline tables alike).</summary>
+    public static AnalysisResult RunFrames(MovieInfo info, IEnumerable<FrameOutlines> frameOutlines, AnalysisOptions options, IProgress<Progress>? progress,
+        NoiseFloorReference? floorReference, PhaseTimes times)
+    {
         if (info.FrameCount < 2)
             throw new InputException(info.Path, $"has {info.FrameCount} frame(s); fluctuations need a movie of at least 2 frames (and tracks of --min-track {options.MinTrackFrames})");
         if (floorReference is not null && floorReference.Rays != options.Rays)
@@ -31,26 +66,13 @@ public static class MovieAnalyzer
         int m = options.Rays, nm = m / 2 + 1;
         using var builder = new TrackBuilder(m, options.MinTrackFrames);
         var cells = new List<CellRecord>();
-        LabelScan? prevScan = null;
         int[]? prevSlot = null; // active-track slot of each object of the previous frame, or -1
         int objects = 0, border = 0, small = 0, nonStar = 0, divisions = 0, merges = 0, frames = 0;
-        using var frameStream = movie.Frames().GetEnumerator();
-        while (times.Time("decode", frameStream.MoveNext))
+        foreach (var fo in frameOutlines)
         {
-            var frame = frameStream.Current;
-            if (frame.Width != info.Width || frame.Height != info.Height)
-                throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
-            var scan = times.Time("scan", () => LabelScan.Of(frame));
-            if (scan.Boxes.Length == 0)
-                throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
-            objects += scan.Boxes.Length;
-            var outlines = new Outline[scan.Boxes.Length];
-            times.Time("outlines", () => Parallel.For(0, outlines.Length, i =>
-                outlines[i] = OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[i], i + 1,
-                    options.Outline, options.BorderMarginPx, options.MinAreaPx)));
-
-            FrameLinks? links = prevScan is null ? null
-                : times.Time("tracking", () => OverlapLinking.Link(prevScan.DenseImage, PixelCounts(prevScan), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction));
+            var outlines = fo.Outlines;
+            var links = fo.Links;
+            objects += outlines.Length;
             long shapeStart = System.Diagnostics.Stopwatch.GetTimestamp();
             var slot = new int[outlines.Length];
             Array.Fill(slot, -1);
@@ -78,16 +100,16 @@ public static class MovieAnalyzer
                 int a = links is null ? -1 : links.Predecessor[i];
                 int s = a >= 0 && prevSlot![a] >= 0 ? prevSlot[a] : -1;
                 if (s >= 0) continued![a] = true;
-                var (trackSlot, thetaCont, modes) = builder.Append(s, frame.Index, shape, rays[i], modesRaw[i]);
+                var (trackSlot, thetaCont, modes) = builder.Append(s, fo.Index, shape, rays[i], modesRaw[i]);
                 slot[i] = trackSlot;
-                cells.Add(new CellRecord(frame.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star[i],
+                cells.Add(new CellRecord(fo.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star[i],
                     modes[0].Real, 2 * modes[2].Magnitude, o.Vertices.Length));
             }
             times.Add("shape", System.Diagnostics.Stopwatch.GetElapsedTime(shapeStart).TotalSeconds);
             long endStart = System.Diagnostics.Stopwatch.GetTimestamp();
             if (links is not null)
             {
-                divisions += links.Divisions; merges += links.Merges;
+                divisions += fo.Divisions; merges += fo.Merges;
                 for (int a = 0; a < prevSlot!.Length; a++)
                 {
                     if (prevSlot[a] < 0 || continued![a]) continue;
@@ -101,7 +123,7 @@ public static class MovieAnalyzer
                 }
             }
             times.Add("fluctuations", System.Diagnostics.Stopwatch.GetElapsedTime(endStart).TotalSeconds);
-            prevScan = scan; prevSlot = slot;
+            prevSlot = slot;
             frames++;
             progress?.Report(new Progress(frames, info.FrameCount));
         }

@@ -17,7 +17,7 @@ public sealed record SegmentOptions
     /// (0.9 tuned on rendered monolayers of aspect-2 cells at SNR 8: one seed per cell).</summary>
     public double SeedWindowFraction { get; init; } = 0.9;
     /// <summary>Smoothing (px) of the image the flood runs on: about the point-spread width.</summary>
-    public double BoundarySigmaPx { get; init; } = 0.8;
+    public double BoundarySigmaPx { get; init; } = 0.6;
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 

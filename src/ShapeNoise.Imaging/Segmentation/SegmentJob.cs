@@ -80,7 +80,8 @@ public static class RawAnalyzeJob
         {
             SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin);
             var figures = new CopyThenOverlays(temp);
-            return ShapeNoise.Pipeline.AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw]);
+            return ShapeNoise.Pipeline.AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
+                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => Flow.OpticalFlowVelocity.Apply(raw, r) : null);
         }
         finally { if (Directory.Exists(temp)) Directory.Delete(temp, true); }
     }

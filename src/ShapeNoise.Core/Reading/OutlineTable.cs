@@ -1,0 +1,117 @@
+using System.Globalization;
+using CsvHelper;
+using CsvHelper.Configuration;
+using ShapeNoise.Outlines;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Shape;
+using ShapeNoise.Tracking;
+
+namespace ShapeNoise.Reading;
+
+/// <summary>
+/// Cell outlines given as a table (long format, docs/inputs.md): columns <c>frame,cell,x,y</c>, one row per vertex, the
+/// vertices of one cell in one frame on consecutive rows in order around the outline; x, y in px with the image
+/// convention (x = column, y = row, pixel centres at +0.5). Analysed exactly like label masks from the outline stage
+/// on. Cells are linked between consecutive frames by their ids (<c>--ids-are-tracks</c>) or else by an optimal
+/// one-to-one assignment of centroids within a maximum displacement (Hungarian algorithm).
+/// </summary>
+public sealed class OutlineTable
+{
+    public string Path { get; }
+    /// <summary>Frames in ascending order, each with its outlines (Label = the cell id of the table).</summary>
+    public IReadOnlyList<(int Frame, Outline[] Outlines)> Frames { get; }
+    /// <summary>Cells skipped because they had fewer than 3 vertices (counted, never silently lost).</summary>
+    public int SkippedFewVertices { get; }
+    public MovieInfo Info { get; }
+
+    private OutlineTable(string path, List<(int, Outline[])> frames, int skipped, MovieInfo info) { Path = path; Frames = frames; SkippedFewVertices = skipped; Info = info; }
+
+    public static OutlineTable Read(string path, double? pixelSizeUm, double? frameIntervalMin)
+    {
+        if (!File.Exists(path)) throw new InputException(path, "no such file");
+        var ci = CultureInfo.InvariantCulture;
+        var byFrame = new SortedDictionary<int, List<Outline>>();
+        int skipped = 0;
+        double maxX = 0, maxY = 0;
+        using (var reader = new StreamReader(path))
+        using (var csv = new CsvReader(reader, new CsvConfiguration(ci)))
+        {
+            if (!csv.Read() || !csv.ReadHeader()) throw new InputException(path, "is empty (no header)");
+            var header = csv.HeaderRecord!;
+            foreach (var col in new[] { "frame", "cell", "x", "y" })
+                if (!header.Contains(col)) throw new InputException(path, $"has no column '{col}' (an outline table needs frame,cell,x,y)");
+            int fi = Array.IndexOf(header, "frame"), cI = Array.IndexOf(header, "cell"), xi = Array.IndexOf(header, "x"), yi = Array.IndexOf(header, "y");
+            var pts = new List<Point2>();
+            int curFrame = int.MinValue; string? curCell = null; long row = 1;
+            void Flush()
+            {
+                if (curCell is null) return;
+                if (pts.Count < 3) { skipped++; pts.Clear(); return; }
+                if (!byFrame.TryGetValue(curFrame, out var list)) byFrame[curFrame] = list = [];
+                int id = int.TryParse(curCell, NumberStyles.Integer, ci, out var v) ? v : curCell.GetHashCode() & 0x7fffffff;
+                if (list.Any(o => o.Label == id)) throw new InputException(path, $"cell {curCell} appears twice in frame {curFrame} (its vertices must be on consecutive rows)");
+                list.Add(new Outline(id, OutlineStatus.Ok, pts.ToArray(), 0));
+                pts.Clear();
+            }
+            while (csv.Read())
+            {
+                row++;
+                string fs = csv.GetField(fi) ?? "", cs = csv.GetField(cI) ?? "", xs = csv.GetField(xi) ?? "", ys = csv.GetField(yi) ?? "";
+                if (!int.TryParse(fs, NumberStyles.Integer, ci, out int frame) || frame < 0) throw new InputException(path, $"row {row}: frame '{fs}' is not a non-negative integer");
+                if (!double.TryParse(xs, NumberStyles.Float, ci, out double x) || !double.TryParse(ys, NumberStyles.Float, ci, out double y) || !double.IsFinite(x) || !double.IsFinite(y))
+                    throw new InputException(path, $"row {row}: coordinate ({xs}, {ys}) is not a finite number");
+                if (frame != curFrame || cs != curCell) { Flush(); curFrame = frame; curCell = cs; }
+                pts.Add(new Point2(x, y));
+                maxX = Math.Max(maxX, x); maxY = Math.Max(maxY, y);
+            }
+            Flush();
+        }
+        if (byFrame.Count == 0) throw new InputException(path, "holds no outline with 3 or more vertices");
+        var frames = byFrame.Select(kv => (kv.Key, kv.Value.ToArray())).ToList();
+        var info = new MovieInfo(path, (int)Math.Ceiling(maxX) + 1, (int)Math.Ceiling(maxY) + 1, frames.Count, pixelSizeUm, frameIntervalMin, "outline table (CSV)");
+        return new OutlineTable(path, frames, skipped, info);
+    }
+
+    /// <summary>The frames as linked outlines for <see cref="MovieAnalyzer.RunFrames"/>; objects below --min-area are marked small.</summary>
+    public IEnumerable<MovieAnalyzer.FrameOutlines> Linked(AnalysisOptions o, bool idsAreTracks, double? maxDisplacementPx)
+    {
+        Outline[]? prev = null; Point2[]? prevC = null; int prevFrame = int.MinValue;
+        double gate = maxDisplacementPx ?? DefaultGate();
+        foreach (var (frame, raw) in Frames)
+        {
+            var outlines = raw.Select(x => Polygon.Area(x.Vertices) < o.MinAreaPx ? x with { Status = OutlineStatus.Small } : x).ToArray();
+            var cen = outlines.Select(x => Polygon.Centroid(x.Vertices)).ToArray();
+            FrameLinks? links = null;
+            if (prev is not null && frame == prevFrame + 1)
+            {
+                var pred = new int[outlines.Length]; Array.Fill(pred, -1);
+                var succ = new int[prev.Length]; Array.Fill(succ, -1);
+                if (idsAreTracks)
+                {
+                    var at = new Dictionary<int, int>();
+                    for (int a = 0; a < prev.Length; a++) at[prev[a].Label] = a;
+                    for (int b = 0; b < outlines.Length; b++) if (at.TryGetValue(outlines[b].Label, out var a)) { pred[b] = a; succ[a] = b; }
+                }
+                else
+                {
+                    var cost = new double[prev.Length, outlines.Length];
+                    for (int a = 0; a < prev.Length; a++)
+                        for (int b = 0; b < outlines.Length; b++)
+                            cost[a, b] = Math.Sqrt((prevC![a].X - cen[b].X) * (prevC[a].X - cen[b].X) + (prevC[a].Y - cen[b].Y) * (prevC[a].Y - cen[b].Y));
+                    var match = Assignment.Solve(cost, gate);
+                    for (int a = 0; a < prev.Length; a++) if (match[a] >= 0) { pred[match[a]] = a; succ[a] = match[a]; }
+                }
+                links = new FrameLinks(pred, new bool[prev.Length], new bool[outlines.Length], succ);
+            }
+            yield return new MovieAnalyzer.FrameOutlines(frame, outlines, links, 0, 0);
+            prev = outlines; prevC = cen; prevFrame = frame;
+        }
+    }
+
+    /// <summary>Default maximum displacement between frames: the mean cell radius sqrt(mean area / pi) of the first frame.</summary>
+    private double DefaultGate()
+    {
+        var first = Frames[0].Outlines;
+        return Math.Sqrt(first.Average(x => Polygon.Area(x.Vertices)) / Math.PI);
+    }
+}

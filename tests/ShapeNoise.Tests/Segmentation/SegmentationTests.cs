@@ -1,0 +1,97 @@
+using OpenCvSharp;
+using ShapeNoise.Imaging.Flow;
+using ShapeNoise.Imaging.Reading;
+using ShapeNoise.Imaging.Segmentation;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Segmentation;
+using ShapeNoise.Synthesis;
+using ShapeNoise.Tests.Support;
+using Xunit.Abstractions;
+
+namespace ShapeNoise.Tests.Segmentation;
+
+public class SegmentationScoreTests
+{
+    [Fact]
+    public void Seg_HandMadePair_MatchesPublishedDefinition()
+    {
+        // 6 x 4 image. Reference: object 1 = columns 0-2 (12 px), object 2 = columns 3-5 (12 px).
+        // Segmented: A = columns 0-3 (16 px), B = columns 4-5 rows 0-1 (4 px).
+        // R1 vs A: overlap 12 > 6 -> J = 12 / 16 = 0.75. R2: best overlap is A (4 px) or B (4 px), neither > 6 -> J = 0.
+        // SEG (Ulman et al. 2017) = (0.75 + 0) / 2 = 0.375. Detections (J > 0.5): one of 2 reference, one of 2 segmented.
+        int w = 6, h = 4;
+        var r = new int[w * h]; var s = new int[w * h];
+        for (int y = 0; y < h; y++)
+            for (int x = 0; x < w; x++)
+            {
+                r[y * w + x] = x < 3 ? 1 : 2;
+                s[y * w + x] = x < 4 ? 7 : (y < 2 ? 9 : 0);
+            }
+        var sc = SegmentationScore.Of(r, s);
+        Assert.Equal(0.375, sc.Seg, 12);
+        Assert.Equal(0.5, sc.Precision, 12);
+        Assert.Equal(0.5, sc.Recall, 12);
+        Assert.Equal(0.5, sc.F1, 12);
+    }
+}
+
+public class JunctionSegmentationTests(ITestOutputHelper log)
+{
+    [Fact]
+    public void Segment_RenderedMonolayerAtSnr8_SegAndF1AndAnisotropy()
+    {
+        // Our monolayer scenario rendered as a junction-marker movie (SNR 8, PSF 1.2 px, illumination falloff, bleaching).
+        var m = MonolayerMovie.Generate(new MonolayerMovieOptions { Cells = 300, Frames = 12 });
+        var truth = m.Frames().ToList();
+        var rng = new Random(5);
+        var opts = new RawRenderOptions { Snr = 8 };
+        var seg = new List<int[]>();
+        var sums = new List<SegmentationScore.Sums>();
+        var so = new SegmentOptions { CellDiameterUm = Math.Sqrt(4 * m.Options.CellAreaPx2 / Math.PI), PixelSizeUm = 1 };
+        for (int t = 0; t < truth.Count; t++)
+        {
+            var raw = JunctionRenderer.Render(truth[t], m.Width, m.Height, t, truth.Count, opts, rng);
+            var s = JunctionSegmenter.Segment(raw, m.Width, m.Height, so);
+            seg.Add(s);
+            sums.Add(SegmentationScore.Accumulate(truth[t], s));
+        }
+        var score = SegmentationScore.Pool(sums);
+        var a = new AnalysisOptions { BootstrapResamples = 100 };
+        var onTruth = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, truth), a).Pooled.Anisotropy.Value;
+        var onSeg = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, seg), a).Pooled.Anisotropy.Value;
+        log.WriteLine($"SEG {score.Seg:F3}, F1 {score.F1:F3} ({score.Matches}/{score.ReferenceObjects}); anisotropy on truth labels {onTruth:F3}, on segmented {onSeg:F3} ({100 * (onSeg / onTruth - 1):+0.0;-0.0}%)");
+        Assert.True(score.Seg >= 0.85, $"SEG {score.Seg}");
+        Assert.True(score.F1 >= 0.95, $"F1 {score.F1}");
+        Assert.InRange(onSeg / onTruth, 0.8, 1.2);
+    }
+
+    [Fact]
+    public void Flow_RigidlyTranslatedFrame_RecoversShiftWithinTenthPixel()
+    {
+        var m = MonolayerMovie.Generate(new MonolayerMovieOptions { Cells = 200, Frames = 2 });
+        var raw = JunctionRenderer.Render(m.Frames().First(), m.Width, m.Height, 0, 1, new RawRenderOptions { Snr = 20, Illumination = 0, Bleach = 0 }, new Random(2));
+        // Shift by (1.3, -0.7) px with OpenCV's bilinear warp (reference library), then measure.
+        using var src = new Mat(m.Height, m.Width, MatType.CV_32FC1);
+        System.Runtime.InteropServices.Marshal.Copy(raw.Select(v => (float)v).ToArray(), 0, src.Data, raw.Length);
+        using var moved = new Mat();
+        using var M = new Mat(2, 3, MatType.CV_64FC1);
+        M.Set(0, 0, 1.0); M.Set(0, 1, 0.0); M.Set(0, 2, 1.3); M.Set(1, 0, 0.0); M.Set(1, 1, 1.0); M.Set(1, 2, -0.7);
+        Cv2.WarpAffine(src, moved, M, src.Size(), InterpolationFlags.Linear, BorderTypes.Reflect);
+        var shifted = new float[raw.Length];
+        System.Runtime.InteropServices.Marshal.Copy(moved.Data, shifted, 0, shifted.Length);
+        var (dx, dy) = OpticalFlowVelocity.MedianFlow(raw, shifted.Select(v => (int)Math.Round(v)).ToArray(), m.Width, m.Height);
+        log.WriteLine($"recovered shift ({dx:F3}, {dy:F3}) for (1.3, -0.7)");
+        Assert.InRange(dx, 1.2, 1.4);
+        Assert.InRange(dy, -0.8, -0.6);
+    }
+
+    [Fact]
+    public void Read_RgbPngFrames_RejectedAsColour()
+    {
+        using var d = new TempDir();
+        Directory.CreateDirectory(d["rgb"]);
+        for (int i = 0; i < 2; i++) { using var mat = new Mat(8, 8, MatType.CV_8UC3, new Scalar(10, 20, 30)); Cv2.ImWrite(Path.Combine(d["rgb"], $"f{i}.png"), mat); }
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => LabelMovies.Open(d["rgb"]));
+        Assert.Contains("3 channels", e.Message);
+    }
+}
