@@ -86,6 +86,29 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
     }
 
     [Fact]
+    public void Cli_SynthRawSegmentScore_EightBitInputToo()
+    {
+        // End to end through the commands: synth --raw, segment the 16-bit movie and an 8-bit copy, score both.
+        using var d = new TempDir();
+        Assert.Equal(0, Support.Cli.Run("synth", "monolayer", "--out", d["m"], "--cells", "150", "--frames", "3", "--raw").ExitCode);
+        using (var t = new ShapeNoise.Imaging.Reading.TiffPages(d["m/raw.tif"]))
+        {
+            var pages = Enumerable.Range(0, t.Pages.Count).Select(i => { var v = t.ReadLabels(i); int lo = v.Min(), hi = v.Max(); return v.Select(x => 255 * (x - lo) / Math.Max(1, hi - lo)).ToArray(); }).ToList();
+            ShapeNoise.Imaging.Writing.TiffWriter.Write(d["raw8.tif"], t.Pages[0].Width, t.Pages[0].Height, pages, ShapeNoise.Imaging.Writing.TiffWriter.PixelType.UInt8, t.Pages[0].Description);
+        }
+        foreach (var (input, name) in new[] { (d["m/raw.tif"], "s16"), (d["raw8.tif"], "s8") })
+        {
+            var s = Support.Cli.Run("segment", input, "--out", d[name], "--cell-diameter", "8.9");
+            Assert.True(s.ExitCode == 0, s.Stderr);
+            Assert.True(File.Exists(d[$"{name}/qc-frame-000.png"]));
+            var sc = Support.Cli.Run("score", d[$"{name}/labels.tif"], d["m/labels.tif"], "--json");
+            var j = System.Text.Json.Nodes.JsonNode.Parse(sc.Stdout)!;
+            log.WriteLine($"{name}: SEG {j["seg"]}, F1 {j["f1"]}");
+            Assert.True(j["seg"]!.GetValue<double>() >= 0.8 && j["f1"]!.GetValue<double>() >= 0.9, $"{name}: {sc.Stdout}");
+        }
+    }
+
+    [Fact]
     public void Read_RgbPngFrames_RejectedAsColour()
     {
         using var d = new TempDir();
