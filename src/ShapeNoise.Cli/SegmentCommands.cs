@@ -14,13 +14,23 @@ public sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--cell-diameter <UM>"), Description("Expected cell diameter (um; px if the pixel size is unknown). Every segmentation length derives from it.")] public double CellDiameter { get; init; } = 10;
         [CommandOption("--pixel-size <UM>"), Description("Pixel size when the metadata has none.")] public double? PixelSize { get; init; }
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval when the metadata has none.")] public double? FrameInterval { get; init; }
+        [CommandOption("--flatten <DIAMETERS>"), Description("Background flattening: divide by a Gaussian blur this many cell diameters wide.")] public double Flatten { get; init; } = 2;
+        [CommandOption("--smooth <FRACTION>"), Description("Smoothing sigma for seeds, as a fraction of the cell diameter.")] public double Smooth { get; init; } = 0.1;
+        [CommandOption("--seed-window <FRACTION>"), Description("Seeds: minima over a window of this fraction of the cell diameter.")] public double SeedWindow { get; init; } = 0.9;
+        [CommandOption("--boundary-sigma <PX>"), Description("Smoothing (px) of the image the watershed floods.")] public double BoundarySigma { get; init; } = 0.6;
+        [CommandOption("--min-area-fraction <FRACTION>"), Description("Fragments below this fraction of the expected cell area are merged into a neighbour.")] public double MinAreaFraction { get; init; } = 0.15;
+        [CommandOption("--max-area-factor <FACTOR>"), Description("Regions above this many expected cell areas are not cells and are dropped.")] public double MaxAreaFactor { get; init; } = 6;
         [CommandOption("--qc-every <N>"), Description("Write a QC overlay every N frames (0 = none).")] public int QcEvery { get; init; } = 10;
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
     }
 
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
-        var (frames, cells) = SegmentJob.Run(s.Input, s.Out, new SegmentOptions { CellDiameterUm = s.CellDiameter }, s.PixelSize, s.FrameInterval, s.QcEvery,
+        var (frames, cells) = SegmentJob.Run(s.Input, s.Out, new SegmentOptions
+        {
+            CellDiameterUm = s.CellDiameter, FlattenDiameters = s.Flatten, SmoothFraction = s.Smooth, SeedWindowFraction = s.SeedWindow,
+            BoundarySigmaPx = s.BoundarySigma, MinAreaFraction = s.MinAreaFraction, MaxAreaFactor = s.MaxAreaFactor,
+        }, s.PixelSize, s.FrameInterval, s.QcEvery,
             Environment.GetCommandLineArgs().Skip(1));
         AnsiConsole.MarkupLineInterpolated($"segmented {frames} frames ({cells:F0} cells per frame) into [bold]{Path.Combine(s.Out, "labels.tif")}[/]");
         return 0;

@@ -21,12 +21,18 @@ public sealed record SegmentOptions
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 
+    /// <summary>Regions larger than this many expected cell areas are not cells (background, failed splits) and are dropped.</summary>
+    public double MaxAreaFactor { get; init; } = 6;
+
     public double DiameterPx => CellDiameterUm / PixelSizeUm;
 
     public SegmentOptions Validated()
     {
         if (!(CellDiameterUm > 0)) throw new ArgumentException($"--cell-diameter must be > 0 (got {CellDiameterUm})");
         if (!(DiameterPx >= 4)) throw new ArgumentException($"--cell-diameter is {DiameterPx:F1} px; cells must be at least 4 px across");
+        if (!(FlattenDiameters > 0) || !(SmoothFraction > 0) || !(SeedWindowFraction > 0) || !(BoundarySigmaPx > 0))
+            throw new ArgumentException("--flatten, --smooth, --seed-window and --boundary-sigma must be > 0");
+        if (MinAreaFraction < 0 || !(MaxAreaFactor > 1)) throw new ArgumentException("--min-area-fraction must be >= 0 and --max-area-factor > 1");
         return this;
     }
 }
@@ -35,7 +41,7 @@ public sealed record SegmentOptions
 /// Segments one frame of a junction or membrane marker into cells with OpenCV: flatten the background (divide by a wide
 /// Gaussian blur), smooth, take seeds from the regional minima of the signal (cell interiors are dark) within a window of
 /// half a cell diameter, grow them by marker-controlled watershed, give watershed lines to a neighbouring cell, merge
-/// fragments below a minimum area, and relabel 1..N.
+/// fragments below a minimum area, drop regions too large to be a cell, and relabel 1..N.
 /// </summary>
 /// <remarks>Marker-controlled watershed: Beucher S. and Meyer F. (1993), "The morphological approach to segmentation:
 /// the watershed transformation", in Mathematical Morphology in Image Processing, Marcel Dekker, 433-481; flooding by
@@ -85,6 +91,7 @@ public static class JunctionSegmenter
         System.Runtime.InteropServices.Marshal.Copy(fine.Data, level, 0, level.Length);
         Flood(level, labels, width, height);
         MergeSmall(labels, width, height, (int)(o.MinAreaFraction * Math.PI * d * d / 4));
+        DropLarge(labels, o.MaxAreaFactor * Math.PI * d * d / 4);
         return Relabel(labels);
     }
 
@@ -176,6 +183,16 @@ public static class JunctionSegmenter
             }
         var target = border.GroupBy(kv => kv.Key.Item1).ToDictionary(g => g.Key, g => g.OrderByDescending(kv => kv.Value).ThenBy(kv => kv.Key.Item2).First().Key.Item2);
         for (int i = 0; i < l.Length; i++) if (small.Contains(l[i]) && target.TryGetValue(l[i], out var t)) l[i] = t;
+    }
+
+    /// <summary>Regions larger than <paramref name="maxArea"/> px are not cells: set to background.</summary>
+    private static void DropLarge(int[] l, double maxArea)
+    {
+        var area = new Dictionary<int, int>();
+        foreach (var v in l) if (v > 0) area[v] = area.GetValueOrDefault(v) + 1;
+        var drop = area.Where(kv => kv.Value > maxArea).Select(kv => kv.Key).ToHashSet();
+        if (drop.Count == 0) return;
+        for (int i = 0; i < l.Length; i++) if (drop.Contains(l[i])) l[i] = 0;
     }
 
     private static int[] Relabel(int[] l)
