@@ -122,6 +122,8 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         t.AddRow("frames", $"{r.Counts.Frames}", "");
         AnsiConsole.Write(t);
         AnsiConsole.MarkupLineInterpolated($"results in [bold]{outDir}[/] (units: {u.Length}, {u.Time})");
+        foreach (var h in HtmlReport.Headlines(r).Take(3)) AnsiConsole.WriteLine(h);
+        AnsiConsole.MarkupLineInterpolated($"report: [bold]{Path.Combine(outDir, "report.html")}[/]");
     }
 
     /// <summary>Reports progress on the calling thread (Progress&lt;T&gt; would post to the thread pool).</summary>

@@ -9,6 +9,17 @@ public static class ExitCodes
 {
     public const int Ok = 0, Unexpected = 1, BadInput = 2, Unwritable = 3, BadOptions = 64;
 
+    /// <summary>Shown after the top-level help.</summary>
+    public const string Help = """
+
+EXIT CODES:
+    0     done
+    1     unexpected error
+    2     bad input: the one-line message names the file and the problem (nothing is written)
+    3     the output folder cannot be written (nothing is left half-written)
+    64    bad options or usage
+""";
+
     public static int Run(Func<int> body)
     {
         try { return body(); }

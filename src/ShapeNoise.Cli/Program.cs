@@ -18,8 +18,7 @@ app.Configure(c =>
             .WithExample("synth", "monolayer", "--out", "demo-data/monolayer", "--motion", "tailward");
     });
     c.AddCommand<AnalyzeCommand>("analyze").WithDescription(
-            "Analyse a label movie: outlines, Fourier modes, along/across fluctuations, correlation times, nematic defects.\n" +
-            "Exit codes: 0 done; 2 bad input (named in the one-line error); 3 output folder not writable; 64 bad options; 1 unexpected error.")
+            "Analyse a label movie (or raw movie with --raw, or outline table): outlines, Fourier modes, along/across fluctuations, correlation times, nematic defects; writes report.html.")
         .WithExample("analyze", "demo-data/ellipses/labels.tif", "--out", "runs/ellipses");
     c.AddCommand<SegmentCommand>("segment").WithDescription("Segment a raw junction/membrane-marker movie into labels (watershed).")
         .WithExample("segment", "raw.tif", "--out", "runs/seg");
@@ -30,4 +29,7 @@ app.Configure(c =>
     c.AddCommand<PlanCommand>("plan").WithDescription("How many movies a comparison needs, from pilot analyses.")
         .WithExample("plan", "runs/pilot-wt", "runs/pilot-ko", "--effect", "0.2", "--out", "runs/plan");
 });
-return ExitCodes.Run(() => app.Run(args));
+int code = ExitCodes.Run(() => app.Run(args));
+if (args.Length == 0 || args is ["--help"] or ["-h"] or ["-?"])
+    Console.WriteLine(ExitCodes.Help);
+return code;

@@ -77,6 +77,11 @@ public static class ComparisonJobs
         File.WriteAllText(Path.Combine(dir, "differences.csv"), d.ToString());
         foreach (var measure in new[] { "anisotropy", "anisotropy_contour" }) SuperPlot(r, measure).SavePng(Path.Combine(dir, $"superplot-{measure}.png"), 720, 520);
         File.WriteAllText(Path.Combine(dir, "comparison.md"), Narrative(r));
+        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise comparison", Narrative(r),
+        [
+            (Path.Combine(dir, "superplot-anisotropy.png"), "Every track (small points, coloured by replicate), every replicate's value (large markers) and each condition's value with its 95% hierarchical-bootstrap interval (black bar), for var_L / var_W on a log scale."),
+            (Path.Combine(dir, "superplot-anisotropy_contour.png"), "The same for the floor-corrected contour ratio var_along / var_across."),
+        ]));
     }
 
     /// <summary>Every track a small point coloured by replicate, each replicate's value a large marker, the condition value and 95% interval a bar.</summary>
@@ -175,6 +180,8 @@ public static class ComparisonJobs
             File.WriteAllText(Path.Combine(dir, "plan.csv"), sb.ToString());
             PlanPlot(plan).SavePng(Path.Combine(dir, "plan.png"), 720, 480);
             File.WriteAllText(Path.Combine(dir, "plan.md"), PlanNarrative(plan));
+            File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", PlanNarrative(plan),
+                [(Path.Combine(dir, "plan.png"), "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.")]));
             var prov = Provenance.Describe("plan", inputs, new JsonObject { ["effect"] = effect, ["measure"] = measure }, commandLine);
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
         });

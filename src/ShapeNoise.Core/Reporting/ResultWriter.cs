@@ -19,6 +19,7 @@ public static class ResultWriter
             else File.WriteAllText(Path.Combine(dir, "sim-params.json"), sim.ToJsonString(Summary.Indented));
             Figures.WriteAll(r, dir);
             extra?.Invoke(dir);
+            File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.Build(r, dir, provenance));
         });
     }
 }

@@ -40,7 +40,7 @@ public class ComparisonTests(ITestOutputHelper log)
         log.WriteLine($"anisotropy aniso - iso = {diff.Difference.Value:F3} (95% CI {diff.Difference.Low:F3} to {diff.Difference.High:F3}), ratio {diff.Ratio.Value:F2}, Welch p {diff.PValue:G3}");
         Assert.True(diff.Difference.Low > 0, "the interval must exclude 0");
         Assert.InRange(diff.Ratio.Value, 2.5, 6);
-        foreach (var f in new[] { "comparison.csv", "differences.csv", "comparison.md", "superplot-anisotropy.png", "superplot-anisotropy_contour.png", "run.json" })
+        foreach (var f in new[] { "comparison.csv", "differences.csv", "comparison.md", "superplot-anisotropy.png", "superplot-anisotropy_contour.png", "run.json", "report.html" })
             Assert.True(new FileInfo(d[$"cmp/{f}"]).Length > 0, f);
         Assert.StartsWith("measure,condition_a,condition_b,difference,ci95_low,ci95_high,ratio,ratio_ci95_low,ratio_ci95_high,p_value", File.ReadLines(d["cmp/differences.csv"]).First());
         Assert.Contains("excludes 0", File.ReadAllText(d["cmp/comparison.md"]));
@@ -50,7 +50,11 @@ public class ComparisonTests(ITestOutputHelper log)
         log.WriteLine($"ICC {plan.Components.Icc:F3}; smallest design {plan.Smallest}");
         Assert.NotNull(plan.Smallest);
         Assert.InRange(plan.Smallest!.Value.MoviesPerCondition, 2, 30);
-        Assert.True(File.Exists(d["plan/plan.csv"]) && File.Exists(d["plan/plan.png"]) && File.Exists(d["plan/plan.md"]));
+        Assert.True(File.Exists(d["plan/plan.csv"]) && File.Exists(d["plan/plan.png"]) && File.Exists(d["plan/plan.md"]) && File.Exists(d["plan/report.html"]));
+        var page = File.ReadAllText(d["cmp/report.html"]);
+        System.Xml.Linq.XDocument.Parse(page[page.IndexOf("<html", StringComparison.Ordinal)..]);   // well-formed
+        Assert.Contains(diff.Difference.Value.ToString("G4", System.Globalization.CultureInfo.InvariantCulture), page);   // the narrative's rounding
+        Assert.Contains("excludes 0", page);
         Assert.Equal(29 * ExperimentPlan.CellsChoices.Length + 1, File.ReadLines(d["plan/plan.csv"]).Count());
     }
 

@@ -1,0 +1,137 @@
+using System.Globalization;
+using System.Net;
+using System.Text;
+using System.Text.Json.Nodes;
+using ShapeNoise.Pipeline;
+using ShapeNoise.Statistics;
+
+namespace ShapeNoise.Reporting;
+
+/// <summary>
+/// report.html: one self-contained page (figures embedded as PNG data, no external resource) with the run's headline
+/// numbers in plain language, every figure with a caption saying how to read it, the noise floor, warnings, options and
+/// provenance. Well-formed (XHTML-compatible) HTML5.
+/// </summary>
+public static class HtmlReport
+{
+    static readonly CultureInfo Ci = CultureInfo.InvariantCulture;
+
+    /// <summary>The rounding every headline number uses, in the report and wherever it is checked: 3 significant digits
+/// (whole numbers from 1000 up).</summary>
+    public static string Round(double v) => !double.IsFinite(v) ? "n/a" : Math.Abs(v) >= 1000 ? v.ToString("F0", Ci) : v.ToString("G3", Ci);
+
+    static string E(string s) => WebUtility.HtmlEncode(s);
+
+    /// <summary>Plain-language headline sentences, each with its interval.</summary>
+    public static List<string> Headlines(AnalysisResult r)
+    {
+        var u = r.Units; var p = r.Pooled; var d = r.Dynamics; var df = r.Defects;
+        string ci(Estimate e) => double.IsFinite(e.Low) ? $"95% CI {Round(e.Low)}–{Round(e.High)}" : "no interval";
+        var h = new List<string>
+        {
+            $"Length fluctuates {Round(p.Anisotropy.Value)}× more than width ({ci(p.Anisotropy)}, {r.Counts.TracksUsed} tracks).",
+            $"After removing the noise floor, the outline fluctuates {Round(p.AnisotropyContour.Value)}× more at the poles than at the flanks ({ci(p.AnisotropyContour)}).",
+            $"Elongation stays correlated for τ_q = {Round(d.TauQFrames.Value * u.Dt)} {u.Time} ({ci(d.TauQFrames.Scale(u.Dt))}); orientation for τ_θ = {Round(d.TauThetaFrames.Value * u.Dt)} {u.Time} ({ci(d.TauThetaFrames.Scale(u.Dt))}).",
+        };
+        var hs = df.HeadwardSpeed.Scale(u.S / u.Dt);
+        if (df.PlusTracksUsed > 0)
+            h.Add($"+1/2 defects ({Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed) move {(hs.Value > 0 ? "toward their head (extensile-like)" : "toward their tail (contractile-like)")} at {Round(hs.Value)} {u.Length}/{u.Time} ({ci(hs)}).");
+        else h.Add($"No +1/2 defect was followed long enough to measure its motion ({Round(df.PlusPerFrame)} +1/2 and {Round(df.MinusPerFrame)} −1/2 defects per frame).");
+        return h;
+    }
+
+    /// <summary>A self-contained page from a short Markdown summary (headings, bullets, paragraphs, **bold**) and PNG figures with captions.</summary>
+    public static string FromMarkdown(string title, string markdown, IEnumerable<(string Path, string Caption)> figures)
+    {
+        var sb = new StringBuilder("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\" /><title>");
+        sb.Append(E(title)).Append("</title>\n<style>body{font-family:sans-serif;max-width:1000px;margin:2em auto;color:#222;line-height:1.45}")
+          .Append("figure{margin:1.5em 0}figure img{max-width:100%;border:1px solid #ddd}figcaption{color:#555;font-size:0.92em}</style></head>\n<body>\n");
+        bool inList = false;
+        string Inline(string t)
+        {
+            var parts = E(t).Split("**");
+            var o = new StringBuilder();
+            for (int i = 0; i < parts.Length; i++) o.Append(i % 2 == 1 ? $"<strong>{parts[i]}</strong>" : parts[i]);
+            return o.ToString();
+        }
+        foreach (var raw in markdown.Split('\n'))
+        {
+            string line = raw.TrimEnd();
+            if (!line.StartsWith("- ") && inList) { sb.Append("</ul>\n"); inList = false; }
+            if (line.StartsWith("## ")) sb.Append("<h2>").Append(Inline(line[3..])).Append("</h2>\n");
+            else if (line.StartsWith("# ")) sb.Append("<h1>").Append(Inline(line[2..])).Append("</h1>\n");
+            else if (line.StartsWith("- ")) { if (!inList) { sb.Append("<ul>\n"); inList = true; } sb.Append("<li>").Append(Inline(line[2..])).Append("</li>\n"); }
+            else if (line.Length > 0) sb.Append("<p>").Append(Inline(line)).Append("</p>\n");
+        }
+        if (inList) sb.Append("</ul>\n");
+        foreach (var (path, caption) in figures)
+        {
+            if (!File.Exists(path)) continue;
+            sb.Append("<figure><img alt=\"").Append(E(Path.GetFileName(path))).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(path)))
+              .Append("\" /><figcaption>").Append(E(caption)).Append("</figcaption></figure>\n");
+        }
+        sb.Append("<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n</body></html>\n");
+        return sb.ToString();
+    }
+
+    public static string Build(AnalysisResult r, string dir, JsonObject provenance)
+    {
+        var u = r.Units; var p = r.Pooled;
+        var sb = new StringBuilder();
+        sb.Append("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\" /><title>ShapeNoise report — ")
+          .Append(E(Path.GetFileName(r.Movie.Path.TrimEnd('/')))).Append("</title>\n<style>")
+          .Append("body{font-family:sans-serif;max-width:1000px;margin:2em auto;color:#222;line-height:1.45}")
+          .Append("figure{margin:1.5em 0}figure img{max-width:100%;border:1px solid #ddd}figcaption{color:#555;font-size:0.92em}")
+          .Append("table{border-collapse:collapse;font-size:0.9em}td,th{border:1px solid #ccc;padding:2px 8px;text-align:left}")
+          .Append(".warn{background:#fff4e0;border-left:4px solid #e0a000;padding:0.5em 1em}.strip img{width:32%;margin-right:1%}")
+          .Append("</style></head>\n<body>\n");
+        sb.Append("<h1>Cell-shape fluctuations of ").Append(E(Path.GetFileName(r.Movie.Path.TrimEnd('/')))).Append("</h1>\n");
+        sb.Append("<p>").Append(r.Counts.Frames).Append(" frames, ").Append(r.Counts.Outlines).Append(" outlines, ")
+          .Append(r.Counts.TracksUsed).Append(" of ").Append(r.Counts.Tracks).Append(" tracks in the statistics; units: ")
+          .Append(E(u.Length)).Append(", ").Append(E(u.Time)).Append(". Intervals are 95% bootstrap intervals over tracks (seed ")
+          .Append(r.Options.Seed).Append(").</p>\n<h2>Headline</h2>\n<ul>\n");
+        foreach (var h in Headlines(r)) sb.Append("<li>").Append(E(h)).Append("</li>\n");
+        sb.Append("</ul>\n");
+        if (r.Warnings.Count > 0)
+        {
+            sb.Append("<div class=\"warn\"><strong>Warnings</strong><ul>\n");
+            foreach (var w in r.Warnings) sb.Append("<li>").Append(E(w)).Append("</li>\n");
+            sb.Append("</ul></div>\n");
+        }
+        double fa = p.VarAlongRaw > 0 ? p.FloorAlong / p.VarAlongRaw : double.NaN, fc = p.VarAcrossRaw > 0 ? p.FloorAcross / p.VarAcrossRaw : double.NaN;
+        sb.Append("<h2>Noise floor</h2>\n<p>").Append(E(r.FloorReference is null
+            ? $"Estimated from the high Fourier modes of each track (white-noise model): it is {Round(100 * fa)}% of the raw contour variance in the pole sector and {Round(100 * fc)}% in the flank sector. Length and width fluctuations integrate over the whole outline and carry little pixelation noise."
+            : $"Taken from a fixed-cell movie (--floor-from): {Round(100 * fa)}% of the raw contour variance in the pole sector, {Round(100 * fc)}% in the flank sector; its length and width fluctuations were subtracted too."))
+          .Append("</p>\n");
+        sb.Append("<h2>Figures</h2>\n");
+        void Fig(string file, string caption)
+        {
+            string path = Path.Combine(dir, file);
+            if (!File.Exists(path)) return;
+            sb.Append("<figure><img alt=\"").Append(E(file)).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(path)))
+              .Append("\" /><figcaption>").Append(E(caption)).Append("</figcaption></figure>\n");
+        }
+        Fig("anisotropy.png", "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).");
+        Fig("profile.png", "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.");
+        Fig("spectrum.png", "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.");
+        Fig("autocorrelation.png", "Pooled autocorrelation of each quantity with its 95% band (points, shading) and the fitted model (line), whose correlation time is in the panel title. Dips below zero at long lags are the expected bias of subtracting each track's mean, which the model includes.");
+        Fig("headward.png", "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).");
+        Fig("defect-flow.png", "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.");
+        var overlays = Directory.Exists(dir) ? Directory.GetFiles(dir, "defects-frame-*.png").OrderBy(f => f, StringComparer.Ordinal).ToList() : [];
+        if (overlays.Count > 0)
+        {
+            sb.Append("<figure class=\"strip\">");
+            foreach (var o in overlays)
+                sb.Append("<img alt=\"").Append(E(Path.GetFileName(o))).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(o))).Append("\" />");
+            sb.Append("<figcaption>").Append(E("Frames with each cell's long axis (short lines), +1/2 defects as red comets (the dot is the head) and −1/2 defects as blue three-armed symbols.")).Append("</figcaption></figure>\n");
+        }
+        sb.Append("<h2>Options</h2>\n<table>\n");
+        if (provenance["options"] is JsonObject opts)
+            foreach (var (k, v) in opts) sb.Append("<tr><th>").Append(E(k)).Append("</th><td>").Append(E(v?.ToJsonString() ?? "null")).Append("</td></tr>\n");
+        sb.Append("</table>\n<h2>Provenance</h2>\n<p>").Append(E($"ShapeNoise {provenance["version"]}, {provenance["runtime"]}, {provenance["os"]}, finished {provenance["finished_utc"]}.")).Append("</p>\n<table>\n<tr><th>input</th><th>bytes</th><th>SHA-256</th></tr>\n");
+        if (provenance["inputs"] is JsonArray inputs)
+            foreach (var i in inputs) sb.Append("<tr><td>").Append(E(i?["name"]?.ToString() ?? "")).Append("</td><td>").Append(E(i?["bytes"]?.ToString() ?? "")).Append("</td><td>").Append(E(i?["sha256"]?.ToString() ?? "")).Append("</td></tr>\n");
+        sb.Append("</table>\n<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n</body></html>\n");
+        return sb.ToString();
+    }
+}
