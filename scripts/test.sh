@@ -3,7 +3,7 @@
 # Ends with one plain line "tests: N passed, N failed" read from the TRX results.
 set -uo pipefail
 cd "$(dirname "$0")/.."
-bash scripts/ensure-deps.sh || exit 1
+bash scripts/ensure-test-deps.sh || exit 1
 results="$(pwd)/TestResults"
 rm -rf "$results"
 dotnet test ShapeNoise.sln -c Release --results-directory "$results" \

@@ -153,6 +153,9 @@ public static class MovieAnalyzer
         var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options));
         if (used > 0 && !dynamics.SokalWindowReached)
             warnings.Add($"the integrated correlation time of q did not converge within {dynamics.MaxLag} lags (Sokal window): tracks are short compared with tau_q");
+        double coverage = frames > 0 && info.Width > 0 ? meanArea / ((double)info.Width * info.Height) / frames : double.NaN;
+        if (coverage < 0.7)
+            warnings.Add($"cells cover {100 * coverage:F0}% of the field: the nematic field and its defects assume a confluent tissue, so read the defect results with care");
         var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options));
         if (defects.Tracks.Count > 0 && defects.PlusTracksUsed == 0)
             warnings.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");

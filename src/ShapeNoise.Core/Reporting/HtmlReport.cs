@@ -70,7 +70,8 @@ public static class HtmlReport
             sb.Append("<figure><img alt=\"").Append(E(Path.GetFileName(path))).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(path)))
               .Append("\" /><figcaption>").Append(E(caption)).Append("</figcaption></figure>\n");
         }
-        sb.Append("<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n</body></html>\n");
+        sb.Append("<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n")
+          .Append(LoadCheck).Append("</body></html>\n");
         return sb.ToString();
     }
 
@@ -131,7 +132,12 @@ public static class HtmlReport
         sb.Append("</table>\n<h2>Provenance</h2>\n<p>").Append(E($"ShapeNoise {provenance["version"]}, {provenance["runtime"]}, {provenance["os"]}, finished {provenance["finished_utc"]}.")).Append("</p>\n<table>\n<tr><th>input</th><th>bytes</th><th>SHA-256</th></tr>\n");
         if (provenance["inputs"] is JsonArray inputs)
             foreach (var i in inputs) sb.Append("<tr><td>").Append(E(i?["name"]?.ToString() ?? "")).Append("</td><td>").Append(E(i?["bytes"]?.ToString() ?? "")).Append("</td><td>").Append(E(i?["sha256"]?.ToString() ?? "")).Append("</td></tr>\n");
-        sb.Append("</table>\n<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n</body></html>\n");
+        sb.Append("</table>\n<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n")
+          .Append(LoadCheck).Append("</body></html>\n");
         return sb.ToString();
     }
+
+    /// <summary>Inline, self-contained: once the page has loaded, records every image's decoded size on the body
+    /// (data-image-sizes), so a headless browser can confirm that every embedded figure decoded.</summary>
+    public const string LoadCheck = "<script>window.addEventListener('load',function(){document.body.setAttribute('data-image-sizes',Array.prototype.map.call(document.images,function(i){return i.naturalWidth+'x'+i.naturalHeight;}).join(','));});</script>\n";
 }
