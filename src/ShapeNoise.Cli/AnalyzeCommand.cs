@@ -82,7 +82,9 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 .Start(ctx =>
                 {
                     var task = ctx.AddTask("frames");
-                    result = Analyze(s, options, new SyncProgress(task), cmd);
+                    var after = ctx.AddTask("statistics", autoStart: false, maxValue: 3);
+                    result = Analyze(s, options, new SyncProgress(task, after), cmd);
+                    after.Value = after.MaxValue;
                 });
         }
         else result = Analyze(s, options, null, cmd);
@@ -127,15 +129,22 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
     }
 
     /// <summary>Reports progress on the calling thread (Progress&lt;T&gt; would post to the thread pool).</summary>
-    private sealed class SyncProgress(ProgressTask task) : IProgress<MovieAnalyzer.Progress>
+    private sealed class SyncProgress(ProgressTask frames, ProgressTask after) : IProgress<MovieAnalyzer.Progress>
     {
-        public void Report(MovieAnalyzer.Progress x) { task.MaxValue = x.FramesTotal; task.Value = x.FramesDone; }
+        public void Report(MovieAnalyzer.Progress x)
+        {
+            if (x.Stage == "frames") { frames.MaxValue = x.FramesTotal; frames.Value = x.FramesDone; return; }
+            if (!after.IsStarted) after.StartTask();
+            frames.Value = frames.MaxValue;
+            after.Description = x.Stage;
+            after.Value = x.FramesDone;
+        }
     }
 
     /// <summary>Frames per second of a progress task.</summary>
     private sealed class TransferSpeedlessFpsColumn : ProgressColumn
     {
         public override Spectre.Console.Rendering.IRenderable Render(Spectre.Console.Rendering.RenderOptions options, ProgressTask task, TimeSpan deltaTime)
-            => new Markup(task.Speed is { } v ? $"{v:F1} frames/s" : "");
+            => new Markup(task.Description == "frames" && task.Speed is { } v ? $"{v:F1} frames/s" : "");
     }
 }

@@ -26,15 +26,26 @@ public sealed class SegmentCommand : Command<SegmentCommand.Settings>
 
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
-        var (frames, cells) = SegmentJob.Run(s.Input, s.Out, new SegmentOptions
+        (int Frames, double MeanCells) result = default;
+        void Go(IProgress<(int, int)>? p) => result = SegmentJob.Run(s.Input, s.Out, new SegmentOptions
         {
             CellDiameterUm = s.CellDiameter, FlattenDiameters = s.Flatten, SmoothFraction = s.Smooth, SeedWindowFraction = s.SeedWindow,
             BoundarySigmaPx = s.BoundarySigma, MinAreaFraction = s.MinAreaFraction, MaxAreaFactor = s.MaxAreaFactor,
-        }, s.PixelSize, s.FrameInterval, s.QcEvery,
-            Environment.GetCommandLineArgs().Skip(1));
+        }, s.PixelSize, s.FrameInterval, s.QcEvery, Environment.GetCommandLineArgs().Skip(1), p);
+        if (Console.IsOutputRedirected) Go(null);
+        else AnsiConsole.Progress()
+            .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn())
+            .Start(ctx => { var task = ctx.AddTask("segmenting frames"); Go(new Inline(task)); });
+        var (frames, cells) = result;
         AnsiConsole.MarkupLineInterpolated($"segmented {frames} frames ({cells:F0} cells per frame) into [bold]{Path.Combine(s.Out, "labels.tif")}[/]");
         return 0;
     }
+}
+
+/// <summary>Reports (done, total) on the calling thread.</summary>
+internal sealed class Inline(ProgressTask task) : IProgress<(int Done, int Total)>
+{
+    public void Report((int Done, int Total) x) { task.MaxValue = x.Total; task.Value = x.Done; }
 }
 
 public sealed class ScoreCommand : Command<ScoreCommand.Settings>

@@ -12,7 +12,10 @@ namespace ShapeNoise.Pipeline;
 public static class MovieAnalyzer
 {
     /// <summary>Progress: frames done of total.</summary>
-    public readonly record struct Progress(int FramesDone, int FramesTotal);
+    /// <param name="FramesDone">Frames done (the frame loop) or steps done (the stages after it).</param>
+    /// <param name="FramesTotal">Frames or steps in all.</param>
+    /// <param name="Stage">"frames" during the frame loop, then the stage that has just started.</param>
+    public readonly record struct Progress(int FramesDone, int FramesTotal, string Stage = "frames");
 
     /// <summary>One frame's outlines and their links to the previous frame's (null for the first frame).</summary>
     public sealed record FrameOutlines(int Index, Outline[] Outlines, FrameLinks? Links, int Divisions, int Merges);
@@ -134,6 +137,7 @@ public static class MovieAnalyzer
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
 
         // Cells carry the final track ids; mark which tracks are used.
+        progress?.Report(new Progress(0, 3, "fluctuation statistics"));
         var pooled = times.Time("fluctuations", () => Pool(tracks, m, options, floorReference));
         int used = 0, below = 0;
         foreach (var t in tracks)
@@ -150,18 +154,21 @@ public static class MovieAnalyzer
         if (nArea > 0 && nonStar > 0.1 * nArea) warnings.Add($"{nonStar} of {nArea} outlines are not star-shaped about their centroid: the radial function takes the farthest crossing");
         if (used > 0 && below > 0.25 * used) warnings.Add($"{below} of {used} tracks have contour fluctuations below the noise floor");
         var counts = new AnalysisCounts(frames, objects, nArea, border, small, nonStar, tracks.Count, used, below, divisions, merges);
+        progress?.Report(new Progress(1, 3, "correlation times"));
         var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options));
         if (used > 0 && !dynamics.SokalWindowReached)
             warnings.Add($"the integrated correlation time of q did not converge within {dynamics.MaxLag} lags (Sokal window): tracks are short compared with tau_q");
         double coverage = frames > 0 && info.Width > 0 ? meanArea / ((double)info.Width * info.Height) / frames : double.NaN;
         if (coverage < 0.7)
             warnings.Add($"cells cover {100 * coverage:F0}% of the field: the nematic field and its defects assume a confluent tissue, so read the defect results with care");
+        progress?.Report(new Progress(2, 3, "nematic field and defects"));
         var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options));
         if (defects.Tracks.Count > 0 && defects.PlusTracksUsed == 0)
             warnings.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
         var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, options));
         if (defects.PlusTracksUsed > 0 && hypothesis.DefectTracks < 3)
             warnings.Add($"only {hypothesis.DefectTracks} +1/2 defect track(s) with a local anisotropy: the within-movie hypothesis test needs 3 or more; compare movies instead");
+        progress?.Report(new Progress(3, 3, "done"));
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis);
     }
 

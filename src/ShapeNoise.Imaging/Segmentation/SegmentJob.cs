@@ -15,7 +15,7 @@ public static class SegmentJob
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
     public static (int Frames, double MeanCells) Run(string input, string outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
-        int qcEvery = 10, IEnumerable<string>? commandLine = null)
+        int qcEvery = 10, IEnumerable<string>? commandLine = null, IProgress<(int Done, int Total)>? progress = null)
     {
         using var movie = LabelMovies.Open(input);   // raw intensities arrive as integers (8- or 16-bit)
         var info = movie.Info;
@@ -30,6 +30,7 @@ public static class SegmentJob
                 if (labels.Max() > 65535) throw new InputException(input, $"frame {f.Index + 1} has more than 65535 cells");
                 if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"));
                 frames++; cells += labels.Max();
+                progress?.Report((frames, info.FrameCount));
                 return labels;
             });
             var xml = TiffWriter.OmeXml(info.Width, info.Height, info.FrameCount, "uint16", s, dt);
