@@ -19,6 +19,8 @@ public sealed record AnalysisOptions
     public int BorderMarginPx { get; init; } = 1;
     /// <summary>Only tracks with at least this many frames enter the statistics (spec: --min-track, 10).</summary>
     public int MinTrackFrames { get; init; } = 10;
+    /// <summary>A track lost for at most this many frames resumes when its cell reappears near its last position (spec: --max-gap, 0).</summary>
+    public int MaxGapFrames { get; init; }
     /// <summary>Outline placement.</summary>
     public OutlineMethod Outline { get; init; } = OutlineMethod.Midpoint;
     /// <summary>Overlap fraction that makes two masks in consecutive frames candidates for the same cell.</summary>
@@ -57,6 +59,7 @@ public sealed record AnalysisOptions
         if (MinAreaPx < 3) throw new ArgumentException($"--min-area must be at least 3 px (got {MinAreaPx})");
         if (BorderMarginPx < 0) throw new ArgumentException($"--border-margin must be >= 0 (got {BorderMarginPx})");
         if (MinTrackFrames < 3) throw new ArgumentException($"--min-track must be at least 3 frames (got {MinTrackFrames})");
+        if (MaxGapFrames < 0) throw new ArgumentException($"--max-gap must be >= 0 frames (got {MaxGapFrames})");
         if (LinkOverlapFraction is <= 0 or > 1) throw new ArgumentException($"--link-overlap must be in (0, 1] (got {LinkOverlapFraction})");
         if (PixelSizeUm is { } s && !(s > 0 && double.IsFinite(s))) throw new ArgumentException($"--pixel-size must be a positive number (got {s})");
         if (FrameIntervalMin is { } t && !(t > 0 && double.IsFinite(t))) throw new ArgumentException($"--frame-interval must be a positive number (got {t})");

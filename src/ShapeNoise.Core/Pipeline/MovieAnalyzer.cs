@@ -70,6 +70,8 @@ public static class MovieAnalyzer
         using var builder = new TrackBuilder(m, options.MinTrackFrames);
         var cells = new List<CellRecord>();
         int[]? prevSlot = null; // active-track slot of each object of the previous frame, or -1
+        ShapeMeasures[]? prevShapes = null;
+        var dormant = new List<(int Slot, int LastFrame, double X, double Y, double RadiusPx)>();   // lost tracks that may resume (--max-gap)
         int objects = 0, border = 0, small = 0, nonStar = 0, divisions = 0, merges = 0, frames = 0;
         foreach (var fo in frameOutlines)
         {
@@ -93,6 +95,31 @@ public static class MovieAnalyzer
                 modesRaw[i] = new Complex[nm];
                 FourierModes.Of(rays[i], modesRaw[i]);
             });
+            // Tracks lost earlier resume when a new outline appears near their last position within --max-gap frames
+            // (optimal one-to-one assignment, gated by the track's own radius).
+            var resume = new int[outlines.Length];
+            Array.Fill(resume, -1);
+            if (options.MaxGapFrames > 0)
+            {
+                foreach (var d in dormant.Where(d => fo.Index - d.LastFrame > options.MaxGapFrames + 1).ToList()) { builder.End(d.Slot, TrackEnd.Lost); dormant.Remove(d); }
+                var newcomers = Enumerable.Range(0, outlines.Length).Where(i => outlines[i].Status == OutlineStatus.Ok
+                    && !(links is not null && links.Predecessor[i] >= 0 && prevSlot![links.Predecessor[i]] >= 0)).ToArray();
+                if (dormant.Count > 0 && newcomers.Length > 0)
+                {
+                    var cost = new double[dormant.Count, newcomers.Length];
+                    for (int a = 0; a < dormant.Count; a++)
+                        for (int b = 0; b < newcomers.Length; b++)
+                        {
+                            double dx = shapes[newcomers[b]].CentroidX - dormant[a].X, dy = shapes[newcomers[b]].CentroidY - dormant[a].Y;
+                            double dist = Math.Sqrt(dx * dx + dy * dy);
+                            cost[a, b] = dist <= dormant[a].RadiusPx ? dist : double.PositiveInfinity;
+                        }
+                    var match = Assignment.Solve(cost, double.MaxValue);
+                    var taken = new List<int>();
+                    for (int a = 0; a < dormant.Count; a++) if (match[a] >= 0) { resume[newcomers[match[a]]] = dormant[a].Slot; taken.Add(a); }
+                    foreach (int a in taken.OrderByDescending(x => x)) dormant.RemoveAt(a);
+                }
+            }
             for (int i = 0; i < outlines.Length; i++)
             {
                 var o = outlines[i];
@@ -101,8 +128,8 @@ public static class MovieAnalyzer
                 var shape = shapes[i];
                 if (!star[i]) nonStar++;
                 int a = links is null ? -1 : links.Predecessor[i];
-                int s = a >= 0 && prevSlot![a] >= 0 ? prevSlot[a] : -1;
-                if (s >= 0) continued![a] = true;
+                int s = a >= 0 && prevSlot![a] >= 0 ? prevSlot[a] : resume[i];
+                if (a >= 0 && prevSlot![a] >= 0) continued![a] = true;
                 var (trackSlot, thetaCont, modes) = builder.Append(s, fo.Index, shape, rays[i], modesRaw[i]);
                 slot[i] = trackSlot;
                 cells.Add(new CellRecord(fo.Index, o.Label, builder.IdOf(trackSlot), shape, thetaCont, star[i],
@@ -122,16 +149,19 @@ public static class MovieAnalyzer
                         : b >= 0 && outlines[b].Status == OutlineStatus.Border ? TrackEnd.Border
                         : b >= 0 && outlines[b].Status == OutlineStatus.Small ? TrackEnd.Small
                         : TrackEnd.Lost;
-                    builder.End(prevSlot[a], why);
+                    if (why == TrackEnd.Lost && options.MaxGapFrames > 0)
+                        dormant.Add((prevSlot[a], fo.Index - 1, prevShapes![a].CentroidX, prevShapes[a].CentroidY, Math.Sqrt(prevShapes[a].AreaPx2 / Math.PI)));
+                    else builder.End(prevSlot[a], why);
                 }
             }
             times.Add("fluctuations", System.Diagnostics.Stopwatch.GetElapsedTime(endStart).TotalSeconds);
-            prevSlot = slot;
+            prevSlot = slot; prevShapes = shapes;
             frames++;
             progress?.Report(new Progress(frames, info.FrameCount));
         }
         if (frames < 2)
             throw new InputException(info.Path, $"has {frames} frame(s); fluctuations need a movie of at least 2 frames");
+        foreach (var d in dormant) builder.End(d.Slot, TrackEnd.Lost);
         times.Time("fluctuations", () => { builder.EndAll(TrackEnd.MovieEnd); return 0; });
         var tracks = builder.Finished;
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));

@@ -77,3 +77,32 @@ public class OverlapLinkingTests
         Assert.Equal(12, r.Counts.Tracks);
     }
 }
+
+public class GapClosingTests
+{
+    [Fact]
+    public void Analyze_CellMissingOneFrame_ResumesOnlyWithMaxGap()
+    {
+        // Three drifting blobs over 14 frames; blob 2 is absent from frame 6 (a segmentation drop-out).
+        int w = 120, h = 60, T = 14;
+        var frames = new List<int[]>();
+        for (int t = 0; t < T; t++)
+        {
+            var img = new int[w * h];
+            for (int c = 0; c < 3; c++)
+            {
+                if (c == 1 && t == 6) continue;
+                Support.Raster.Ellipse(img, w, h, 20 + 40 * c + 0.3 * t, 30, 10, 7, 0.2 * c, 10 * t + c + 1);   // ids change every frame
+            }
+            frames.Add(img);
+        }
+        var noGap = ShapeNoise.Pipeline.MovieAnalyzer.Run(new Support.MemoryMovie(w, h, frames), new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 0, MinTrackFrames = 5 });
+        var gap = ShapeNoise.Pipeline.MovieAnalyzer.Run(new Support.MemoryMovie(w, h, frames), new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 0, MinTrackFrames = 5, MaxGapFrames = 1 });
+        Assert.Equal(4, noGap.Counts.Tracks);                  // blob 2 splits into two tracks at the gap
+        Assert.Equal(3, gap.Counts.Tracks);                    // with --max-gap 1 it is one track
+        var resumed = gap.Tracks.Single(t => t.Frames == T - 1);
+        Assert.DoesNotContain(6, resumed.FrameIndex);
+        Assert.Contains(5, resumed.FrameIndex); Assert.Contains(7, resumed.FrameIndex);
+        Assert.NotNull(resumed.Contour);
+    }
+}
