@@ -18,6 +18,7 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
         [CommandOption("--pixel-size <UM>"), Description("For movies analysed here: pixel size when the metadata has none.")] public double? PixelSize { get; init; }
         [CommandOption("--frame-interval <MIN>"), Description("For movies analysed here: frame interval when the metadata has none.")] public double? FrameInterval { get; init; }
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
+        [CommandOption("--json"), Description("Print the differences as JSON, nothing else.")] public bool Json { get; init; }
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
     }
 
@@ -25,6 +26,19 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
     {
         var options = new AnalysisOptions { BootstrapResamples = s.Bootstrap, Seed = s.Seed, PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval }.Validated();
         var r = ComparisonJobs.Compare(s.Conditions, s.Out, options, LabelMovies.Open, new ShapeNoise.Imaging.Drawing.DefectOverlays(), Environment.GetCommandLineArgs().Skip(1));
+        if (s.Json)
+        {
+            static System.Text.Json.Nodes.JsonNode? N(double v) => double.IsFinite(v) ? v : null;
+            var arr = new System.Text.Json.Nodes.JsonArray();
+            foreach (var d in r.Differences)
+                arr.Add(new System.Text.Json.Nodes.JsonObject
+                {
+                    ["measure"] = d.Measure, ["condition_a"] = d.A, ["condition_b"] = d.B, ["difference"] = N(d.Difference.Value),
+                    ["ci95"] = new System.Text.Json.Nodes.JsonArray(N(d.Difference.Low), N(d.Difference.High)), ["ratio"] = N(d.Ratio.Value), ["p_value"] = N(d.PValue),
+                });
+            Console.WriteLine(arr.ToJsonString(new System.Text.Json.JsonSerializerOptions { WriteIndented = true }));
+            return 0;
+        }
         if (s.Quiet) return 0;
         var t = new Table().AddColumn("measure").AddColumn("a - b").AddColumn("difference").AddColumn("95% CI").AddColumn("p (movies)");
         foreach (var d in r.Differences)
