@@ -84,8 +84,12 @@ public static class DefectAnalysis
         var fVpar = new double[side * side]; var fVperp = new double[side * side]; var fQxx = new double[side * side]; var fQxy = new double[side * side]; var fN = new int[side * side];
         int plus = 0, minus = 0;
         var flowAt = new Dictionary<(int Frame, int Index), (double Vx, double Vy)>();
-        foreach (var run in frameRuns)
+        // Frames are independent: each is coarse-grained and searched in parallel; the results are then accumulated in
+        // frame order, so every sum is taken in the same order as a sequential pass.
+        var results = new (List<Defect> Defects, (double Vx, double Vy)[] Flow, List<(int K, double Vpar, double Vperp, double Qxx, double Qxy)> Ensemble)[frameRuns.Count];
+        Parallel.For(0, frameRuns.Count, f =>
         {
+            var run = frameRuns[f];
             var samples = new CellSample[run.Count];
             for (int i = 0; i < run.Count; i++)
             {
@@ -96,12 +100,12 @@ public static class DefectAnalysis
             }
             var field = CoarseGraining.Of(samples, widthPx, heightPx, grid, coarse);
             var defects = DefectFinder.Find(field, widthPx, heightPx, coarse, coarse);
-            perFrame.Add((run.Frame, defects));
+            var flow = new (double, double)[defects.Count];
+            var ens = new List<(int, double, double, double, double)>();
             for (int d = 0; d < defects.Count; d++)
             {
                 var df = defects[d];
-                flowAt[(run.Frame, d)] = (field.Sample(field.Vx, df.X, df.Y), field.Sample(field.Vy, df.X, df.Y));
-                if (df.Charge == 0.5) plus++; else if (df.Charge == -0.5) minus++;
+                flow[d] = (field.Sample(field.Vx, df.X, df.Y), field.Sample(field.Vy, df.X, df.Y));
                 if (df.Charge != 0.5 || !double.IsFinite(df.HeadX)) continue;
                 double hx = df.HeadX, hy = df.HeadY, px = -hy, py = hx;
                 double c2 = hx * hx - hy * hy, s2 = 2 * hx * hy;   // cos 2 alpha, sin 2 alpha of the head angle
@@ -113,11 +117,21 @@ public static class DefectAnalysis
                         double vx = field.Sample(field.Vx, x, y), vy = field.Sample(field.Vy, x, y);
                         double qx = field.Sample(field.Qxx, x, y), qy = field.Sample(field.Qxy, x, y);
                         if (!double.IsFinite(vx) || !double.IsFinite(vy) || !double.IsFinite(qx)) continue;
-                        int k = (b + half) * side + (a + half);
-                        fVpar[k] += vx * hx + vy * hy; fVperp[k] += vx * px + vy * py;
-                        fQxx[k] += qx * c2 + qy * s2; fQxy[k] += -qx * s2 + qy * c2; fN[k]++;
+                        ens.Add(((b + half) * side + (a + half), vx * hx + vy * hy, vx * px + vy * py, qx * c2 + qy * s2, -qx * s2 + qy * c2));
                     }
             }
+            results[f] = (defects, flow, ens);
+        });
+        for (int f = 0; f < frameRuns.Count; f++)
+        {
+            var (defects, flow, ens) = results[f];
+            perFrame.Add((frameRuns[f].Frame, defects));
+            for (int d = 0; d < defects.Count; d++)
+            {
+                flowAt[(frameRuns[f].Frame, d)] = flow[d];
+                if (defects[d].Charge == 0.5) plus++; else if (defects[d].Charge == -0.5) minus++;
+            }
+            foreach (var (k, vp, vq, qa, qb) in ens) { fVpar[k] += vp; fVperp[k] += vq; fQxx[k] += qa; fQxy[k] += qb; fN[k]++; }
         }
         for (int k = 0; k < fN.Length; k++)
             if (fN[k] > 0) { fVpar[k] /= fN[k]; fVperp[k] /= fN[k]; fQxx[k] /= fN[k]; fQxy[k] /= fN[k]; }
