@@ -76,8 +76,9 @@ public static class ComparisonJobs
             d.Append(Ci, $"{x.Measure},{x.A},{x.B},{Csv(x.Difference.Value)},{Csv(x.Difference.Low)},{Csv(x.Difference.High)},{Csv(x.Ratio.Value)},{Csv(x.Ratio.Low)},{Csv(x.Ratio.High)},{Csv(x.PValue)},{x.MoviesA},{x.MoviesB}\n");
         File.WriteAllText(Path.Combine(dir, "differences.csv"), d.ToString());
         foreach (var measure in new[] { "anisotropy", "anisotropy_contour" }) SuperPlot(r, measure).SavePng(Path.Combine(dir, $"superplot-{measure}.png"), 720, 520);
-        File.WriteAllText(Path.Combine(dir, "comparison.md"), Narrative(r));
-        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise comparison", Narrative(r),
+        string narrative = Narrative(r);
+        File.WriteAllText(Path.Combine(dir, "comparison.md"), narrative);
+        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise comparison", narrative,
         [
             (Path.Combine(dir, "superplot-anisotropy.png"), "Every track (small points, coloured by replicate), every replicate's value (large markers) and each condition's value with its 95% hierarchical-bootstrap interval (black bar), for var_L / var_W on a log scale."),
             (Path.Combine(dir, "superplot-anisotropy_contour.png"), "The same for the floor-corrected contour ratio var_along / var_across."),
@@ -179,8 +180,9 @@ public static class ComparisonJobs
             foreach (var d in plan.Designs) sb.Append(Ci, $"{d.MoviesPerCondition},{d.CellsPerMovie},{d.Power.ToString("R", Ci)}\n");
             File.WriteAllText(Path.Combine(dir, "plan.csv"), sb.ToString());
             PlanPlot(plan).SavePng(Path.Combine(dir, "plan.png"), 720, 480);
-            File.WriteAllText(Path.Combine(dir, "plan.md"), PlanNarrative(plan));
-            File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", PlanNarrative(plan),
+            string narrative = PlanNarrative(plan);
+            File.WriteAllText(Path.Combine(dir, "plan.md"), narrative);
+            File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative,
                 [(Path.Combine(dir, "plan.png"), "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.")]));
             var prov = Provenance.Describe("plan", inputs, new JsonObject { ["effect"] = effect, ["measure"] = measure }, commandLine);
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));

@@ -79,20 +79,9 @@ public static class ConditionComparison
     /// <summary>One hierarchical resample of a condition: movie draw counts, then unit multiplicities per measure.</summary>
     private static (int[] Count, Dictionary<string, int[][]> Units) Draw(IReadOnlyList<MovieData> movies, Random rng)
     {
-        int n = movies.Count;
-        var count = new int[n];
-        var units = Measures.ToDictionary(k => k, k => movies.Select(m => new int[UnitCount(k, m)]).ToArray());
-        for (int slot = 0; slot < n; slot++)
-        {
-            int m = rng.Next(n);
-            count[m]++;
-            foreach (var k in Measures)
-            {
-                var w = units[k][m];
-                for (int i = 0; i < w.Length; i++) w[rng.Next(w.Length)]++;
-            }
-        }
-        return (count, units);
+        var counts = Measures.Select(k => (IReadOnlyList<int>)movies.Select(m => UnitCount(k, m)).ToArray()).ToList();
+        var (count, units) = HierarchicalBootstrap.Draw(counts, movies.Count, rng);
+        return (count, Measures.Select((k, j) => (k, units[j])).ToDictionary(x => x.k, x => x.Item2));
     }
 
     public static ComparisonResult Run(IReadOnlyList<MovieData> movies, int resamples, int seed)

@@ -7,20 +7,31 @@ namespace ShapeNoise.Statistics;
 public static class HierarchicalBootstrap
 {
     /// <summary>
-    /// One resample: for each of the M movie slots a movie drawn with replacement, and for it the multiplicity of each of
-    /// its units (drawn with replacement). Returned as per-movie, per-unit multiplicities summed over slots.
+    /// One resample for several kinds of unit at once: M movie slots each draw a movie with replacement, and for every
+    /// kind j the drawn movie's units of that kind (<paramref name="unitCounts"/>[j][movie] of them) are drawn with
+    /// replacement. Returns how often each movie was drawn and, per kind and movie, each unit's multiplicity summed over
+    /// slots. With a single kind this is the classic two-level resample.
     /// </summary>
-    public static int[][] Draw(IReadOnlyList<int> unitsPerMovie, Random rng)
+    public static (int[] MovieCounts, int[][][] Units) Draw(IReadOnlyList<IReadOnlyList<int>> unitCounts, int movies, Random rng)
     {
-        int m = unitsPerMovie.Count;
-        var w = new int[m][];
-        for (int i = 0; i < m; i++) w[i] = new int[unitsPerMovie[i]];
-        for (int slot = 0; slot < m; slot++)
+        var count = new int[movies];
+        var w = new int[unitCounts.Count][][];
+        for (int j = 0; j < unitCounts.Count; j++)
         {
-            int movie = rng.Next(m), n = unitsPerMovie[movie];
-            for (int k = 0; k < n; k++) w[movie][rng.Next(n)]++;
+            w[j] = new int[movies][];
+            for (int m = 0; m < movies; m++) w[j][m] = new int[unitCounts[j][m]];
         }
-        return w;
+        for (int slot = 0; slot < movies; slot++)
+        {
+            int movie = rng.Next(movies);
+            count[movie]++;
+            for (int j = 0; j < w.Length; j++)
+            {
+                var units = w[j][movie];
+                for (int k = 0; k < units.Length; k++) units[rng.Next(units.Length)]++;
+            }
+        }
+        return (count, w);
     }
 
     /// <summary>Point value (all multiplicities 1) and the 2.5-97.5 percentile interval over <paramref name="resamples"/> two-level resamples.</summary>
@@ -30,7 +41,7 @@ public static class HierarchicalBootstrap
         double value = statistic(ones);
         var rng = new Random(seed);
         var stats = new List<double>(resamples);
-        for (int b = 0; b < resamples; b++) stats.Add(statistic(Draw(unitsPerMovie, rng)));
+        for (int b = 0; b < resamples; b++) stats.Add(statistic(Draw([unitsPerMovie], unitsPerMovie.Count, rng).Units[0]));
         return Bootstrap.Interval(value, stats);
     }
 }

@@ -112,7 +112,6 @@ public sealed class MonolayerMovie
         var seeds = movie.DartThrow(rng, 0);
         var owner = new int[w * h];
         for (int it = 0; it < 10; it++) { movie.Assign(seeds, 0, owner); movie.Relax(seeds, owner); }
-        movie._initial = seeds;
         return new MonolayerMovie(o, w, h, truth with { Cells = seeds.Count }, a, b) { _initial = seeds };
     }
 

@@ -130,39 +130,6 @@ public static class JunctionSegmenter
         }
     }
 
-    /// <summary>Watershed lines (-1) and unlabelled pixels join the most frequent positive label among their 8 neighbours.</summary>
-    private static void FillLines(int[] l, int w, int h)
-    {
-        var seen = new int[8]; var count = new int[8];
-        for (int pass = 0; pass < 3; pass++)
-        {
-            bool any = false;
-            var copy = (int[])l.Clone();
-            for (int y = 0; y < h; y++)
-                for (int x = 0; x < w; x++)
-                {
-                    int i = y * w + x;
-                    if (copy[i] > 0) continue;
-                    int best = 0, bestCount = 0;
-                    int ns = 0;
-                    for (int dy = -1; dy <= 1; dy++)
-                        for (int dx = -1; dx <= 1; dx++)
-                        {
-                            int xx = x + dx, yy = y + dy;
-                            if ((dx == 0 && dy == 0) || xx < 0 || yy < 0 || xx >= w || yy >= h) continue;
-                            int v = copy[yy * w + xx];
-                            if (v <= 0) continue;
-                            int k = 0; while (k < ns && seen[k] != v) k++;
-                            if (k == ns) { seen[ns] = v; count[ns] = 0; ns++; }
-                            count[k]++;
-                            if (count[k] > bestCount) { bestCount = count[k]; best = v; }
-                        }
-                    if (best > 0) { l[i] = best; any = true; }
-                }
-            if (!any) break;
-        }
-    }
-
     /// <summary>Regions below <paramref name="minArea"/> px join the neighbour they share the longest border with.</summary>
     private static void MergeSmall(int[] l, int w, int h, int minArea)
     {
