@@ -7,7 +7,7 @@ namespace ShapeNoise.Imaging.Reading;
 /// <summary>Layout of one TIFF page (image file directory).</summary>
 public sealed record TiffPage(int Index, int Width, int Height, int BitsPerSample, int SampleFormat, int SamplesPerPixel,
     int Compression, int Predictor, int RowsPerStrip, long[] Offsets, long[] ByteCounts, int TileWidth, int TileHeight,
-    string? Description, double XResolution, int ResolutionUnit);
+    string? Description, double XResolution, int ResolutionUnit, double YResolution = 0);
 
 /// <summary>
 /// A minimal, streaming reader of baseline TIFF and BigTIFF grayscale integer pages: strips or tiles, uncompressed,
@@ -131,12 +131,13 @@ public sealed class TiffPages : IDisposable
         var bps = Values(tags, 258);
         string? desc = null;
         if (tags.TryGetValue(270, out var d)) desc = System.Text.Encoding.UTF8.GetString(d.Raw).TrimEnd('\0');
-        double xres = 0;
-        if (tags.TryGetValue(282, out var xr) && xr.Type == 5 && xr.Raw.Length >= 8)
+        double Rational(int tag)
         {
-            long num = U32(xr.Raw), den = U32(xr.Raw.AsSpan(4));
-            xres = den != 0 ? (double)num / den : 0;
+            if (!tags.TryGetValue(tag, out var r) || r.Type != 5 || r.Raw.Length < 8) return 0;
+            long num = U32(r.Raw), den = U32(r.Raw.AsSpan(4));
+            return den != 0 ? (double)num / den : 0;
         }
+        double xres = Rational(282), yres = Rational(283);
         bool tiled = tags.ContainsKey(322);
         var offsets = Values(tags, tiled ? 324 : 273);
         var counts = Values(tags, tiled ? 325 : 279);
@@ -147,7 +148,7 @@ public sealed class TiffPages : IDisposable
                 throw new InputException(Path, $"truncated: page {index + 1} pixel data ends at byte {offsets[i] + counts[i]} but the file has {FileLength} bytes");
         return new TiffPage(index, w, h, bps.Length > 0 ? (int)bps[0] : 1, (int)One(339, 1), (int)One(277, 1),
             (int)One(259, 1), (int)One(317, 1), (int)Math.Min(One(278, h), h), offsets, counts,
-            (int)One(322, 0), (int)One(323, 0), desc, xres, (int)One(296, 2));
+            (int)One(322, 0), (int)One(323, 0), desc, xres, (int)One(296, 2), yres);
     }
 
     /// <summary>Checks that a page holds single-channel integer labels of 8, 16 or 32 bits; throws a one-line <see cref="InputException"/> otherwise.</summary>
