@@ -7,5 +7,5 @@ cd "$(dirname "$0")/.."
 bash scripts/ensure-deps.sh
 dotnet build src/ShapeNoise.Cli -c Release -nologo -v quiet >/dev/null
 tool=(dotnet src/ShapeNoise.Cli/bin/Release/net10.0/shapenoise.dll)
-"${tool[@]}" analyze demo-data/ellipses/labels.tif --out runs/demo-ellipses "$@"
-"${tool[@]}" analyze demo-data/monolayer/labels.tif --out runs/demo-monolayer "$@"
+"${tool[@]}" analyze demo-data/ellipses/labels.tif --out runs/demo-ellipses --overwrite "$@"
+"${tool[@]}" analyze demo-data/monolayer/labels.tif --out runs/demo-monolayer --overwrite "$@"

@@ -165,7 +165,7 @@ static (double Seconds, long PeakBytes) EndToEnd(string movie, string root)
     if (!File.Exists(dll)) dll = typeof(ShapeNoise.Cli.ExitCodes).Assembly.Location;
     string outDir = Path.Combine(Path.GetTempPath(), $"shapenoise-bench-e2e-{Environment.ProcessId}");
     var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-    foreach (var a in new[] { dll, "analyze", movie, "--out", outDir, "--quiet" }) psi.ArgumentList.Add(a);
+    foreach (var a in new[] { dll, "analyze", movie, "--out", outDir, "--quiet", "--overwrite" }) psi.ArgumentList.Add(a);
     var sw = Stopwatch.StartNew();
     using var p = Process.Start(psi)!;
     long peak = 0;

@@ -15,6 +15,7 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
     {
         [CommandArgument(0, "<INPUT>"), Description("Label movie: multi-page TIFF (8/16/32-bit integer) or a folder of TIFF/PNG frames.")] public string Input { get; init; } = "";
         [CommandOption("--out <DIR>"), Description("Output folder; written to a temporary folder first, then renamed.")] public string Out { get; init; } = "";
+        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--pixel-size <UM>"), Description("Pixel size (um/px) when the movie's metadata has none.")] public double? PixelSize { get; init; }
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min) when the movie's metadata has none.")] public double? FrameInterval { get; init; }
         [CommandOption("--rays <M>"), Description("Rays per outline (multiple of 8).")] public int Rays { get; init; } = 64;
@@ -98,8 +99,10 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
     private static AnalysisResult Analyze(Settings s, AnalysisOptions options, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
         => s.Raw
-            ? ShapeNoise.Imaging.Segmentation.RawAnalyzeJob.Run(s.Input, s.Out, options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd)
-            : AnalyzeJob.Run(s.Input, s.Out, options, LabelMovies.Open, progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
+            ? ShapeNoise.Imaging.Segmentation.RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd)
+            : AnalyzeJob.Run(s.Input, Target(s), options, LabelMovies.Open, progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
+
+    private static OutputTarget Target(Settings s) => new(s.Out, s.Overwrite, s.FloorFrom is null ? [s.Input] : [s.Input, s.FloorFrom]);
 
     private static void PrintSummary(AnalysisResult r, string outDir)
     {

@@ -13,6 +13,7 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
     {
         [CommandArgument(0, "<CONDITIONS_CSV>"), Description("CSV with columns condition,replicate,path (an analysis folder, or a movie to analyse first).")] public string Conditions { get; init; } = "";
         [CommandOption("--out <DIR>"), Description("Output folder.")] public string Out { get; init; } = "";
+        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--bootstrap <N>"), Description("Hierarchical bootstrap resamples.")] public int Bootstrap { get; init; } = 1000;
         [CommandOption("--seed <N>"), Description("Seed of every random resample.")] public int Seed { get; init; } = 1;
         [CommandOption("--pixel-size <UM>"), Description("For movies analysed here: pixel size when the metadata has none.")] public double? PixelSize { get; init; }
@@ -25,7 +26,7 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
         var options = new AnalysisOptions { BootstrapResamples = s.Bootstrap, Seed = s.Seed, PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval }.Validated();
-        var r = ComparisonJobs.Compare(s.Conditions, s.Out, options, LabelMovies.Open, new ShapeNoise.Imaging.Drawing.DefectOverlays(), Environment.GetCommandLineArgs().Skip(1));
+        var r = ComparisonJobs.Compare(s.Conditions, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, ComparisonJobs.ListedInputs(s.Conditions)), options, LabelMovies.Open, new ShapeNoise.Imaging.Drawing.DefectOverlays(), Environment.GetCommandLineArgs().Skip(1));
         if (s.Json)
         {
             static System.Text.Json.Nodes.JsonNode? N(double v) => double.IsFinite(v) ? v : null;
@@ -58,6 +59,7 @@ public sealed class PlanCommand : Command<PlanCommand.Settings>
         [CommandOption("--effect <RELATIVE>"), Description("Relative change to detect, e.g. 0.2 for 20%.")] public double Effect { get; init; } = 0.2;
         [CommandOption("--measure <MEASURE>"), Description("anisotropy or anisotropy_contour.")] public string Measure { get; init; } = "anisotropy";
         [CommandOption("--out <DIR>"), Description("Output folder.")] public string Out { get; init; } = "";
+        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required")
             : Pilots.Length == 0 ? ValidationResult.Error("give at least one pilot folder") : ValidationResult.Success();
@@ -65,7 +67,7 @@ public sealed class PlanCommand : Command<PlanCommand.Settings>
 
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
-        var p = ComparisonJobs.Plan(s.Pilots, s.Effect, s.Measure, s.Out, Environment.GetCommandLineArgs().Skip(1));
+        var p = ComparisonJobs.Plan(s.Pilots, s.Effect, s.Measure, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, s.Pilots), Environment.GetCommandLineArgs().Skip(1));
         if (s.Quiet) return 0;
         AnsiConsole.WriteLine($"ICC {p.Components.Icc:G3} (between {p.Components.Between:G3}, within {p.Components.Within:G3}) from {p.PilotMovies} pilot movies");
         AnsiConsole.WriteLine(p.Smallest is { } b ? $"smallest design with power >= 0.8: {b.MoviesPerCondition} movies per condition, {b.CellsPerMovie} cells per movie (power {b.Power:F2})"

@@ -16,8 +16,10 @@ EXIT CODES:
     0     done
     1     unexpected error
     2     bad input: the one-line message names the file and the problem (nothing is written)
-    3     the output folder cannot be written (nothing is left half-written)
+    3     the output folder cannot or may not be written: not empty and not ours, an earlier output without
+          --overwrite, the input's own folder, read-only (nothing is changed, nothing is left half-written)
     64    bad options or usage
+    130   interrupted (Ctrl-C; 143 for SIGTERM): the unfinished output is removed, an earlier output kept
 """;
 
     public static int Run(Func<int> body)
@@ -31,5 +33,8 @@ EXIT CODES:
         catch (Exception e) { Error($"unexpected {e.GetType().Name}: {e.Message}"); return Unexpected; }
     }
 
-    private static void Error(string message) => Console.Error.WriteLine($"shapenoise: error: {message.ReplaceLineEndings(" ")}");
+    private static void Error(string message)
+    {
+        if (!Interrupts.Requested) Console.Error.WriteLine($"shapenoise: error: {message.ReplaceLineEndings(" ")}");
+    }
 }

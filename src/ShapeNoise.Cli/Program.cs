@@ -3,6 +3,7 @@ using ShapeNoise.Reading;
 using Spectre.Console;
 using Spectre.Console.Cli;
 
+Interrupts.Install();
 var app = new CommandApp();
 app.Configure(c =>
 {
@@ -30,6 +31,7 @@ app.Configure(c =>
         .WithExample("plan", "runs/pilot-wt", "runs/pilot-ko", "--effect", "0.2", "--out", "runs/plan");
 });
 int code = ExitCodes.Run(() => app.Run(args));
+Interrupts.AfterCommand();
 if (args.Length == 0 || args is ["--help"] or ["-h"] or ["-?"])
     Console.WriteLine(ExitCodes.Help);
 return code;

@@ -11,6 +11,7 @@ public sealed class SegmentCommand : Command<SegmentCommand.Settings>
     {
         [CommandArgument(0, "<RAW>"), Description("Raw junction/membrane-marker movie: 8- or 16-bit single-channel TIFF stack or folder of frames.")] public string Input { get; init; } = "";
         [CommandOption("--out <DIR>"), Description("Output folder: labels.tif, QC overlays, run.json.")] public string Out { get; init; } = "";
+        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--cell-diameter <UM>"), Description("Expected cell diameter (um; px if the pixel size is unknown). Every segmentation length derives from it.")] public double CellDiameter { get; init; } = 10;
         [CommandOption("--pixel-size <UM>"), Description("Pixel size when the metadata has none.")] public double? PixelSize { get; init; }
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval when the metadata has none.")] public double? FrameInterval { get; init; }
@@ -27,7 +28,7 @@ public sealed class SegmentCommand : Command<SegmentCommand.Settings>
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
         (int Frames, double MeanCells) result = default;
-        void Go(IProgress<(int, int)>? p) => result = SegmentJob.Run(s.Input, s.Out, new SegmentOptions
+        void Go(IProgress<(int, int)>? p) => result = SegmentJob.Run(s.Input, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, [s.Input]), new SegmentOptions
         {
             CellDiameterUm = s.CellDiameter, FlattenDiameters = s.Flatten, SmoothFraction = s.Smooth, SeedWindowFraction = s.SeedWindow,
             BoundarySigmaPx = s.BoundarySigma, MinAreaFraction = s.MinAreaFraction, MaxAreaFactor = s.MaxAreaFactor,

@@ -11,6 +11,7 @@ public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings
     public sealed class Settings : RawRenderSettings
     {
         [CommandOption("--out <DIR>"), Description("Output folder (labels.tif, truth.json, run.json).")] public string Out { get; init; } = "";
+        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--cells <N>"), Description("Number of cells.")] public int Cells { get; init; } = 40;
         [CommandOption("--frames <N>"), Description("Number of frames.")] public int Frames { get; init; } = 80;
         [CommandOption("--semi-major <PX>"), Description("Mean semi-major axis a0 (px).")] public double A { get; init; } = 14;
@@ -38,7 +39,7 @@ public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings
             TauFrames = s.Tau, RotationDegPerFrame = s.Rotation, TauThetaFrames = s.TauTheta, DriftPx = s.Drift, Width = s.Width, Height = s.Height,
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         }.Validated();
-        var m = SynthJob.Ellipses(o, s.Out, Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
+        var m = SynthJob.Ellipses(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
         AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {o.Cells} cells) and truth.json: anisotropy {m.Truth.Anisotropy:F3}, anisotropy_contour {m.Truth.AnisotropyContour:F3}");
         return 0;
     }

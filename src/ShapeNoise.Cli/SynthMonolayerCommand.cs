@@ -11,6 +11,7 @@ public sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Settin
     public sealed class Settings : RawRenderSettings
     {
         [CommandOption("--out <DIR>"), Description("Output folder (labels.tif, truth.json, run.json).")] public string Out { get; init; } = "";
+        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--cells <N>"), Description("Number of cells.")] public int Cells { get; init; } = 600;
         [CommandOption("--frames <N>"), Description("Number of frames.")] public int Frames { get; init; } = 60;
         [CommandOption("--cell-area <PX2>"), Description("Mean cell area (px^2).")] public double CellArea { get; init; } = 250;
@@ -46,7 +47,7 @@ public sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Settin
             SigmaAcross = s.SigmaAcross, TauFrames = s.Tau, Width = s.Width, Height = s.Height, PixelSizeUm = s.PixelSize,
             FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         }.Validated();
-        var m = SynthJob.Monolayer(o, s.Out, Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
+        var m = SynthJob.Monolayer(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
         AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {m.Truth.Cells} cells, +1/2 moving {o.Motion.ToString().ToLowerInvariant()}) and truth.json");
         return 0;
     }

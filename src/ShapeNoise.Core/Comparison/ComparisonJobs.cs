@@ -37,11 +37,20 @@ public static class ComparisonJobs
         return movies;
     }
 
+    /// <summary>conditions.csv and every path it lists (when it can be read): the inputs an output folder must not hold.</summary>
+    public static IReadOnlyList<string> ListedInputs(string conditionsCsv)
+    {
+        var all = new List<string> { conditionsCsv };
+        if (File.Exists(conditionsCsv)) foreach (var r in ConditionTable.Read(conditionsCsv)) all.Add(r.Path);
+        return all;
+    }
+
     private static string Safe(string s) => string.Concat(s.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
 
-    public static ComparisonResult Compare(string conditionsCsv, string outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
+    public static ComparisonResult Compare(string conditionsCsv, OutputTarget outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
         IFrameFigures? figures = null, IEnumerable<string>? commandLine = null)
     {
+        OutputFolder.Check(outDir);
         ComparisonResult? result = null;
         OutputFolder.Write(outDir, dir =>
         {
@@ -155,9 +164,10 @@ public static class ComparisonJobs
     }
 
     /// <summary>The <c>plan</c> job: pilot analysis folders in, plan.csv, plan.png and plan.md out.</summary>
-    public static PlanResult Plan(IReadOnlyList<string> pilotFolders, double effect, string measure, string outDir, IEnumerable<string>? commandLine = null)
+    public static PlanResult Plan(IReadOnlyList<string> pilotFolders, double effect, string measure, OutputTarget outDir, IEnumerable<string>? commandLine = null)
     {
         if (measure is not ("anisotropy" or "anisotropy_contour")) throw new ArgumentException($"--measure must be anisotropy or anisotropy_contour (got '{measure}')");
+        OutputFolder.Check(outDir);
         var inputs = new List<string>();
         var pilots = new List<MovieData>();
         foreach (var p in pilotFolders)

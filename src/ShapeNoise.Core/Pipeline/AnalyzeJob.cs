@@ -24,11 +24,12 @@ public static class AnalyzeJob
     /// <param name="frameFigures">Optional figures drawn on the movie's frames.</param>
     /// <param name="extraInputs">Further input files for run.json (e.g. the raw movie a label movie was segmented from).</param>
     /// <param name="postProcess">Optional step between analysis and writing (e.g. optical-flow velocities for the defect stage).</param>
-    public static AnalysisResult Run(string input, string outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
+    public static AnalysisResult Run(string input, OutputTarget outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
         IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null,
         IEnumerable<string>? extraInputs = null, Func<AnalysisResult, AnalysisResult>? postProcess = null)
     {
         options.Validated();
+        OutputFolder.Check(outDir);
         var floor = options.FloorFrom is null ? null : Summary.ReadFloor(options.FloorFrom);
         if (floor is not null && !string.Equals(floor.Outline, options.Outline.ToString(), StringComparison.OrdinalIgnoreCase))
             throw new InputException(options.FloorFrom!, $"floor was measured with --outline {floor.Outline}, this run uses {options.Outline.ToString().ToLowerInvariant()}");

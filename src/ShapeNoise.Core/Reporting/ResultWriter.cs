@@ -6,7 +6,7 @@ namespace ShapeNoise.Reporting;
 /// <summary>Writes every output of <c>analyze</c> into a folder, atomically.</summary>
 public static class ResultWriter
 {
-    public static void Write(AnalysisResult r, string outDir, JsonObject provenance, Action<string>? extra = null)
+    public static void Write(AnalysisResult r, OutputTarget outDir, JsonObject provenance, Action<string>? extra = null)
     {
         OutputFolder.Write(outDir, dir =>
         {

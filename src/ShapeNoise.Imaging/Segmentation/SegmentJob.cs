@@ -14,9 +14,10 @@ public static class SegmentJob
 {
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
-    public static (int Frames, double MeanCells) Run(string input, string outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
+    public static (int Frames, double MeanCells) Run(string input, OutputTarget outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
         int qcEvery = 10, IEnumerable<string>? commandLine = null, IProgress<(int Done, int Total)>? progress = null)
     {
+        OutputFolder.Check(outDir);
         using var movie = LabelMovies.Open(input);   // raw intensities arrive as integers (8- or 16-bit)
         var info = movie.Info;
         double? s = info.PixelSizeUm ?? pixelSizeUm, dt = info.FrameIntervalMin ?? frameIntervalMin;
@@ -73,10 +74,12 @@ public static class SegmentJob
 /// <summary><c>analyze --raw</c>: segment a raw movie, analyse the labels, and keep the segmentation in the output folder.</summary>
 public static class RawAnalyzeJob
 {
-    public static ShapeNoise.Pipeline.AnalysisResult Run(string raw, string outDir, ShapeNoise.Pipeline.AnalysisOptions options, SegmentOptions seg,
+    public static ShapeNoise.Pipeline.AnalysisResult Run(string raw, OutputTarget outDir, ShapeNoise.Pipeline.AnalysisOptions options, SegmentOptions seg,
         IProgress<ShapeNoise.Pipeline.MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null)
     {
+        OutputFolder.Check(outDir);
         string temp = Path.Combine(Path.GetTempPath(), $"shapenoise-seg-{Environment.ProcessId}-{Guid.NewGuid():N}");
+        using var scratch = Scratch.Register(temp);
         try
         {
             SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin);
@@ -84,7 +87,7 @@ public static class RawAnalyzeJob
             return ShapeNoise.Pipeline.AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
                 options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => Flow.OpticalFlowVelocity.Apply(raw, r) : null);
         }
-        finally { if (Directory.Exists(temp)) Directory.Delete(temp, true); }
+        finally { Scratch.Delete(temp); }
     }
 
     private sealed class CopyThenOverlays(string segDir) : ShapeNoise.Pipeline.IFrameFigures

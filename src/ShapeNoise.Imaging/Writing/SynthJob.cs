@@ -9,8 +9,9 @@ namespace ShapeNoise.Imaging.Writing;
 public static class SynthJob
 {
     /// <summary>Fluctuating ellipses: labels.tif (uint16, Deflate, OME-XML with pixel size and frame interval) and truth.json.</summary>
-    public static EllipseMovie Ellipses(EllipseMovieOptions o, string outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
+    public static EllipseMovie Ellipses(EllipseMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
     {
+        OutputFolder.Check(outDir);
         var movie = EllipseMovie.Generate(o);
         OutputFolder.Write(outDir, dir =>
         {
@@ -39,8 +40,9 @@ public static class SynthJob
     }
 
     /// <summary>Confluent monolayer with a moving defect pair: labels.tif (uint16, Deflate, OME-XML) and truth.json.</summary>
-    public static MonolayerMovie Monolayer(MonolayerMovieOptions o, string outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
+    public static MonolayerMovie Monolayer(MonolayerMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
     {
+        OutputFolder.Check(outDir);
         var movie = MonolayerMovie.Generate(o);
         OutputFolder.Write(outDir, dir =>
         {
