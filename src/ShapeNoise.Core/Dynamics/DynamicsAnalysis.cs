@@ -9,7 +9,7 @@ public sealed record SeriesCorrelation(string Name, double[] Correlation, long[]
 /// <summary>One fluctuation coordinate treated as an Ornstein-Uhlenbeck process dx = -x/tau dt + sqrt(2 D) dW (var = D tau), in px and frames.</summary>
 public sealed record OuCoordinate(string Name, string Meaning, Estimate TauFrames, Estimate VariancePx2, Estimate DPx2PerFrame, double NoiseVariancePx2, double UncorrectedTauFrames);
 
-/// <summary>Correlation times of shape and orientation (spec section 3, temporal part), in px and frames.</summary>
+/// <summary>Correlation times of shape and orientation (docs/measures.md#movie-pooling, temporal part; docs/dynamics.md), in px and frames.</summary>
 public sealed record DynamicsResult(int MaxLag, int FitLags, IReadOnlyList<SeriesCorrelation> Series,
     Estimate TauQFrames, double TauQUncorrectedFrames, Estimate TauQIntegratedFrames, int SokalWindow, bool SokalWindowReached,
     Estimate TauThetaFrames, double ThetaPlateau, double VarianceQ, IReadOnlyList<OuCoordinate> Coordinates, int Tracks)

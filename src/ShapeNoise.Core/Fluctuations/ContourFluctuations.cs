@@ -4,7 +4,7 @@ using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Fluctuations;
 
-/// <summary>Contour fluctuations of one track in the body frame (spec section 2), in px^2.</summary>
+/// <summary>Contour fluctuations of one track in the body frame (docs/measures.md#contour-variances), in px^2.</summary>
 /// <param name="Frames">Number of outlines in the track.</param>
 /// <param name="VarAlongRaw">w-weighted mean over pole samples of mean_t n^2.</param>
 /// <param name="VarAcrossRaw">The same over flank samples.</param>

@@ -26,7 +26,7 @@ public sealed record DefectResult(double CoarsePx, double GridPx, IReadOnlyList<
 /// <summary>
 /// Per frame: cell Q and velocities coarse-grained on a grid, defects found and their +1/2 polarity measured; then
 /// defects of the same charge linked frame to frame (optimal one-to-one within one coarse width), velocities by central
-/// differences, and headward speeds pooled over +1/2 defect tracks with seeded bootstrap intervals (spec section 4).
+/// differences, and headward speeds pooled over +1/2 defect tracks with seeded bootstrap intervals (docs/measures.md#nematic-field-and-defects).
 /// </summary>
 /// <remarks>Headward motion of +1/2 defects as the signature of extensile activity: Giomi L. et al. (2013), Phys. Rev.
 /// Lett. 110:228101; Saw T.B. et al. (2017), Nature 544:212-216; Kawaguchi K., Kageyama R. and Sano M. (2017), Nature

@@ -3,7 +3,7 @@ using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Nematic;
 
-/// <summary>The within-movie test of the shape-noise hypothesis (spec section 5).</summary>
+/// <summary>The within-movie test of the shape-noise hypothesis (docs/measures.md#shape-noise-hypothesis).</summary>
 /// <param name="SpearmanRho">Spearman correlation of log local anisotropy with headward speed over +1/2 defect tracks.</param>
 /// <param name="PValue">Two-sided permutation p-value (seeded).</param>
 /// <param name="Rho95">Bootstrap 95% interval of rho over defect tracks.</param>
@@ -21,7 +21,7 @@ public sealed record HypothesisResult(double SpearmanRho, double PValue, Estimat
 /// defect's headward speed, with a seeded permutation p-value and a bootstrap interval over defect tracks.
 /// </summary>
 /// <remarks>The hypothesis that anisotropic shape fluctuations can turn the tailward motion expected from contractile
-/// stresses into headward motion; spec section 5. Statistics: <see cref="RankCorrelation"/>, <see cref="Bootstrap"/>.</remarks>
+/// stresses into headward motion; docs/measures.md#shape-noise-hypothesis. Statistics: <see cref="RankCorrelation"/>, <see cref="Bootstrap"/>.</remarks>
 public static class ShapeNoiseHypothesis
 {
     public static HypothesisResult Test(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks, DefectResult defects, AnalysisOptions o)

@@ -8,7 +8,7 @@ using ShapeNoise.Tracking;
 
 namespace ShapeNoise.Pipeline;
 
-/// <summary>Label movie in, per-outline, per-track and pooled fluctuation measures out (spec sections 1-3).</summary>
+/// <summary>Label movie in, per-outline, per-track and pooled fluctuation measures out (docs/measures.md#outline-definitions to #movie-pooling).</summary>
 public static class MovieAnalyzer
 {
     /// <summary>Progress: frames done of total.</summary>
@@ -209,7 +209,7 @@ public static class MovieAnalyzer
         return c;
     }
 
-    /// <summary>Pixel size and frame interval: metadata first, then options, else px and frames (spec section 0).</summary>
+    /// <summary>Pixel size and frame interval: metadata first, then options, else px and frames (docs/measures.md#coordinates-and-units).</summary>
     public static Units ResolveUnits(MovieInfo info, AnalysisOptions o, List<string> warnings)
     {
         double? s = info.PixelSizeUm; string ss = "metadata";
@@ -228,7 +228,7 @@ public static class MovieAnalyzer
     internal static double FloorAlongOf(TrackContour c, NoiseFloorReference? r) => r?.VarAlongPx2 ?? c.FloorAlong;
     internal static double FloorAcrossOf(TrackContour c, NoiseFloorReference? r) => r?.VarAcrossPx2 ?? c.FloorAcross;
 
-    /// <summary>Frame-weighted pooling over used tracks with bootstrap intervals over tracks (spec section 3).</summary>
+    /// <summary>Frame-weighted pooling over used tracks with bootstrap intervals over tracks (docs/measures.md#movie-pooling).</summary>
     public static PooledFluctuations Pool(IReadOnlyList<TrackRecord> allTracks, int m, AnalysisOptions options, NoiseFloorReference? r)
     {
         var t = new List<TrackRecord>();

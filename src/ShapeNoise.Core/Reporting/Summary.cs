@@ -5,7 +5,7 @@ using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Reporting;
 
-/// <summary>summary.json (spec section 6) and floor.json (the fixed-cell floor export read by --floor-from).</summary>
+/// <summary>summary.json (docs/measures.md#output-contract) and floor.json (the fixed-cell floor export read by --floor-from).</summary>
 public static class Summary
 {
     public static readonly JsonSerializerOptions Indented = new() { WriteIndented = true };

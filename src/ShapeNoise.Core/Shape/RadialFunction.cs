@@ -7,7 +7,7 @@ public static class RadialFunction
     /// Samples rho_k = r(theta0 + 2 pi k / M), k = 0..M-1, by casting the M rays from <paramref name="centre"/> against every
     /// polygon edge (no interpolation). Each edge is visited once and intersected only with the rays inside the angular
     /// sector it subtends, so the cost is O(V + M). Where a ray meets the outline more than once the farthest crossing is
-    /// kept and the outline is reported as not star-shaped (spec section 1).
+    /// kept and the outline is reported as not star-shaped (docs/measures.md#outline-definitions).
     /// </summary>
     /// <returns>True when every ray meets the outline exactly once (star-shaped about the centre).</returns>
     /// <remarks>Radial-function shape description as used for cell outlines, e.g. Tweedy L. et al. (2013), "Distinct cell

@@ -1,6 +1,6 @@
 namespace ShapeNoise.Shape;
 
-/// <summary>Per-outline shape measures of spec section 1, in pixels.</summary>
+/// <summary>Per-outline shape measures of docs/measures.md#outline-definitions, in pixels.</summary>
 public readonly record struct ShapeMeasures(
     double AreaPx2, double CentroidX, double CentroidY, double PerimeterPx,
     double L1, double L2, double ThetaRad, double LengthPx, double WidthPx, double AspectRatio, double Elongation)
