@@ -125,4 +125,23 @@ public class OptionParsingTests
     {
         Assert.Null(StrictOptions.Nearest("--zzzzzzzz", ["--out", "--pixel-size", "--frames"]));
     }
+
+    private sealed class Remaining(ILookup<string, string?> parsed, IReadOnlyList<string> raw) : IRemainingArguments
+    {
+        public ILookup<string, string?> Parsed { get; } = parsed;
+        public IReadOnlyList<string> Raw { get; } = raw;
+    }
+
+    [Fact]
+    public void CheckRemaining_OptionTheParserSetAside_ThrowsWithSuggestion()
+    {
+        // The after-parse check: Spectre.Console.Cli puts unknown options in CommandContext.Remaining.Parsed (observed
+        // with 0.57.2: "--bootstrp 10" becomes the key "--bootstrp" with value "10").
+        var parsed = new[] { ("--bootstrp", (string?)"10") }.ToLookup(x => x.Item1, x => x.Item2);
+        var context = new CommandContext(["analyze"], new Remaining(parsed, []), "analyze", null);
+        var ex = Assert.Throws<OptionException>(() => StrictOptions.CheckRemaining(context, new AnalyzeCommand.Settings()));
+        Assert.Equal("unknown option '--bootstrp' for 'analyze'; did you mean '--bootstrap'?", ex.Message);
+        var none = new CommandContext(["analyze"], new Remaining(Array.Empty<string>().ToLookup(x => x, x => (string?)x), []), "analyze", null);
+        StrictOptions.CheckRemaining(none, new AnalyzeCommand.Settings());
+    }
 }
