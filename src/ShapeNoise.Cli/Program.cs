@@ -10,6 +10,8 @@ app.Configure(c =>
     c.SetApplicationName("shapenoise");
     c.SetApplicationVersion(ShapeNoise.Reporting.Provenance.ToolVersion);
     c.PropagateExceptions();
+    c.Settings.Culture = System.Globalization.CultureInfo.InvariantCulture;
+    c.SetInterceptor(new StrictOptions.Interceptor());   // unknown options the parser set aside (see StrictOptions)
     c.AddBranch("synth", s =>
     {
         s.SetDescription("Generate an invented test scenario (label movie + truth.json).");
@@ -30,7 +32,7 @@ app.Configure(c =>
     c.AddCommand<PlanCommand>("plan").WithDescription("How many movies a comparison needs, from pilot analyses.")
         .WithExample("plan", "runs/pilot-wt", "runs/pilot-ko", "--effect", "0.2", "--out", "runs/plan");
 });
-int code = ExitCodes.Run(() => app.Run(args));
+int code = ExitCodes.Run(() => { StrictOptions.Check(args); return app.Run(args); });
 Interrupts.AfterCommand();
 if (args.Length == 0 || args is ["--help"] or ["-h"] or ["-?"])
     Console.WriteLine(ExitCodes.Help);

@@ -55,7 +55,10 @@ public sealed record MovieData(string Condition, string Replicate, string Folder
     private static double NumOrNaN(string s) => double.TryParse(s, NumberStyles.Float, CultureInfo.InvariantCulture, out var v) ? v : double.NaN;
 
     /// <summary>Reads the named columns of a CSV file with a header (CsvHelper), calling <paramref name="row"/> per record.</summary>
-    public static void ReadRows(string path, string[] columns, Action<string[]> row)
+    public static void ReadRows(string path, string[] columns, Action<string[]> row) => ReadRows(path, columns, (values, _) => row(values));
+
+    /// <summary>As <see cref="ReadRows(string, string[], Action{string[]})"/>, also passing each record's line number in the file (1-based; the header is line 1).</summary>
+    public static void ReadRows(string path, string[] columns, Action<string[], long> row)
     {
         using var reader = new StreamReader(path);
         using var csv = new CsvReader(reader, new CsvConfiguration(CultureInfo.InvariantCulture));
@@ -68,13 +71,17 @@ public sealed record MovieData(string Condition, string Replicate, string Folder
         while (csv.Read())
         {
             for (int i = 0; i < columns.Length; i++) values[i] = csv.GetField(idx[i]) ?? "";
-            row(values);
+            row(values, csv.Parser.RawRow);
         }
     }
 }
 
-/// <summary>One row of conditions.csv: condition, replicate, path (an analysis folder or a movie to analyse).</summary>
-public sealed record ConditionRow(string Condition, string Replicate, string Path);
+/// <summary>One row of conditions.csv: condition, replicate, path (an analysis folder or a movie to analyse); Line is its line number in the file.</summary>
+public sealed record ConditionRow(string Condition, string Replicate, string Path, long Line = 0)
+{
+    /// <summary>"row 3 (wt, 1)": how a message names this row.</summary>
+    public string Describe() => $"row {Line} ({Condition}, {Replicate})";
+}
 
 /// <summary>Reads conditions.csv (columns condition,replicate,path; paths relative to the file).</summary>
 public static class ConditionTable
@@ -84,11 +91,11 @@ public static class ConditionTable
         if (!File.Exists(path)) throw new InputException(path, "no such file");
         var rows = new List<ConditionRow>();
         string dir = System.IO.Path.GetDirectoryName(System.IO.Path.GetFullPath(path))!;
-        MovieData.ReadRows(path, ["condition", "replicate", "path"], r =>
+        MovieData.ReadRows(path, ["condition", "replicate", "path"], (r, line) =>
         {
-            if (string.IsNullOrWhiteSpace(r[0]) || string.IsNullOrWhiteSpace(r[2])) throw new InputException(path, $"row {rows.Count + 1} has an empty condition or path");
-            string p = System.IO.Path.IsPathRooted(r[2]) ? r[2] : System.IO.Path.GetFullPath(System.IO.Path.Combine(dir, r[2]));
-            rows.Add(new ConditionRow(r[0].Trim(), r[1].Trim(), p));
+            if (string.IsNullOrWhiteSpace(r[0]) || string.IsNullOrWhiteSpace(r[2])) throw new InputException(path, $"row {line} has an empty condition or path");
+            string p = System.IO.Path.GetFullPath(System.IO.Path.IsPathRooted(r[2]) ? r[2] : System.IO.Path.Combine(dir, r[2]));
+            rows.Add(new ConditionRow(r[0].Trim(), r[1].Trim(), p, line));
         });
         if (rows.Count == 0) throw new InputException(path, "lists no movies");
         var dup = rows.GroupBy(r => (r.Condition, r.Replicate)).FirstOrDefault(g => g.Count() > 1);

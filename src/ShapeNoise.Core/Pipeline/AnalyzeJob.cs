@@ -40,8 +40,7 @@ public static class AnalyzeJob
             var table = OutlineTable.Read(input, options.PixelSizeUm, options.FrameIntervalMin);
             result = MovieAnalyzer.RunFrames(table.Info with { PixelSizeUm = null, FrameIntervalMin = null }, table.Linked(options, options.IdsAreTracks, options.MaxDisplacementPx),
                 options, progress, floor, new PhaseTimes());
-            if (table.SkippedFewVertices > 0)
-                result = result with { Warnings = [.. result.Warnings, $"{table.SkippedFewVertices} outline(s) with fewer than 3 vertices were skipped"] };
+            if (table.Warnings.Count > 0) result = result with { Warnings = [.. result.Warnings, .. table.Warnings] };
             files = [input];
             frameFigures = null;   // no image to draw on
         }

@@ -17,20 +17,34 @@ namespace ShapeNoise.Reading;
 /// </summary>
 public sealed class OutlineTable
 {
+    /// <summary>The table file.</summary>
     public string Path { get; }
-    /// <summary>Frames in ascending order, each with its outlines (Label = the cell id of the table).</summary>
+    /// <summary>Frames in ascending order, each with its outlines (Label = the cell id of the table; text ids numbered 1, 2, … in order of first appearance).</summary>
     public IReadOnlyList<(int Frame, Outline[] Outlines)> Frames { get; }
     /// <summary>Cells skipped because they had fewer than 3 vertices (counted, never silently lost).</summary>
     public int SkippedFewVertices { get; }
+    /// <summary>Size, frame count and units of the table as a movie.</summary>
     public MovieInfo Info { get; }
+    /// <summary>What the analysis must report about the table (skipped cells, frames missing between others).</summary>
+    public IReadOnlyList<string> Warnings { get; }
 
-    private OutlineTable(string path, List<(int, Outline[])> frames, int skipped, MovieInfo info) { Path = path; Frames = frames; SkippedFewVertices = skipped; Info = info; }
+    private OutlineTable(string path, List<(int, Outline[])> frames, int skipped, MovieInfo info, List<string> warnings)
+    { Path = path; Frames = frames; SkippedFewVertices = skipped; Info = info; Warnings = warnings; }
 
+    /// <summary>
+    /// Reads a table. Every malformed row (too few or too many fields, a frame that is not an integer ≥ 0, an empty cell
+    /// id, a coordinate that is not a finite number) is an <see cref="InputException"/> naming the file and the row's
+    /// line number (1-based, the header is line 1). Cell ids that are all integers are kept; otherwise every id is
+    /// numbered 1, 2, … in order of first appearance in the file (deterministic; the text ids themselves are not kept).
+    /// </summary>
     public static OutlineTable Read(string path, double? pixelSizeUm, double? frameIntervalMin)
     {
         if (!File.Exists(path)) throw new InputException(path, "no such file");
         var ci = CultureInfo.InvariantCulture;
-        var byFrame = new SortedDictionary<int, List<Outline>>();
+        var byFrame = new SortedDictionary<int, List<(string Id, Point2[] Vertices)>>();
+        var idsInFrame = new Dictionary<int, HashSet<string>>();
+        var firstSeen = new Dictionary<string, int>(StringComparer.Ordinal);
+        bool allInteger = true;
         int skipped = 0;
         double maxX = 0, maxY = 0;
         using (var reader = new StreamReader(path))
@@ -39,37 +53,59 @@ public sealed class OutlineTable
             if (!csv.Read() || !csv.ReadHeader()) throw new InputException(path, "is empty (no header)");
             var header = csv.HeaderRecord!;
             foreach (var col in new[] { "frame", "cell", "x", "y" })
+            {
                 if (!header.Contains(col)) throw new InputException(path, $"has no column '{col}' (an outline table needs frame,cell,x,y)");
+                if (Array.IndexOf(header, col) != Array.LastIndexOf(header, col)) throw new InputException(path, $"has the column '{col}' twice");
+            }
             int fi = Array.IndexOf(header, "frame"), cI = Array.IndexOf(header, "cell"), xi = Array.IndexOf(header, "x"), yi = Array.IndexOf(header, "y");
             var pts = new List<Point2>();
-            int curFrame = int.MinValue; string? curCell = null; long row = 1;
+            int curFrame = int.MinValue; string? curCell = null; long curLine = 0;
             void Flush()
             {
                 if (curCell is null) return;
                 if (pts.Count < 3) { skipped++; pts.Clear(); return; }
+                if (!idsInFrame.TryGetValue(curFrame, out var ids)) idsInFrame[curFrame] = ids = new HashSet<string>(StringComparer.Ordinal);
+                if (!ids.Add(curCell)) throw new InputException(path, $"row {curLine}: cell {curCell} appears twice in frame {curFrame} (its vertices must be on consecutive rows)");
                 if (!byFrame.TryGetValue(curFrame, out var list)) byFrame[curFrame] = list = [];
-                int id = int.TryParse(curCell, NumberStyles.Integer, ci, out var v) ? v : curCell.GetHashCode() & 0x7fffffff;
-                if (list.Any(o => o.Label == id)) throw new InputException(path, $"cell {curCell} appears twice in frame {curFrame} (its vertices must be on consecutive rows)");
-                list.Add(new Outline(id, OutlineStatus.Ok, pts.ToArray(), 0));
+                list.Add((curCell, pts.ToArray()));
                 pts.Clear();
             }
             while (csv.Read())
             {
-                row++;
-                string fs = csv.GetField(fi) ?? "", cs = csv.GetField(cI) ?? "", xs = csv.GetField(xi) ?? "", ys = csv.GetField(yi) ?? "";
-                if (!int.TryParse(fs, NumberStyles.Integer, ci, out int frame) || frame < 0) throw new InputException(path, $"row {row}: frame '{fs}' is not a non-negative integer");
+                long line = csv.Parser.RawRow;
+                if (csv.Parser.Count != header.Length)
+                    throw new InputException(path, $"row {line}: {csv.Parser.Count} field(s), the header has {header.Length} ({string.Join(',', header)})");
+                string fs = csv.GetField(fi) ?? "", cs = (csv.GetField(cI) ?? "").Trim(), xs = csv.GetField(xi) ?? "", ys = csv.GetField(yi) ?? "";
+                if (!int.TryParse(fs, NumberStyles.Integer, ci, out int frame) || frame < 0) throw new InputException(path, $"row {line}: frame '{fs}' is not a non-negative integer");
+                if (cs.Length == 0) throw new InputException(path, $"row {line}: the cell id is empty");
                 if (!double.TryParse(xs, NumberStyles.Float, ci, out double x) || !double.TryParse(ys, NumberStyles.Float, ci, out double y) || !double.IsFinite(x) || !double.IsFinite(y))
-                    throw new InputException(path, $"row {row}: coordinate ({xs}, {ys}) is not a finite number");
-                if (frame != curFrame || cs != curCell) { Flush(); curFrame = frame; curCell = cs; }
+                    throw new InputException(path, $"row {line}: coordinate ({xs}, {ys}) is not a finite number");
+                if (frame != curFrame || cs != curCell) { Flush(); curFrame = frame; curCell = cs; curLine = line; }
+                if (!firstSeen.ContainsKey(cs)) { firstSeen[cs] = firstSeen.Count + 1; allInteger &= int.TryParse(cs, NumberStyles.Integer, ci, out _); }
                 pts.Add(new Point2(x, y));
                 maxX = Math.Max(maxX, x); maxY = Math.Max(maxY, y);
             }
             Flush();
         }
         if (byFrame.Count == 0) throw new InputException(path, "holds no outline with 3 or more vertices");
-        var frames = byFrame.Select(kv => (kv.Key, kv.Value.ToArray())).ToList();
+        var frames = new List<(int, Outline[])>(byFrame.Count);
+        foreach (var (frame, cells) in byFrame)
+        {
+            var outlines = new Outline[cells.Count];
+            for (int i = 0; i < cells.Count; i++)
+                outlines[i] = new Outline(allInteger ? int.Parse(cells[i].Id, NumberStyles.Integer, ci) : firstSeen[cells[i].Id], OutlineStatus.Ok, cells[i].Vertices, 0);
+            frames.Add((frame, outlines));
+        }
+        var warnings = new List<string>();
+        if (skipped > 0) warnings.Add($"{skipped} outline(s) with fewer than 3 vertices were skipped");
+        var missing = new List<int>();
+        for (int k = 1; k < frames.Count; k++)
+            for (int f = frames[k - 1].Item1 + 1; f < frames[k].Item1; f++) missing.Add(f);
+        if (missing.Count > 0)
+            warnings.Add($"{System.IO.Path.GetFileName(path)}: frame{(missing.Count > 1 ? "s" : "")} {string.Join(", ", missing.Take(10))}{(missing.Count > 10 ? ", …" : "")} "
+                         + $"({missing.Count} in all) missing between frames {frames[0].Item1} and {frames[^1].Item1}: tracks are not linked across a missing frame");
         var info = new MovieInfo(path, (int)Math.Ceiling(maxX) + 1, (int)Math.Ceiling(maxY) + 1, frames.Count, pixelSizeUm, frameIntervalMin, "outline table (CSV)");
-        return new OutlineTable(path, frames, skipped, info);
+        return new OutlineTable(path, frames, skipped, info, warnings);
     }
 
     /// <summary>The frames as linked outlines for <see cref="MovieAnalyzer.RunFrames"/>; objects below --min-area are marked small.</summary>

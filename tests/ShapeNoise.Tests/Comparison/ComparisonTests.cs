@@ -88,4 +88,96 @@ public class ComparisonTests(ITestOutputHelper log)
         double expected = 2 * (1 - MathNet.Numerics.Distributions.StudentT.CDF(0, 1, 5.5208, 2.2514));
         Assert.Equal(expected, p, 4);
     }
+
+    /// <summary>A stand-in analysis folder: summary.json and a run.json whose inputs carry the given SHA-256 values.</summary>
+    private static void FakeAnalysis(string dir, params (string Name, string Sha)[] inputs)
+    {
+        Directory.CreateDirectory(dir);
+        File.WriteAllText(Path.Combine(dir, "summary.json"), "{}");
+        var arr = new JsonArray(inputs.Select(i => (JsonNode?)new JsonObject { ["name"] = i.Name, ["sha256"] = i.Sha }).ToArray());
+        File.WriteAllText(Path.Combine(dir, "run.json"), new JsonObject { ["inputs"] = arr }.ToJsonString());
+    }
+
+    private static List<ConditionRow> Rows(TempDir d, string body)
+    {
+        File.WriteAllText(d["c.csv"], "condition,replicate,path\n" + body);
+        return ConditionTable.Read(d["c.csv"]);
+    }
+
+    // Listing one movie as two replicates is pseudo-replication (Lord et al. 2020, J Cell Biol 219:e202001064,
+    // "SuperPlots": replicates must be independent); the refusal must name both rows of conditions.csv.
+    [Fact]
+    public void RefuseRepeatedData_SameFolderViaDotDotPath_NamesBothRows()
+    {
+        using var d = new TempDir();
+        FakeAnalysis(d["runs/wt1"], ("labels.tif", new string('a', 64)));
+        FakeAnalysis(d["runs/ko1"], ("labels.tif", new string('b', 64)));
+        var rows = Rows(d, "wt,1,runs/wt1\nwt,2,runs/ko1/../wt1/\nko,1,runs/ko1\n");
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        Assert.Contains("row 2 (wt, 1) and row 3 (wt, 2) are the same analysis folder", e.Message);
+        Assert.Contains("c.csv", e.Message);
+    }
+
+    [Fact]
+    public void RefuseRepeatedData_SameFolderViaSymlinkedParent_Refused()
+    {
+        using var d = new TempDir();
+        FakeAnalysis(d["runs/wt1"], ("labels.tif", new string('a', 64)));
+        FakeAnalysis(d["runs/ko1"], ("labels.tif", new string('b', 64)));
+        Directory.CreateSymbolicLink(d["alias"], d["runs"]);   // alias -> runs: alias/wt1 is runs/wt1
+        var rows = Rows(d, "wt,1,runs/wt1\nko,1,runs/ko1\nko,2,alias/wt1\n");
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        Assert.Contains("row 2 (wt, 1) and row 4 (ko, 2)", e.Message);
+    }
+
+    [Fact]
+    public void RefuseRepeatedData_TwoFoldersSameInputHash_Refused()
+    {
+        using var d = new TempDir();
+        string sha = "0123456789abcdef" + new string('c', 48);
+        FakeAnalysis(d["runs/a"], ("labels.tif", sha));
+        FakeAnalysis(d["runs/b"], ("copy.tif", sha));   // the same movie analysed twice (a renamed copy)
+        var rows = Rows(d, "wt,1,runs/a\nko,1,runs/b\n");
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        Assert.Contains("row 2 (wt, 1) and row 3 (ko, 1) hold the same data", e.Message);
+        Assert.Contains("0123456789ab", e.Message);
+    }
+
+    [Fact]
+    public void RefuseRepeatedData_TwoMovieFilesSameBytes_Refused()
+    {
+        using var d = new TempDir();
+        Directory.CreateDirectory(d["m"]);
+        File.WriteAllBytes(d["m/one.tif"], [1, 2, 3, 4]);
+        File.WriteAllBytes(d["m/two.tif"], [1, 2, 3, 4]);
+        File.WriteAllBytes(d["m/three.tif"], [1, 2, 3, 5]);
+        var rows = Rows(d, "wt,1,m/one.tif\nwt,2,m/three.tif\nko,1,m/two.tif\n");
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        Assert.Contains("row 2 (wt, 1) and row 4 (ko, 1)", e.Message);
+        Assert.Contains("one.tif and two.tif", e.Message);
+    }
+
+    [Fact]
+    public void RefuseRepeatedData_DistinctMoviesSharingOnlyTheFloor_Accepted()
+    {
+        using var d = new TempDir();
+        string floor = new string('f', 64);
+        FakeAnalysis(d["runs/a"], ("labels.tif", new string('1', 64)), ("floor.json", floor));
+        FakeAnalysis(d["runs/b"], ("labels.tif", new string('2', 64)), ("floor.json", floor));
+        ComparisonJobs.RefuseRepeatedData(d["c.csv"], Rows(d, "wt,1,runs/a\nko,1,runs/b\n"));
+    }
+
+    [Fact]
+    public void Cli_CompareSameFolderTwice_Exit2NamesBothRowsWritesNothing()
+    {
+        using var d = new TempDir();
+        FakeAnalysis(d["runs/wt1"], ("labels.tif", new string('a', 64)));
+        FakeAnalysis(d["runs/ko1"], ("labels.tif", new string('b', 64)));
+        File.WriteAllText(d["c.csv"], "condition,replicate,path\nwt,1,runs/wt1\nwt,2,./runs/wt1\nko,1,runs/ko1\n");
+        var r = Support.Cli.Run("compare", d["c.csv"], "--out", d["cmp"]);
+        Assert.Equal(2, r.ExitCode);
+        Assert.Single(r.Stderr.Trim().Split('\n'));
+        Assert.Contains("row 2 (wt, 1) and row 3 (wt, 2)", r.Stderr);
+        Assert.False(Directory.Exists(d["cmp"]));
+    }
 }
