@@ -19,7 +19,7 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min); overrides the movie's metadata.")] public double? FrameInterval { get; init; }
         [CommandOption("--series <N>"), Description("Series (OME Image) to read, 0-based; needed when the file holds several.")] public int? Series { get; init; }
         [CommandOption("--channel <N>"), Description("Channel to read, 0-based; needed when the file has several.")] public int? Channel { get; init; }
-        [CommandOption("--z <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
+        [CommandOption("-z|--z-plane <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
         [CommandOption("--z-is-time"), Description("The file's z planes (ImageJ 'slices') are time points.")] public bool ZIsTime { get; init; }
         [CommandOption("--rays <M>"), Description("Rays per outline (multiple of 8).")] public int Rays { get; init; } = 64;
         [CommandOption("--min-area <PX>"), Description("Exclude objects smaller than this (px).")] public int MinArea { get; init; } = 30;

@@ -16,7 +16,7 @@ public sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min); overrides the metadata.")] public double? FrameInterval { get; init; }
         [CommandOption("--series <N>"), Description("Series (OME Image) to read, 0-based; needed when the file holds several.")] public int? Series { get; init; }
         [CommandOption("--channel <N>"), Description("Channel to read, 0-based; needed when the file has several.")] public int? Channel { get; init; }
-        [CommandOption("--z <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
+        [CommandOption("-z|--z-plane <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
         [CommandOption("--z-is-time"), Description("The file's z planes (ImageJ 'slices') are time points.")] public bool ZIsTime { get; init; }
         [CommandOption("--flatten <DIAMETERS>"), Description("Background flattening: divide by a Gaussian blur this many cell diameters wide.")] public double Flatten { get; init; } = 2;
         [CommandOption("--smooth <FRACTION>"), Description("Smoothing sigma for seeds, as a fraction of the cell diameter.")] public double Smooth { get; init; } = 0.1;

@@ -16,7 +16,7 @@ public static class LabelMovies
         ILabelMovie movie;
         if (Directory.Exists(path))
         {
-            foreach (var (option, v) in new[] { ("--series", selection.Series), ("--channel", selection.Channel), ("--z", selection.Z) })
+            foreach (var (option, v) in new[] { ("--series", selection.Series), ("--channel", selection.Channel), ("--z-plane", selection.Z) })
                 if (v is > 0) throw new InputException(path, $"{option} {v} is out of range: a folder of frames has one plane per frame (valid: only {option} 0)");
             movie = new FolderLabelMovie(path);
         }

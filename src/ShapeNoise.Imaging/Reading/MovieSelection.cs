@@ -3,7 +3,7 @@ using ShapeNoise.Reading;
 namespace ShapeNoise.Imaging.Reading;
 
 /// <summary>Which plane of a multi-dimensional file is the movie, and scale values that override the file's metadata
-/// (options <c>--series</c>, <c>--channel</c>, <c>--z</c>, <c>--z-is-time</c>, <c>--pixel-size</c>,
+/// (options <c>--series</c>, <c>--channel</c>, <c>--z-plane</c>, <c>--z-is-time</c>, <c>--pixel-size</c>,
 /// <c>--frame-interval</c>). Indices are 0-based.</summary>
 public sealed record MovieSelection
 {
@@ -28,8 +28,8 @@ public sealed record MovieSelection
     {
         if (Series is < 0) throw new ArgumentException($"--series must be >= 0 (0-based; got {Series})");
         if (Channel is < 0) throw new ArgumentException($"--channel must be >= 0 (0-based; got {Channel})");
-        if (Z is < 0) throw new ArgumentException($"--z must be >= 0 (0-based; got {Z})");
-        if (ZIsTime && Z is not null) throw new ArgumentException("--z and --z-is-time exclude each other (--z picks one plane, --z-is-time reads every plane as a frame)");
+        if (Z is < 0) throw new ArgumentException($"--z-plane must be >= 0 (0-based; got {Z})");
+        if (ZIsTime && Z is not null) throw new ArgumentException("--z-plane and --z-is-time exclude each other (--z-plane picks one plane, --z-is-time reads every plane as a frame)");
         if (PixelSizeUm is { } s && !(s > 0 && double.IsFinite(s))) throw new ArgumentException($"--pixel-size must be a positive number (got {s})");
         if (FrameIntervalMin is { } t && !(t > 0 && double.IsFinite(t))) throw new ArgumentException($"--frame-interval must be a positive number (got {t})");
         return this;
@@ -54,7 +54,7 @@ public sealed record MovieSelection
         bool zAsTime = false;
         if (ZIsTime && s.SizeZ > 1)
         {
-            if (s.SizeT > 1) throw new InputException(path, $"--z-is-time: {where} already has {s.SizeT} time points; give --z N (0 to {s.SizeZ - 1}) to pick a z plane");
+            if (s.SizeT > 1) throw new InputException(path, $"--z-is-time: {where} already has {s.SizeT} time points; give --z-plane N (0 to {s.SizeZ - 1}) to pick a z plane");
             zAsTime = true; zi = 0;
         }
         else if (Z is null && s.SizeZ > 1)
@@ -62,9 +62,9 @@ public sealed record MovieSelection
             string what = kind == "ImageJ hyperstack" && s.SizeT == 1
                 ? $"{where} has {s.SizeZ} slices and no frames (ImageJ calls the pages of a plain stack slices: z planes or time points?)"
                 : $"{where} has {s.SizeZ} z planes";
-            throw new InputException(path, $"{what}; give --z-is-time if they are time points, or {Alternatives("--z", s.SizeZ)} for one z plane");
+            throw new InputException(path, $"{what}; give --z-is-time if they are time points, or {Alternatives("--z-plane", s.SizeZ)} for one z plane");
         }
-        else zi = Index(path, "--z", "z plane", "z planes", Z, s.SizeZ, $"{where} has");
+        else zi = Index(path, "--z-plane", "z plane", "z planes", Z, s.SizeZ, $"{where} has");
 
         int frames = zAsTime ? s.SizeZ : s.SizeT;
         var pages = new int[frames];
