@@ -3,7 +3,7 @@
 expected.json, each file's expected outcome. Run from this folder: /usr/bin/python3 make_corpus.py
 
 Every plane (series s, time t, z, channel c) holds distinct rectangles, so a wrong plane choice changes the pixel sums:
-rectangle A, label 1 + c + 10 z + 100 s, at x = 4 + t .. 4 + t + w (w = 8 + 2 c + 4 s), y = 4 .. 4 + h (h = 6 + 2 z);
+rectangle A, label 1 + c + 10 z + 100 s + 1000 t, at x = 4 + t .. 4 + t + w (w = 8 + 2 c + 4 s), y = 4 .. 4 + h (h = 6 + 2 z);
 for c = 1 a second rectangle B, label A + 50, at x = 18 + t .. 26 + t, y = 12 .. 20.
 
 Expected values come from the arrays handed to tifffile and from the writer's documented layout:
@@ -22,7 +22,7 @@ W, H = 32, 24
 
 def plane(t, z=0, c=0, s=0):
     a = np.zeros((H, W), np.uint16)
-    w, h, lab = 8 + 2 * c + 4 * s, 6 + 2 * z, 1 + c + 10 * z + 100 * s
+    w, h, lab = 8 + 2 * c + 4 * s, 6 + 2 * z, 1 + c + 10 * z + 100 * s + 1000 * t
     a[4:4 + h, 4 + t:4 + t + w] = lab
     if c == 1:
         a[12:20, 18 + t:26 + t] = lab + 50
