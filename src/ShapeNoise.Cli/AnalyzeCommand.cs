@@ -16,8 +16,12 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandArgument(0, "<INPUT>"), Description("Label movie: multi-page TIFF (8/16/32-bit integer) or a folder of TIFF/PNG frames.")] public string Input { get; init; } = "";
         [CommandOption("--out <DIR>"), Description("Output folder; written to a temporary folder first, then renamed.")] public string Out { get; init; } = "";
         [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
-        [CommandOption("--pixel-size <UM>"), Description("Pixel size (um/px) when the movie's metadata has none.")] public double? PixelSize { get; init; }
-        [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min) when the movie's metadata has none.")] public double? FrameInterval { get; init; }
+        [CommandOption("--pixel-size <UM>"), Description("Pixel size (um/px); overrides the movie's metadata and makes pixels square.")] public double? PixelSize { get; init; }
+        [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min); overrides the movie's metadata.")] public double? FrameInterval { get; init; }
+        [CommandOption("--series <N>"), Description("Series (OME Image) to read, 0-based; needed when the file holds several.")] public int? Series { get; init; }
+        [CommandOption("--channel <N>"), Description("Channel to read, 0-based; needed when the file has several.")] public int? Channel { get; init; }
+        [CommandOption("-z|--z-plane <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
+        [CommandOption("--z-is-time"), Description("The file's z planes (ImageJ 'slices') are time points.")] public bool ZIsTime { get; init; }
         [CommandOption("--rays <M>"), Description("Rays per outline (multiple of 8).")] public int Rays { get; init; } = 64;
         [CommandOption("--min-area <PX>"), Description("Exclude objects smaller than this (px).")] public int MinArea { get; init; } = 30;
         [CommandOption("--border-margin <PX>"), Description("Exclude objects within this distance of the image edge (px).")] public int BorderMargin { get; init; } = 1;
@@ -43,6 +47,10 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
     }
+
+    /// <summary>The plane and scale options as a <see cref="MovieSelection"/>.</summary>
+    public static MovieSelection Selection(int? series, int? channel, int? z, bool zIsTime, double? pixelSize, double? frameInterval)
+        => new MovieSelection { Series = series, Channel = channel, Z = z, ZIsTime = zIsTime, PixelSizeUm = pixelSize, FrameIntervalMin = frameInterval }.Validated();
 
     public static OutlineMethod ParseOutline(string s) => s.ToLowerInvariant() switch
     {
@@ -73,6 +81,7 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 _ => throw new ArgumentException($"--sim-format must be json or toml (got '{s.SimFormat}')"),
             },
         }.Validated();
+        var sel = Selection(s.Series, s.Channel, s.Z, s.ZIsTime, s.PixelSize, s.FrameInterval);
         var cmd = Environment.GetCommandLineArgs().Skip(1);
         bool chatty = !s.Quiet && !s.Json;
         AnalysisResult result;
@@ -85,11 +94,11 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 {
                     var task = ctx.AddTask("frames");
                     var after = ctx.AddTask("statistics", autoStart: false, maxValue: 3);
-                    result = Analyze(s, options, new SyncProgress(task, after), cmd);
+                    result = Analyze(s, options, sel, new SyncProgress(task, after), cmd);
                     after.Value = after.MaxValue;
                 });
         }
-        else result = Analyze(s, options, null, cmd);
+        else result = Analyze(s, options, sel, null, cmd);
 
         if (s.Json) { Console.WriteLine(Summary.Build(result).ToJsonString(Summary.Indented)); return 0; }
         if (s.Quiet) return 0;
@@ -97,10 +106,10 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         return 0;
     }
 
-    private static AnalysisResult Analyze(Settings s, AnalysisOptions options, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
+    private static AnalysisResult Analyze(Settings s, AnalysisOptions options, MovieSelection sel, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
         => s.Raw
-            ? ShapeNoise.Imaging.Segmentation.RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd)
-            : AnalyzeJob.Run(s.Input, Target(s), options, LabelMovies.Open, progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
+            ? ShapeNoise.Imaging.Segmentation.RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd, sel)
+            : AnalyzeJob.Run(s.Input, Target(s), options, p => LabelMovies.Open(p, sel), progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
     private static OutputTarget Target(Settings s) => new(s.Out, s.Overwrite, s.FloorFrom is null ? [s.Input] : [s.Input, s.FloorFrom]);
 
@@ -108,6 +117,8 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
     {
         foreach (var w in r.Warnings) AnsiConsole.MarkupLineInterpolated($"[yellow]warning:[/] {w}");
         var u = r.Units; double s2 = u.S * u.S;
+        if (r.Movie.Plane is { } plane) AnsiConsole.MarkupLineInterpolated($"plane: {plane}");
+        AnsiConsole.MarkupLineInterpolated($"pixel size: {(u.PixelSizeUm is { } ps ? $"{ps:G6} um/px" : "unknown (px)")} ({u.PixelSizeSource}); frame interval: {(u.FrameIntervalMin is { } fi ? $"{fi:G6} min" : "unknown (frames)")} ({u.FrameIntervalSource})");
         var t = new Table().AddColumn("measure").AddColumn("value").AddColumn("95% CI");
         void Row(string name, Estimate e, string unit = "") =>
             t.AddRow(name, $"{e.Value:G4}{unit}", double.IsFinite(e.Low) ? $"{e.Low:G4} - {e.High:G4}" : "-");

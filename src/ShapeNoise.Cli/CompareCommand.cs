@@ -16,8 +16,8 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
         [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--bootstrap <N>"), Description("Hierarchical bootstrap resamples.")] public int Bootstrap { get; init; } = 1000;
         [CommandOption("--seed <N>"), Description("Seed of every random resample.")] public int Seed { get; init; } = 1;
-        [CommandOption("--pixel-size <UM>"), Description("For movies analysed here: pixel size when the metadata has none.")] public double? PixelSize { get; init; }
-        [CommandOption("--frame-interval <MIN>"), Description("For movies analysed here: frame interval when the metadata has none.")] public double? FrameInterval { get; init; }
+        [CommandOption("--pixel-size <UM>"), Description("For movies analysed here: pixel size (um/px); overrides the metadata.")] public double? PixelSize { get; init; }
+        [CommandOption("--frame-interval <MIN>"), Description("For movies analysed here: frame interval (min); overrides the metadata.")] public double? FrameInterval { get; init; }
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         [CommandOption("--json"), Description("Print the differences as JSON, nothing else.")] public bool Json { get; init; }
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();

@@ -25,9 +25,9 @@ public sealed record AnalysisOptions
     public OutlineMethod Outline { get; init; } = OutlineMethod.Midpoint;
     /// <summary>Overlap fraction that makes two masks in consecutive frames candidates for the same cell.</summary>
     public double LinkOverlapFraction { get; init; } = 0.25;
-    /// <summary>Pixel size (um/px) used when the movie's metadata has none.</summary>
+    /// <summary>Pixel size (um/px); overrides the movie's metadata and makes its pixels square.</summary>
     public double? PixelSizeUm { get; init; }
-    /// <summary>Frame interval (min) used when the movie's metadata has none.</summary>
+    /// <summary>Frame interval (min); overrides the movie's metadata.</summary>
     public double? FrameIntervalMin { get; init; }
     /// <summary>Bootstrap resamples over tracks.</summary>
     public int BootstrapResamples { get; init; } = 1000;

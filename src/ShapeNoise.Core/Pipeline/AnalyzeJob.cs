@@ -55,6 +55,7 @@ public static class AnalyzeJob
         if (postProcess is not null) result = postProcess(result);
         var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
+        prov["movie"] = Provenance.Movie(result.Movie, result.Units.PixelSizeUm, result.Units.PixelSizeSource, result.Units.FrameIntervalMin, result.Units.FrameIntervalSource);
         var figs = frameFigures;
         ResultWriter.Write(result, outDir, prov, figs is null ? null : dir => figs.Write(result, () => open(input), dir));
         return result;

@@ -209,17 +209,17 @@ public static class MovieAnalyzer
         return c;
     }
 
-    /// <summary>Pixel size and frame interval: metadata first, then options, else px and frames (docs/measures.md#coordinates-and-units).</summary>
+    /// <summary>Pixel size and frame interval: an option first (it overrides the metadata), then the movie's metadata,
+    /// else px and frames. Sources: "option", the metadata's own ("OME-XML", "ImageJ header", "TIFF resolution tags"),
+    /// or "none" (docs/measures.md#coordinates-and-units).</summary>
     public static Units ResolveUnits(MovieInfo info, AnalysisOptions o, List<string> warnings)
     {
-        double? s = info.PixelSizeUm; string ss = "metadata";
-        if (s is not null && o.PixelSizeUm is { } os && Math.Abs(os - s.Value) > 1e-9 * s.Value)
-            warnings.Add($"--pixel-size {os} ignored: the movie's metadata says {s} um/px");
-        if (s is null) { s = o.PixelSizeUm; ss = s is null ? "unknown" : "option"; }
-        double? t = info.FrameIntervalMin; string ts = "metadata";
-        if (t is not null && o.FrameIntervalMin is { } ot && Math.Abs(ot - t.Value) > 1e-9 * t.Value)
-            warnings.Add($"--frame-interval {ot} ignored: the movie's metadata says {t} min");
-        if (t is null) { t = o.FrameIntervalMin; ts = t is null ? "unknown" : "option"; }
+        if (info.PixelSizeYUm is { } sy && o.PixelSizeUm is null)
+            throw new InputException(info.Path, $"pixels are not square ({info.PixelSizeUm} x {sy} um); open the movie through the reader that resamples them, or give --pixel-size");
+        static string Src(string s) => string.IsNullOrEmpty(s) || s == "none" ? "metadata" : s;
+        (double? s, string ss) = o.PixelSizeUm is { } os ? (os, "option") : info.PixelSizeUm is { } ms ? (ms, Src(info.PixelSizeSource)) : ((double?)null, "none");
+        (double? t, string ts) = o.FrameIntervalMin is { } ot ? (ot, "option") : info.FrameIntervalMin is { } mt ? (mt, Src(info.FrameIntervalSource)) : ((double?)null, "none");
+        if (info.Resampling is { } r) warnings.Add($"non-square pixels: {r}");
         if (s is null) warnings.Add("pixel size unknown (no metadata, no --pixel-size): lengths are in px");
         if (t is null) warnings.Add("frame interval unknown (no metadata, no --frame-interval): times are in frames");
         return new Units(s, ss, t, ts);

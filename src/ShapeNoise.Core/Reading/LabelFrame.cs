@@ -18,8 +18,16 @@ public sealed class LabelFrame(int index, int width, int height, int[] labels)
 /// <param name="PixelSizeUm">Pixel size from metadata (um/px), or null.</param>
 /// <param name="FrameIntervalMin">Frame interval from metadata (min), or null.</param>
 /// <param name="Format">Human-readable description of the container and pixel type.</param>
+/// <param name="PixelSizeSource">Where <paramref name="PixelSizeUm"/> came from: "option", "OME-XML", "ImageJ header",
+/// "TIFF resolution tags" or "none".</param>
+/// <param name="FrameIntervalSource">Where <paramref name="FrameIntervalMin"/> came from (same vocabulary).</param>
+/// <param name="PixelSizeYUm">Pixel height (um/px) when it differs from the width (non-square pixels), else null.</param>
+/// <param name="Plane">Which plane of a multi-dimensional file the frames are (e.g. "series 0, channel 1 of 2, z 0 of 1"), or null.</param>
+/// <param name="Resampling">What was done to make pixels square (e.g. "rows resampled 24 -> 31 px, nearest neighbour"), or null.</param>
 public sealed record MovieInfo(string Path, int Width, int Height, int FrameCount,
-    double? PixelSizeUm, double? FrameIntervalMin, string Format);
+    double? PixelSizeUm, double? FrameIntervalMin, string Format,
+    string PixelSizeSource = "none", string FrameIntervalSource = "none", double? PixelSizeYUm = null,
+    string? Plane = null, string? Resampling = null);
 
 /// <summary>A stream of label frames, read one at a time so memory does not grow with the movie length.</summary>
 public interface ILabelMovie : IDisposable

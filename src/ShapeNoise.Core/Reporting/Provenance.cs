@@ -19,6 +19,23 @@ public static class Provenance
         return Convert.ToHexStringLower(SHA256.HashData(fs));
     }
 
+    /// <summary>run.json's "movie" block: the container, the plane read, the scale used and where each value came from
+    /// ("option", "OME-XML", "ImageJ header", "TIFF resolution tags", "none"), and any square-pixel resampling.</summary>
+    public static JsonObject Movie(ShapeNoise.Reading.MovieInfo info, double? pixelSizeUm, string pixelSizeSource, double? frameIntervalMin, string frameIntervalSource)
+        => new()
+        {
+            ["format"] = info.Format,
+            ["plane"] = info.Plane,
+            ["width_px"] = info.Width,
+            ["height_px"] = info.Height,
+            ["frames"] = info.FrameCount,
+            ["pixel_size_um"] = pixelSizeUm,
+            ["pixel_size_source"] = pixelSizeSource,
+            ["frame_interval_min"] = frameIntervalMin,
+            ["frame_interval_source"] = frameIntervalSource,
+            ["resampling"] = info.Resampling,
+        };
+
     /// <summary>Builds run.json's content.</summary>
     public static JsonObject Describe(string command, IEnumerable<string> inputFiles, JsonNode options, IEnumerable<string>? commandLine = null)
     {

@@ -41,11 +41,11 @@ public static class OpticalFlowVelocity
     }
 
     /// <summary>Velocity of every analysed cell, keyed by (frame, label), from the flow of the raw movie.</summary>
-    public static Dictionary<(int Frame, int Label), (double Vx, double Vy)> ForCells(string rawPath, AnalysisResult r)
+    public static Dictionary<(int Frame, int Label), (double Vx, double Vy)> ForCells(string rawPath, AnalysisResult r, MovieSelection? selection = null)
     {
         var byFrame = FrameRuns.Of(r.Cells).ToDictionary(x => x.Frame, x => (x.Start, x.Count));
         var result = new Dictionary<(int, int), (double, double)>();
-        using var movie = LabelMovies.Open(rawPath);
+        using var movie = LabelMovies.Open(rawPath, selection ?? MovieSelection.None);
         int[]? prev = null; Mat? back = null;   // back = flow (t-1 -> t) while visiting frame t
         int w = movie.Info.Width, h = movie.Info.Height, lastIndex = -1;
         (double, double) Sample(Mat f, double x, double y)
@@ -82,9 +82,9 @@ public static class OpticalFlowVelocity
     }
 
     /// <summary>Re-runs the defect stage and the hypothesis test with optical-flow cell velocities.</summary>
-    public static AnalysisResult Apply(string rawPath, AnalysisResult r)
+    public static AnalysisResult Apply(string rawPath, AnalysisResult r, MovieSelection? selection = null)
     {
-        var v = ForCells(rawPath, r);
+        var v = ForCells(rawPath, r, selection);
         var defects = Nematic.DefectAnalysis.Run(r.Movie.Width, r.Movie.Height, r.Cells, r.Tracks, r.MeanCellRadiusPx, r.Units.S, r.Options,
             c => v.TryGetValue((c.Frame, c.Label), out var x) ? x : (double.NaN, double.NaN));
         var hyp = Nematic.ShapeNoiseHypothesis.Test(r.Cells, r.Tracks, defects, r.Options);

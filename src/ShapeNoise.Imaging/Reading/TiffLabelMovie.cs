@@ -2,34 +2,52 @@ using ShapeNoise.Reading;
 
 namespace ShapeNoise.Imaging.Reading;
 
-/// <summary>A multi-page TIFF label stack (one page a frame), read page by page.</summary>
+/// <summary>A multi-page TIFF label stack, read page by page: one page a frame, or, for an OME-TIFF, ImageJ hyperstack
+/// or tifffile series, the pages of the plane <see cref="MovieSelection"/> picks (<see cref="MovieLayout"/>).</summary>
 public sealed class TiffLabelMovie : ILabelMovie
 {
     private readonly TiffPages _tiff;
+    private readonly int[] _pages;
     public MovieInfo Info { get; }
     public IReadOnlyList<string> Files { get; }
 
-    public TiffLabelMovie(string path)
+    /// <summary>Opens a file whose every page is a frame of one plane (no option needed).</summary>
+    public TiffLabelMovie(string path) : this(path, MovieSelection.None) { }
+
+    /// <summary>Opens the plane <paramref name="selection"/> picks; scale overrides in it are not applied here
+    /// (<see cref="LabelMovies.Open(string, MovieSelection)"/> does).</summary>
+    public TiffLabelMovie(string path, MovieSelection selection)
     {
         _tiff = new TiffPages(path);
-        var p0 = _tiff.Pages[0];
-        foreach (var p in _tiff.Pages)
+        try
         {
-            _tiff.RequireIntegerLabels(p);
-            if (p.Width != p0.Width || p.Height != p0.Height)
-                throw new InputException(path, $"page {p.Index + 1} is {p.Width}x{p.Height}, page 1 is {p0.Width}x{p0.Height}");
+            var layout = MovieLayout.Of(path, _tiff.Pages);
+            var pick = selection.Pick(path, layout, _tiff.Pages.Count);
+            _pages = pick.Pages;
+            var p0 = _tiff.Pages[_pages[0]];
+            foreach (int i in _pages)
+            {
+                var p = _tiff.Pages[i];
+                _tiff.RequireIntegerLabels(p);
+                if (p.Width != p0.Width || p.Height != p0.Height)
+                    throw new InputException(path, $"page {p.Index + 1} is {p.Width}x{p.Height}, page {p0.Index + 1} is {p0.Width}x{p0.Height}");
+            }
+            var scale = pick.Scale;
+            double? sy = scale.PixelSizeUm is { } sx && scale.PixelSizeYUm is { } y && Math.Abs(y - sx) > 1e-6 * sx ? y : null;
+            string kind = p0.SampleFormat == 2 ? "int" : "uint";
+            string layoutText = layout.Kind == "TIFF" ? "" : $", {layout.Kind}";
+            Info = new MovieInfo(path, p0.Width, p0.Height, _pages.Length, scale.PixelSizeUm, scale.FrameIntervalMin,
+                $"TIFF, {_tiff.Pages.Count} pages{layoutText}, {kind}{p0.BitsPerSample}, metadata: {scale.Source}",
+                scale.PixelSizeSource, scale.FrameIntervalSource, sy, pick.Plane);
         }
-        var scale = MovieMetadata.FromDescription(path, p0.Description, p0.XResolution);
-        string kind = p0.SampleFormat == 2 ? "int" : "uint";
-        Info = new MovieInfo(path, p0.Width, p0.Height, _tiff.Pages.Count, scale.PixelSizeUm, scale.FrameIntervalMin,
-            $"TIFF, {_tiff.Pages.Count} pages, {kind}{p0.BitsPerSample}, metadata: {scale.Source}");
+        catch { _tiff.Dispose(); throw; }
         Files = [path];
     }
 
     public IEnumerable<LabelFrame> Frames()
     {
-        for (int i = 0; i < _tiff.Pages.Count; i++)
-            yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(i));
+        for (int i = 0; i < _pages.Length; i++)
+            yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i]));
     }
 
     public void Dispose() => _tiff.Dispose();

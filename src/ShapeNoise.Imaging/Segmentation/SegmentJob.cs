@@ -15,12 +15,13 @@ public static class SegmentJob
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
     public static (int Frames, double MeanCells) Run(string input, OutputTarget outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
-        int qcEvery = 10, IEnumerable<string>? commandLine = null, IProgress<(int Done, int Total)>? progress = null)
+        int qcEvery = 10, IEnumerable<string>? commandLine = null, IProgress<(int Done, int Total)>? progress = null, MovieSelection? selection = null)
     {
         OutputFolder.Check(outDir);
-        using var movie = LabelMovies.Open(input);   // raw intensities arrive as integers (8- or 16-bit)
+        // Raw intensities arrive as integers (8- or 16-bit); the plane is picked and non-square pixels made square on opening.
+        using var movie = LabelMovies.Open(input, (selection ?? MovieSelection.None) with { PixelSizeUm = pixelSizeUm ?? selection?.PixelSizeUm, FrameIntervalMin = frameIntervalMin ?? selection?.FrameIntervalMin });
         var info = movie.Info;
-        double? s = info.PixelSizeUm ?? pixelSizeUm, dt = info.FrameIntervalMin ?? frameIntervalMin;
+        double? s = info.PixelSizeUm, dt = info.FrameIntervalMin;
         var o = (options with { PixelSizeUm = s ?? 1 }).Validated();
         int frames = 0; long cells = 0;
         OutputFolder.Write(outDir, dir =>
@@ -37,7 +38,9 @@ public static class SegmentJob
             var xml = TiffWriter.OmeXml(info.Width, info.Height, info.FrameCount, "uint16", s, dt);
             TiffWriter.Write(Path.Combine(dir, "labels.tif"), info.Width, info.Height, pages, TiffWriter.PixelType.UInt16, xml);
             var opts = JsonSerializer.SerializeToNode(o)!;
-            File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("segment", movie.Files, opts, commandLine).ToJsonString(Summary.Indented));
+            var prov = Provenance.Describe("segment", movie.Files, opts, commandLine);
+            prov["movie"] = Provenance.Movie(info, s, info.PixelSizeSource, dt, info.FrameIntervalSource);
+            File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
         });
         return (frames, frames > 0 ? cells / (double)frames : 0);
     }
@@ -75,17 +78,17 @@ public static class SegmentJob
 public static class RawAnalyzeJob
 {
     public static ShapeNoise.Pipeline.AnalysisResult Run(string raw, OutputTarget outDir, ShapeNoise.Pipeline.AnalysisOptions options, SegmentOptions seg,
-        IProgress<ShapeNoise.Pipeline.MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null)
+        IProgress<ShapeNoise.Pipeline.MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, MovieSelection? selection = null)
     {
         OutputFolder.Check(outDir);
         string temp = Path.Combine(Path.GetTempPath(), $"shapenoise-seg-{Environment.ProcessId}-{Guid.NewGuid():N}");
         using var scratch = Scratch.Register(temp);
         try
         {
-            SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin);
+            SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection);
             var figures = new CopyThenOverlays(temp);
             return ShapeNoise.Pipeline.AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
-                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => Flow.OpticalFlowVelocity.Apply(raw, r) : null);
+                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => Flow.OpticalFlowVelocity.Apply(raw, r, selection) : null);
         }
         finally { Scratch.Delete(temp); }
     }
