@@ -126,7 +126,7 @@ public sealed class TiffPages : IDisposable
             if (Read(ifd, cb[..countSize]) < countSize) throw new InputException(Path, $"truncated: page {page} directory cut short");
             ulong n = _big ? U64(cb) : (ulong)U16(cb);
             long room = FileLength - ifd - countSize;   // bytes after the entry count
-            if (n > (ulong)(room / entrySize) && _big)
+            if (n > (ulong)(FileLength / entrySize))
                 throw new InputException(Path, $"page {page}: directory claims {n} entries, more than the file's {FileLength} bytes can hold (corrupt directory)");
             long dirBytes = checked((long)n * entrySize + nextSize);
             if (dirBytes > room) throw new InputException(Path, $"truncated: page {page} directory runs past the end of the file ({FileLength} bytes)");
