@@ -467,33 +467,40 @@ public sealed class TiffPages : IDisposable
         return j == expected ? o : o[..j];
     }
 
-    /// <summary>TIFF LZW (MSB-first codes, early change), TIFF 6.0 section 13.</summary>
+    /// <summary>TIFF LZW (MSB-first codes, early change), TIFF 6.0 section 13. Each table entry keeps its length and first
+    /// byte, so a string is written in place from its last byte back along the prefix chain.</summary>
     private static byte[] Lzw(ReadOnlySpan<byte> raw, int expected)
     {
         var o = new byte[expected];
         int j = 0;
-        var prefix = new int[4096]; var suffix = new byte[4096];
-        for (int i = 0; i < 256; i++) { prefix[i] = -1; suffix[i] = (byte)i; }
-        int next = 258, width = 9, old = -1;
-        long bitPos = 0, totalBits = (long)raw.Length * 8;
-        var stack = new byte[4096];
-        while (bitPos + width <= totalBits && j < expected)
+        var prefix = new short[4096]; var suffix = new byte[4096]; var firstOf = new byte[4096]; var length = new int[4096];
+        for (int i = 0; i < 256; i++) { prefix[i] = -1; suffix[i] = (byte)i; firstOf[i] = (byte)i; length[i] = 1; }
+        int next = 258, width = 9, old = -1, pos = 0;
+        ulong acc = 0; int bits = 0;
+        while (j < expected)
         {
-            int code = 0;
-            for (int b = 0; b < width; b++, bitPos++) code = (code << 1) | ((raw[(int)(bitPos >> 3)] >> (7 - (int)(bitPos & 7))) & 1);
+            while (bits < width && pos < raw.Length) { acc = (acc << 8) | raw[pos++]; bits += 8; }
+            if (bits < width) break;
+            int code = (int)(acc >> (bits - width)) & ((1 << width) - 1);
+            bits -= width;
             if (code == 257) break;
             if (code == 256) { next = 258; width = 9; old = -1; continue; }
-            if (old < 0) { if (code > 255) throw new InvalidDataException("LZW stream starts with a non-literal code"); o[j++] = (byte)code; old = code; continue; }
+            if (old < 0)
+            {
+                if (code > 255) throw new InvalidDataException("LZW stream starts with a non-literal code");
+                o[j++] = (byte)code; old = code; continue;
+            }
             int cur;
-            if (code < next) cur = code;
-            else if (code == next) cur = old;
+            byte first;
+            if (code < next) { cur = code; first = firstOf[code]; }
+            else if (code == next) { cur = old; first = firstOf[old]; }
             else throw new InvalidDataException("LZW code out of range");
-            int sp = 0, c = cur;
-            while (c >= 0) { if (sp == stack.Length) throw new InvalidDataException("LZW string too long"); stack[sp++] = suffix[c]; c = prefix[c]; }
-            byte first = stack[sp - 1];
-            for (int k = sp - 1; k >= 0 && j < expected; k--) o[j++] = stack[k];
+            int len = length[cur];
+            int at = j + len - 1;
+            for (int c = cur; c >= 0; c = prefix[c], at--) if (at < expected) o[at] = suffix[c];
+            j = Math.Min(j + len, expected);
             if (code == next && j < expected) o[j++] = first;
-            if (next < 4096) { prefix[next] = old; suffix[next] = first; next++; }
+            if (next < 4096) { prefix[next] = (short)old; suffix[next] = first; firstOf[next] = firstOf[old]; length[next] = length[old] + 1; next++; }
             old = code;
             if (next + 1 >= (1 << width) && width < 12) width++;
         }
