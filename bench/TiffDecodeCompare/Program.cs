@@ -30,7 +30,7 @@ foreach (var (name, e) in expected)
             outcome = same ? "decoded, same pixels" : "decoded, DIFFERENT pixels";
             if (same) agreeDecode++; else wrongDecode++;
         }
-        else { outcome = "DECODED a file that must be refused"; decodedDamaged++; }
+        else { outcome = $"DECODED ({pages.Count} pages) a file that must be refused"; decodedDamaged++; }
     }
     catch (Exception ex) { outcome = $"exception {ex.GetType().Name}: {ex.Message}"; crashed++; if (valid) failedValid++; }
     Console.WriteLine($"{name,-34} {(valid ? "valid  " : "refuse ")} {outcome}");

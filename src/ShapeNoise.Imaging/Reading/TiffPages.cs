@@ -246,8 +246,8 @@ public sealed class TiffPages : IDisposable
 
     private static bool Supported(int compression) => compression is 1 or 5 or 8 or 32946 or 32773;
 
-    /// <summary>Largest output a compressed byte can give: Deflate 1032:1 (zlib technical details, from memory), LZW at most
-    /// 4096 bytes per 9-bit code (TIFF 6.0 section 13: 12-bit table), PackBits 128 bytes per 2-byte run (TIFF 6.0 section 9).</summary>
+    /// <summary>Bound on the output per compressed byte: Deflate 1032:1 (zlib technical details, from memory), LZW 4096:1 (a code of 9 or more bits emits at most
+    /// 4096 bytes: TIFF 6.0 section 13, 12-bit table), PackBits 64:1 (128 bytes per 2-byte run, TIFF 6.0 section 9).</summary>
     private static long MaxExpansion(int compression) => compression switch
     {
         1 => 1, 8 or 32946 => 1032, 5 => 4096, 32773 => 64, _ => 1,
