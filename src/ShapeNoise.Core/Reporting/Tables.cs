@@ -75,7 +75,8 @@ internal sealed class CellMap : ClassMap<CellRow>
 {
     public CellMap(Units u)
     {
-        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name($"time_{u.T}"); Map(r => r.Label).Name("label");
+        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name($"time_{u.T}"); Map(r => r.Label).Name("label")
+            .Convert(a => ((uint)a.Value.Label).ToString(CultureInfo.InvariantCulture));   // ids above 2^31 - 1 are stored bit for bit in int (TiffPages)
         Map(r => r.TrackId).Name("track_id"); Map(r => r.InStatistics).Name("in_statistics");
         Map(r => r.X).Name($"x_{u.L}"); Map(r => r.Y).Name($"y_{u.L}"); Map(r => r.Area).Name($"area_{u.L2}");
         Map(r => r.Perimeter).Name($"perimeter_{u.L}"); Map(r => r.Length).Name($"length_{u.L}"); Map(r => r.Width).Name($"width_{u.L}");
