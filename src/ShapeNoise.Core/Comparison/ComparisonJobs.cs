@@ -32,7 +32,12 @@ public static class ComparisonJobs
             if (!File.Exists(Path.Combine(folder, "summary.json")))
             {
                 folder = Path.Combine(analysisDir, Safe($"{r.Condition}-{r.Replicate}"));
-                AnalyzeJob.Run(r.Path, folder, options, open, null, null, figures);
+                try { AnalyzeJob.Run(r.Path, folder, options, open, null, null, figures); }
+                catch (InputException e) when (e.Problem.Contains("give --", StringComparison.Ordinal))
+                {
+                    // compare opens movies without plane options: say how to pick the plane instead.
+                    throw new InputException(e.PathName, $"{e.Problem} — compare cannot pick a plane itself: run analyze on this movie with that option and list its analysis folder in {Path.GetFileName(conditionsCsv)}");
+                }
             }
             inputs.Add(Path.Combine(folder, "summary.json")); inputs.Add(Path.Combine(folder, "tracks.csv")); inputs.Add(Path.Combine(folder, "defects.csv"));
             movies.Add(MovieData.Load(r.Condition, r.Replicate, folder));

@@ -34,7 +34,7 @@ public sealed class OutlineTable
     /// <summary>
     /// Reads a table. Every malformed row (too few or too many fields, a frame that is not an integer ≥ 0, an empty cell
     /// id, a coordinate that is not a finite number) is an <see cref="InputException"/> naming the file and the row's
-    /// line number (1-based, the header is line 1). Cell ids that are all integers are kept; otherwise every id is
+    /// line number (1-based, the header is line 1). Cell ids that are all positive integers are kept; otherwise (text, 0 or negative ids) every id is
     /// numbered 1, 2, … in order of first appearance in the file (deterministic; the text ids themselves are not kept).
     /// </summary>
     public static OutlineTable Read(string path, double? pixelSizeUm, double? frameIntervalMin)
@@ -81,7 +81,7 @@ public sealed class OutlineTable
                 if (!double.TryParse(xs, NumberStyles.Float, ci, out double x) || !double.TryParse(ys, NumberStyles.Float, ci, out double y) || !double.IsFinite(x) || !double.IsFinite(y))
                     throw new InputException(path, $"row {line}: coordinate ({xs}, {ys}) is not a finite number");
                 if (frame != curFrame || cs != curCell) { Flush(); curFrame = frame; curCell = cs; curLine = line; }
-                if (!firstSeen.ContainsKey(cs)) { firstSeen[cs] = firstSeen.Count + 1; allInteger &= int.TryParse(cs, NumberStyles.Integer, ci, out _); }
+                if (!firstSeen.ContainsKey(cs)) { firstSeen[cs] = firstSeen.Count + 1; allInteger &= int.TryParse(cs, NumberStyles.Integer, ci, out int idValue) && idValue > 0; }
                 pts.Add(new Point2(x, y));
                 maxX = Math.Max(maxX, x); maxY = Math.Max(maxY, y);
             }
