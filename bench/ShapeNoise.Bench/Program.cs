@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 // ShapeNoise benchmark: speed and memory of `analyze` on a large synthetic monolayer, measured in one run.
 // Usage: dotnet run --project bench/ShapeNoise.Bench -c Release -- [--quick] [--guard]
 //   default : 1024 x 1024 px, ~2500 cells, 100 and 200 frames (movies generated once into bench/data)

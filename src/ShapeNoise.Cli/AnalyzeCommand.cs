@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using System.ComponentModel;
 using ShapeNoise.Imaging.Reading;
 using ShapeNoise.Outlines;
@@ -108,7 +109,7 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
     private static AnalysisResult Analyze(Settings s, AnalysisOptions options, MovieSelection sel, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
         => s.Raw
-            ? ShapeNoise.Imaging.Segmentation.RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd, sel)
+            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter }, progress, cmd, sel)
             : AnalyzeJob.Run(s.Input, Target(s), options, p => LabelMovies.Open(p, sel), progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
     private static OutputTarget Target(Settings s) => new(s.Out, s.Overwrite, s.FloorFrom is null ? [s.Input] : [s.Input, s.FloorFrom]);

@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using System.ComponentModel;
 using ShapeNoise.Comparison;
 using ShapeNoise.Imaging.Reading;
@@ -26,7 +27,7 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
         var options = new AnalysisOptions { BootstrapResamples = s.Bootstrap, Seed = s.Seed, PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval }.Validated();
-        var r = ComparisonJobs.Compare(s.Conditions, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, ComparisonJobs.ListedInputs(s.Conditions)), options, LabelMovies.Open, new ShapeNoise.Imaging.Drawing.DefectOverlays(), Environment.GetCommandLineArgs().Skip(1));
+        var r = CompareJob.Compare(s.Conditions, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, CompareJob.ListedInputs(s.Conditions)), options, LabelMovies.Open, new ShapeNoise.Imaging.Drawing.DefectOverlays(), Environment.GetCommandLineArgs().Skip(1));
         if (s.Json)
         {
             static System.Text.Json.Nodes.JsonNode? N(double v) => double.IsFinite(v) ? v : null;
@@ -67,7 +68,7 @@ public sealed class PlanCommand : Command<PlanCommand.Settings>
 
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
-        var p = ComparisonJobs.Plan(s.Pilots, s.Effect, s.Measure, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, s.Pilots), Environment.GetCommandLineArgs().Skip(1));
+        var p = CompareJob.Plan(s.Pilots, s.Effect, s.Measure, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, s.Pilots), Environment.GetCommandLineArgs().Skip(1));
         if (s.Quiet) return 0;
         AnsiConsole.WriteLine($"ICC {p.Components.Icc:G3} (between {p.Components.Between:G3}, within {p.Components.Within:G3}) from {p.PilotMovies} pilot movies");
         AnsiConsole.WriteLine(p.Smallest is { } b ? $"smallest design with power >= 0.8: {b.MoviesPerCondition} movies per condition, {b.CellsPerMovie} cells per movie (power {b.Power:F2})"

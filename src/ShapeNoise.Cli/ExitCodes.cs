@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using ShapeNoise.Reading;
 using Spectre.Console;
 using Spectre.Console.Cli;

@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using System.Runtime.InteropServices;
 using ShapeNoise.Reporting;
 

@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using ShapeNoise.Cli;
 using ShapeNoise.Reading;
 using Spectre.Console;

@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using System.ComponentModel;
 using ShapeNoise.Imaging.Segmentation;
 using Spectre.Console;

@@ -174,7 +174,7 @@ public static class MovieAnalyzer
         {
             if (!t.Used) continue;
             used++;
-            if (t.Contour is { } c && (c.VarAlongRaw - FloorAlongOf(c, floorReference) <= 0 || c.VarAcrossRaw - FloorAcrossOf(c, floorReference) <= 0)) below++;
+            if (t.Contour is { } c && (c.VarAlongRaw - NoiseFloor.AlongOf(c, floorReference) <= 0 || c.VarAcrossRaw - NoiseFloor.AcrossOf(c, floorReference) <= 0)) below++;
         }
         double meanArea = 0; int nArea = 0;
         foreach (var c in cells) { meanArea += c.Shape.AreaPx2; nArea++; }
@@ -225,8 +225,6 @@ public static class MovieAnalyzer
         return new Units(s, ss, t, ts);
     }
 
-    internal static double FloorAlongOf(TrackContour c, NoiseFloorReference? r) => r?.VarAlongPx2 ?? c.FloorAlong;
-    internal static double FloorAcrossOf(TrackContour c, NoiseFloorReference? r) => r?.VarAcrossPx2 ?? c.FloorAcross;
 
     /// <summary>Frame-weighted pooling over used tracks with bootstrap intervals over tracks (docs/measures.md#movie-pooling).</summary>
     public static PooledFluctuations Pool(IReadOnlyList<TrackRecord> allTracks, int m, AnalysisOptions options, NoiseFloorReference? r)
@@ -243,7 +241,7 @@ public static class MovieAnalyzer
             vL[i] = t[i].VarLPx2 - (r?.VarLPx2 ?? 0);
             vW[i] = t[i].VarWPx2 - (r?.VarWPx2 ?? 0);
             aR[i] = c.VarAlongRaw; cR[i] = c.VarAcrossRaw;
-            aF[i] = FloorAlongOf(c, r); cF[i] = FloorAcrossOf(c, r);
+            aF[i] = NoiseFloor.AlongOf(c, r); cF[i] = NoiseFloor.AcrossOf(c, r);
         }
         double Mean(double[] v, int[] k) { double s = 0, w = 0; for (int i = 0; i < n; i++) { s += k[i] * N[i] * v[i]; w += k[i] * N[i]; } return w > 0 ? s / w : double.NaN; }
         double Diff(double[] a, double[] b, int[] k) => Mean(a, k) - Mean(b, k);

@@ -1,3 +1,5 @@
+using ShapeNoise.Reporting;
+using ShapeNoise.Cli.Jobs;
 using System.Text.Json.Nodes;
 using ShapeNoise.Comparison;
 using ShapeNoise.Imaging.Reading;
@@ -35,7 +37,7 @@ public class ComparisonTests(ITestOutputHelper log)
         File.WriteAllText(d["conditions.csv"], "condition,replicate,path\n" +
             "aniso,1,pilot-aniso/r0\naniso,2,pilot-aniso/r1\naniso,3,movies/aniso-2/labels.tif\n" +
             "iso,1,pilot-iso/r0\niso,2,pilot-iso/r1\niso,3,movies/iso-2/labels.tif\n");
-        var r = ComparisonJobs.Compare(d["conditions.csv"], d["cmp"], new AnalysisOptions { BootstrapResamples = 300 }, LabelMovies.Open);
+        var r = CompareJob.Compare(d["conditions.csv"], d["cmp"], new AnalysisOptions { BootstrapResamples = 300 }, LabelMovies.Open);
         var diff = r.Differences.Single(x => x.Measure == "anisotropy");
         log.WriteLine($"anisotropy aniso - iso = {diff.Difference.Value:F3} (95% CI {diff.Difference.Low:F3} to {diff.Difference.High:F3}), ratio {diff.Ratio.Value:F2}, Welch p {diff.PValue:G3}");
         Assert.True(diff.Difference.Low > 0, "the interval must exclude 0");
@@ -46,7 +48,7 @@ public class ComparisonTests(ITestOutputHelper log)
         Assert.Contains("excludes 0", File.ReadAllText(d["cmp/comparison.md"]));
         Assert.True(Directory.Exists(d["cmp/movies/aniso-3"]), "raw movies are analysed inside the comparison folder");
 
-        var plan = ComparisonJobs.Plan([d["pilot-aniso"], d["pilot-iso"]], 0.2, "anisotropy", d["plan"]);
+        var plan = CompareJob.Plan([d["pilot-aniso"], d["pilot-iso"]], 0.2, "anisotropy", d["plan"]);
         log.WriteLine($"ICC {plan.Components.Icc:F3}; smallest design {plan.Smallest}");
         Assert.NotNull(plan.Smallest);
         Assert.InRange(plan.Smallest!.Value.MoviesPerCondition, 2, 30);
@@ -64,8 +66,8 @@ public class ComparisonTests(ITestOutputHelper log)
         using var d = new TempDir();
         MakePilots(d);
         File.WriteAllText(d["c.csv"], "condition,replicate,path\naniso,1,pilot-aniso/r0\naniso,2,pilot-aniso/r1\niso,1,pilot-iso/r0\niso,2,pilot-iso/r1\n");
-        ComparisonJobs.Compare(d["c.csv"], d["a"], new AnalysisOptions { BootstrapResamples = 200, Seed = 9 }, LabelMovies.Open);
-        ComparisonJobs.Compare(d["c.csv"], d["b"], new AnalysisOptions { BootstrapResamples = 200, Seed = 9 }, LabelMovies.Open);
+        CompareJob.Compare(d["c.csv"], d["a"], new AnalysisOptions { BootstrapResamples = 200, Seed = 9 }, LabelMovies.Open);
+        CompareJob.Compare(d["c.csv"], d["b"], new AnalysisOptions { BootstrapResamples = 200, Seed = 9 }, LabelMovies.Open);
         Assert.Equal(File.ReadAllText(d["a/differences.csv"]), File.ReadAllText(d["b/differences.csv"]));
     }
 
@@ -113,7 +115,7 @@ public class ComparisonTests(ITestOutputHelper log)
         FakeAnalysis(d["runs/wt1"], ("labels.tif", new string('a', 64)));
         FakeAnalysis(d["runs/ko1"], ("labels.tif", new string('b', 64)));
         var rows = Rows(d, "wt,1,runs/wt1\nwt,2,runs/ko1/../wt1/\nko,1,runs/ko1\n");
-        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => CompareJob.RefuseRepeatedData(d["c.csv"], rows));
         Assert.Contains("row 2 (wt, 1) and row 3 (wt, 2) are the same analysis folder", e.Message);
         Assert.Contains("c.csv", e.Message);
     }
@@ -126,7 +128,7 @@ public class ComparisonTests(ITestOutputHelper log)
         FakeAnalysis(d["runs/ko1"], ("labels.tif", new string('b', 64)));
         Directory.CreateSymbolicLink(d["alias"], d["runs"]);   // alias -> runs: alias/wt1 is runs/wt1
         var rows = Rows(d, "wt,1,runs/wt1\nko,1,runs/ko1\nko,2,alias/wt1\n");
-        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => CompareJob.RefuseRepeatedData(d["c.csv"], rows));
         Assert.Contains("row 2 (wt, 1) and row 4 (ko, 2)", e.Message);
     }
 
@@ -138,7 +140,7 @@ public class ComparisonTests(ITestOutputHelper log)
         FakeAnalysis(d["runs/a"], ("labels.tif", sha));
         FakeAnalysis(d["runs/b"], ("copy.tif", sha));   // the same movie analysed twice (a renamed copy)
         var rows = Rows(d, "wt,1,runs/a\nko,1,runs/b\n");
-        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => CompareJob.RefuseRepeatedData(d["c.csv"], rows));
         Assert.Contains("row 2 (wt, 1) and row 3 (ko, 1) hold the same data", e.Message);
         Assert.Contains("0123456789ab", e.Message);
     }
@@ -152,7 +154,7 @@ public class ComparisonTests(ITestOutputHelper log)
         File.WriteAllBytes(d["m/two.tif"], [1, 2, 3, 4]);
         File.WriteAllBytes(d["m/three.tif"], [1, 2, 3, 5]);
         var rows = Rows(d, "wt,1,m/one.tif\nwt,2,m/three.tif\nko,1,m/two.tif\n");
-        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => ComparisonJobs.RefuseRepeatedData(d["c.csv"], rows));
+        var e = Assert.Throws<ShapeNoise.Reading.InputException>(() => CompareJob.RefuseRepeatedData(d["c.csv"], rows));
         Assert.Contains("row 2 (wt, 1) and row 4 (ko, 1)", e.Message);
         Assert.Contains("one.tif and two.tif", e.Message);
     }
@@ -164,7 +166,7 @@ public class ComparisonTests(ITestOutputHelper log)
         string floor = new string('f', 64);
         FakeAnalysis(d["runs/a"], ("labels.tif", new string('1', 64)), ("floor.json", floor));
         FakeAnalysis(d["runs/b"], ("labels.tif", new string('2', 64)), ("floor.json", floor));
-        ComparisonJobs.RefuseRepeatedData(d["c.csv"], Rows(d, "wt,1,runs/a\nko,1,runs/b\n"));
+        CompareJob.RefuseRepeatedData(d["c.csv"], Rows(d, "wt,1,runs/a\nko,1,runs/b\n"));
     }
 
     [Fact]

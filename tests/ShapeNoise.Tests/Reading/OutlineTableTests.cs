@@ -1,3 +1,5 @@
+using ShapeNoise.Reporting;
+using ShapeNoise.Cli.Jobs;
 using System.Globalization;
 using System.Text;
 using ShapeNoise.Pipeline;

@@ -1,3 +1,5 @@
+using ShapeNoise.Reporting;
+using ShapeNoise.Cli.Jobs;
 using System.Diagnostics;
 using System.Text.RegularExpressions;
 using ShapeNoise.Imaging.Reading;

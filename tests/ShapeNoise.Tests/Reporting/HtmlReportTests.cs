@@ -1,3 +1,4 @@
+using ShapeNoise.Cli.Jobs;
 using System.Text.Json.Nodes;
 using System.Xml.Linq;
 using ShapeNoise.Imaging.Reading;

@@ -1,3 +1,5 @@
+using ShapeNoise.Imaging.Segmentation;
+using ShapeNoise.Imaging.Writing;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using OpenCvSharp;
@@ -7,7 +9,7 @@ using ShapeNoise.Reading;
 using ShapeNoise.Reporting;
 using ShapeNoise.Segmentation;
 
-namespace ShapeNoise.Imaging.Segmentation;
+namespace ShapeNoise.Cli.Jobs;
 
 /// <summary>The <c>segment</c> and <c>score</c> jobs.</summary>
 public static class SegmentJob
@@ -87,8 +89,8 @@ public static class RawAnalyzeJob
         {
             SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection);
             var figures = new CopyThenOverlays(temp);
-            return ShapeNoise.Pipeline.AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
-                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => Flow.OpticalFlowVelocity.Apply(raw, r, selection) : null);
+            return AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
+                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => ShapeNoise.Imaging.Flow.OpticalFlowVelocity.Apply(raw, r, selection) : null);
         }
         finally { Scratch.Delete(temp); }
     }
@@ -100,7 +102,7 @@ public static class RawAnalyzeJob
             string target = Path.Combine(dir, "segmentation");
             Directory.CreateDirectory(target);
             foreach (var f in Directory.GetFiles(segDir)) File.Copy(f, Path.Combine(target, Path.GetFileName(f)));
-            new Drawing.DefectOverlays().Write(result, reopen, dir);
+            new ShapeNoise.Imaging.Drawing.DefectOverlays().Write(result, reopen, dir);
         }
     }
 }

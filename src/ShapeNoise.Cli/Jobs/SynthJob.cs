@@ -1,9 +1,11 @@
+using ShapeNoise.Imaging.Segmentation;
+using ShapeNoise.Imaging.Writing;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using ShapeNoise.Reporting;
 using ShapeNoise.Synthesis;
 
-namespace ShapeNoise.Imaging.Writing;
+namespace ShapeNoise.Cli.Jobs;
 
 /// <summary>Writes a synthetic scenario as an OME-TIFF label movie with its truth.json and run.json.</summary>
 public static class SynthJob
@@ -31,7 +33,7 @@ public static class SynthJob
     public static void WriteRaw(string labelsTif, string rawTif, RawRenderOptions o)
     {
         o.Validated();
-        using var t = new Reading.TiffPages(labelsTif);
+        using var t = new ShapeNoise.Imaging.Reading.TiffPages(labelsTif);
         var p0 = t.Pages[0];
         var rng = new Random(o.Seed);
         int n = t.Pages.Count;

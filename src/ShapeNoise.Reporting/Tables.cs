@@ -1,3 +1,4 @@
+using ShapeNoise.Fluctuations;
 using System.Globalization;
 using CsvHelper;
 using CsvHelper.Configuration;
@@ -149,7 +150,7 @@ public static class Tables
         foreach (var t in r.Tracks)
         {
             var c = t.Contour;
-            double? fa = c is null ? null : MovieAnalyzer.FloorAlongOf(c, fr) * s2, fc = c is null ? null : MovieAnalyzer.FloorAcrossOf(c, fr) * s2;
+            double? fa = c is null ? null : NoiseFloor.AlongOf(c, fr) * s2, fc = c is null ? null : NoiseFloor.AcrossOf(c, fr) * s2;
             double? ar = c?.VarAlongRaw * s2, cr = c?.VarAcrossRaw * s2;
             double? vL = double.IsFinite(t.VarLPx2) ? (t.VarLPx2 - (fr?.VarLPx2 ?? 0)) * s2 : null;
             double? vW = double.IsFinite(t.VarWPx2) ? (t.VarWPx2 - (fr?.VarWPx2 ?? 0)) * s2 : null;

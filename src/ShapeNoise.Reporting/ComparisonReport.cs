@@ -1,144 +1,16 @@
 using System.Globalization;
 using System.Text;
-using System.Text.Json.Nodes;
 using ScottPlot;
-using ShapeNoise.Pipeline;
-using ShapeNoise.Reading;
-using ShapeNoise.Reporting;
+using ShapeNoise.Comparison;
 using ShapeNoise.Statistics;
 
-namespace ShapeNoise.Comparison;
+namespace ShapeNoise.Reporting;
 
-/// <summary>The <c>compare</c> and <c>plan</c> jobs: read or produce per-movie analyses, compute, write the folder atomically.</summary>
-public static class ComparisonJobs
+/// <summary>The files of a comparison folder (comparison.csv, differences.csv, superplots, comparison.md, report.html) and
+/// of a plan folder (plan.csv, plan.png, plan.md, report.html).</summary>
+public static class ComparisonReport
 {
     static readonly CultureInfo Ci = CultureInfo.InvariantCulture;
-
-    /// <summary>Loads the movies listed in conditions.csv; a path that is not an analysis folder is analysed first
-    /// (into <paramref name="analysisDir"/>) with <paramref name="options"/>.</summary>
-    public static List<MovieData> LoadConditions(string conditionsCsv, string analysisDir, AnalysisOptions options, Func<string, ILabelMovie> open,
-        IFrameFigures? figures, List<string> inputs)
-    {
-        var rows = ConditionTable.Read(conditionsCsv);
-        inputs.Add(conditionsCsv);
-        foreach (var r in rows)
-            if (!File.Exists(Path.Combine(r.Path, "summary.json")) && !File.Exists(r.Path) && !Directory.Exists(r.Path))
-                throw new InputException(r.Path, $"listed in {Path.GetFileName(conditionsCsv)} does not exist");
-        RefuseRepeatedData(conditionsCsv, rows);
-        var movies = new List<MovieData>();
-        foreach (var r in rows)
-        {
-            string folder = r.Path;
-            if (!File.Exists(Path.Combine(folder, "summary.json")))
-            {
-                folder = Path.Combine(analysisDir, Safe($"{r.Condition}-{r.Replicate}"));
-                try { AnalyzeJob.Run(r.Path, folder, options, open, null, null, figures); }
-                catch (InputException e) when (e.Problem.Contains("give --", StringComparison.Ordinal))
-                {
-                    // compare opens movies without plane options: say how to pick the plane instead.
-                    throw new InputException(e.PathName, $"{e.Problem} — compare cannot pick a plane itself: run analyze on this movie with that option and list its analysis folder in {Path.GetFileName(conditionsCsv)}");
-                }
-            }
-            inputs.Add(Path.Combine(folder, "summary.json")); inputs.Add(Path.Combine(folder, "tracks.csv")); inputs.Add(Path.Combine(folder, "defects.csv"));
-            movies.Add(MovieData.Load(r.Condition, r.Replicate, folder));
-        }
-        return movies;
-    }
-
-    /// <summary>conditions.csv and every path it lists (when it can be read): the inputs an output folder must not hold.</summary>
-    public static IReadOnlyList<string> ListedInputs(string conditionsCsv)
-    {
-        var all = new List<string> { conditionsCsv };
-        if (File.Exists(conditionsCsv)) foreach (var r in ConditionTable.Read(conditionsCsv)) all.Add(r.Path);
-        return all;
-    }
-
-    /// <summary>
-    /// Refuses a conditions table that lists the same data twice (pseudo-replication: one movie counted as two
-    /// replicates): the same path (after <see cref="Path.GetFullPath(string)"/> and resolving symbolic links in every
-    /// component), or two rows whose data share a SHA-256 (an analysis folder's run.json inputs, the noise floor
-    /// excepted; a movie file; the files of a folder of frames). One <see cref="InputException"/> naming both rows.
-    /// </summary>
-    public static void RefuseRepeatedData(string conditionsCsv, IReadOnlyList<ConditionRow> rows)
-    {
-        var byPath = new Dictionary<string, ConditionRow>(StringComparer.Ordinal);
-        var byHash = new Dictionary<string, (ConditionRow Row, string Name)>(StringComparer.Ordinal);
-        foreach (var r in rows)
-        {
-            string real = RealPath(r.Path);
-            if (byPath.TryGetValue(real, out var first))
-                throw new InputException(conditionsCsv, $"{first.Describe()} and {r.Describe()} are the same {(File.Exists(Path.Combine(real, "summary.json")) ? "analysis folder" : "movie")} ({real}); list each movie once");
-            byPath[real] = r;
-            foreach (var (name, sha) in DataHashes(real).DistinctBy(x => x.Sha))   // a movie may repeat a frame within itself
-            {
-                if (byHash.TryGetValue(sha, out var seen))
-                    throw new InputException(conditionsCsv, $"{seen.Row.Describe()} and {r.Describe()} hold the same data ({seen.Name} and {name} have the same SHA-256 {sha[..12]}…); list each movie once");
-                byHash[sha] = (r, name);
-            }
-        }
-    }
-
-    /// <summary>SHA-256 of the data behind a row: an analysis folder's run.json inputs (floor.json excepted), or the movie file(s).</summary>
-    private static IEnumerable<(string Name, string Sha)> DataHashes(string path)
-    {
-        string run = Path.Combine(path, "run.json");
-        if (File.Exists(Path.Combine(path, "summary.json")))
-        {
-            if (!File.Exists(run)) yield break;   // an analysis folder without provenance: only its path can be compared
-            JsonNode? doc;
-            try { doc = JsonNode.Parse(File.ReadAllText(run)); }
-            catch (System.Text.Json.JsonException e) { throw new InputException(run, $"is not valid JSON ({e.Message})"); }
-            if (doc?["inputs"] is not JsonArray arr) yield break;
-            foreach (var i in arr)
-            {
-                string? name = i?["name"]?.GetValue<string>(), sha = i?["sha256"]?.GetValue<string>();
-                if (name is null || sha is null || name == "floor.json") continue;
-                yield return ($"{Path.GetFileName(path)}/run.json input {name}", sha);
-            }
-        }
-        else if (File.Exists(path)) yield return (Path.GetFileName(path), Provenance.Sha256(path));
-        else if (Directory.Exists(path))
-        {
-            var files = Directory.GetFiles(path); Array.Sort(files, StringComparer.Ordinal);
-            foreach (var f in files) yield return ($"{Path.GetFileName(path)}/{Path.GetFileName(f)}", Provenance.Sha256(f));
-        }
-    }
-
-    /// <summary>The absolute path with every symbolic link along it resolved (as realpath(3) does).</summary>
-    public static string RealPath(string path)
-    {
-        string full = Path.GetFullPath(path);
-        string root = Path.GetPathRoot(full)!;
-        string current = root;
-        var parts = full[root.Length..].Split(Path.DirectorySeparatorChar, StringSplitOptions.RemoveEmptyEntries);
-        for (int i = 0; i < parts.Length; i++)
-        {
-            current = Path.Combine(current, parts[i]);
-            FileSystemInfo info = Directory.Exists(current) ? new DirectoryInfo(current) : new FileInfo(current);
-            if (info.LinkTarget is not null && info.ResolveLinkTarget(returnFinalTarget: true) is { } target)
-                current = RealPath(target.FullName);   // a link's target may itself pass through links
-        }
-        return Path.TrimEndingDirectorySeparator(current);
-    }
-
-    private static string Safe(string s) => string.Concat(s.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
-
-    public static ComparisonResult Compare(string conditionsCsv, OutputTarget outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
-        IFrameFigures? figures = null, IEnumerable<string>? commandLine = null)
-    {
-        OutputFolder.Check(outDir);
-        ComparisonResult? result = null;
-        OutputFolder.Write(outDir, dir =>
-        {
-            var inputs = new List<string>();
-            var movies = LoadConditions(conditionsCsv, Path.Combine(dir, "movies"), options, open, figures, inputs);
-            result = ConditionComparison.Run(movies, options.BootstrapResamples, options.Seed);
-            WriteComparison(result, dir);
-            var prov = Provenance.Describe("compare", inputs, new JsonObject { ["bootstrap"] = options.BootstrapResamples, ["seed"] = options.Seed }, commandLine);
-            File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
-        });
-        return result!;
-    }
 
     static string F(double v) => double.IsFinite(v) ? v.ToString("G4", Ci) : "n/a";
     static string Csv(double v) => double.IsFinite(v) ? v.ToString("R", Ci) : "";
@@ -150,7 +22,8 @@ public static class ComparisonJobs
         _ => "ratio",
     };
 
-    public static void WriteComparison(ComparisonResult r, string dir)
+    /// <summary>Writes comparison.csv, differences.csv, the superplots, comparison.md and report.html into <paramref name="dir"/>.</summary>
+    public static void Write(ComparisonResult r, string dir)
     {
         var c = new StringBuilder("condition,measure,unit,movies,units,value,ci95_low,ci95_high\n");
         foreach (var m in r.Conditions)
@@ -240,40 +113,17 @@ public static class ComparisonJobs
     }
 
     /// <summary>The <c>plan</c> job: pilot analysis folders in, plan.csv, plan.png and plan.md out.</summary>
-    public static PlanResult Plan(IReadOnlyList<string> pilotFolders, double effect, string measure, OutputTarget outDir, IEnumerable<string>? commandLine = null)
+    /// <summary>Writes plan.csv, plan.png, plan.md and report.html into <paramref name="dir"/>.</summary>
+    public static void WritePlan(PlanResult plan, string dir)
     {
-        if (measure is not ("anisotropy" or "anisotropy_contour")) throw new ArgumentException($"--measure must be anisotropy or anisotropy_contour (got '{measure}')");
-        OutputFolder.Check(outDir);
-        var inputs = new List<string>();
-        var pilots = new List<MovieData>();
-        foreach (var p in pilotFolders)
-        {
-            // A pilot folder is one analysis folder, or a folder of analysis folders (one condition's movies).
-            var folders = File.Exists(Path.Combine(p, "summary.json")) ? [p]
-                : Directory.Exists(p) ? Directory.GetDirectories(p).Where(d => File.Exists(Path.Combine(d, "summary.json"))).OrderBy(d => d, StringComparer.Ordinal).ToList()
-                : throw new InputException(p, "no such folder");
-            if (folders.Count == 0) throw new InputException(p, "holds no shapenoise analysis folder (no summary.json)");
-            foreach (var f in folders)
-            {
-                pilots.Add(MovieData.Load(Path.GetFileName(p.TrimEnd('/')), Path.GetFileName(f), f));
-                inputs.Add(Path.Combine(f, "tracks.csv"));
-            }
-        }
-        var plan = ExperimentPlan.Run(pilots, effect, measure);
-        OutputFolder.Write(outDir, dir =>
-        {
-            var sb = new StringBuilder("movies_per_condition,cells_per_movie,power\n");
-            foreach (var d in plan.Designs) sb.Append(Ci, $"{d.MoviesPerCondition},{d.CellsPerMovie},{d.Power.ToString("R", Ci)}\n");
-            File.WriteAllText(Path.Combine(dir, "plan.csv"), sb.ToString());
-            PlanPlot(plan).SavePng(Path.Combine(dir, "plan.png"), 720, 480);
-            string narrative = PlanNarrative(plan);
-            File.WriteAllText(Path.Combine(dir, "plan.md"), narrative);
-            File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative,
-                [(Path.Combine(dir, "plan.png"), "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.")]));
-            var prov = Provenance.Describe("plan", inputs, new JsonObject { ["effect"] = effect, ["measure"] = measure }, commandLine);
-            File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
-        });
-        return plan;
+        var sb = new StringBuilder("movies_per_condition,cells_per_movie,power\n");
+        foreach (var d in plan.Designs) sb.Append(Ci, $"{d.MoviesPerCondition},{d.CellsPerMovie},{d.Power.ToString("R", Ci)}\n");
+        File.WriteAllText(Path.Combine(dir, "plan.csv"), sb.ToString());
+        PlanPlot(plan).SavePng(Path.Combine(dir, "plan.png"), 720, 480);
+        string narrative = PlanNarrative(plan);
+        File.WriteAllText(Path.Combine(dir, "plan.md"), narrative);
+        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative,
+            [(Path.Combine(dir, "plan.png"), "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.")]));
     }
 
     public static Plot PlanPlot(PlanResult p)

@@ -3,14 +3,9 @@ using System.Text.Json.Nodes;
 using ShapeNoise.Reading;
 using ShapeNoise.Reporting;
 
-namespace ShapeNoise.Pipeline;
+using ShapeNoise.Pipeline;
 
-/// <summary>Extra figures drawn on the movie's own frames (implemented by the imaging layer).</summary>
-public interface IFrameFigures
-{
-    /// <summary>Writes figures into <paramref name="dir"/>; <paramref name="reopen"/> opens the movie again to read frames.</summary>
-    void Write(AnalysisResult result, Func<ILabelMovie> reopen, string dir);
-}
+namespace ShapeNoise.Cli.Jobs;
 
 /// <summary>The whole <c>analyze</c> job: open the movie, analyse it, write the output folder with provenance.</summary>
 public static class AnalyzeJob
