@@ -1,3 +1,5 @@
+using ShapeNoise.Fluctuations;
+using ShapeNoise.Tracking;
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using ShapeNoise.Pipeline;

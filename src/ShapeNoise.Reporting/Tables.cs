@@ -1,3 +1,4 @@
+using ShapeNoise.Tracking;
 using ShapeNoise.Fluctuations;
 using System.Globalization;
 using CsvHelper;

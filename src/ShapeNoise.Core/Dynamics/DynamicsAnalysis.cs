@@ -1,3 +1,5 @@
+using ShapeNoise.Fluctuations;
+using ShapeNoise.Tracking;
 using ShapeNoise.Pipeline;
 using ShapeNoise.Statistics;
 

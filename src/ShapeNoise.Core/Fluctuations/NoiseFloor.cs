@@ -1,3 +1,4 @@
+using ShapeNoise.Tracking;
 using ShapeNoise.Pipeline;
 
 namespace ShapeNoise.Fluctuations;

@@ -1,3 +1,4 @@
+using ShapeNoise.Fluctuations;
 using ShapeNoise.Pipeline;
 using ShapeNoise.Statistics;
 using ShapeNoise.Tracking;
