@@ -18,10 +18,11 @@ public static class AnalyzeJob
     /// <param name="commandLine">The command line, for run.json.</param>
     /// <param name="frameFigures">Optional figures drawn on the movie's frames.</param>
     /// <param name="extraInputs">Further input files for run.json (e.g. the raw movie a label movie was segmented from).</param>
-    /// <param name="postProcess">Optional step between analysis and writing (e.g. optical-flow velocities for the defect stage).</param>
+    /// <param name="velocities">Cell velocities of the defect stage, chosen before the run (e.g. optical flow of the raw
+    /// movie); null = tracked centroids.</param>
     public static AnalysisResult Run(string input, OutputTarget outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
         IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null,
-        IEnumerable<string>? extraInputs = null, Func<AnalysisResult, AnalysisResult>? postProcess = null)
+        IEnumerable<string>? extraInputs = null, ShapeNoise.Nematic.IVelocitySource? velocities = null)
     {
         options.Validated();
         OutputFolder.Check(outDir);
@@ -34,7 +35,7 @@ public static class AnalyzeJob
         {
             var table = OutlineTable.Read(input, options.PixelSizeUm, options.FrameIntervalMin);
             result = MovieAnalyzer.RunFrames(table.Info with { PixelSizeUm = null, FrameIntervalMin = null }, table.Linked(options, options.IdsAreTracks, options.MaxDisplacementPx),
-                options, progress, floor, new PhaseTimes());
+                options, progress, floor, new PhaseTimes(), velocities);
             if (table.Warnings.Count > 0) result = result with { Warnings = [.. result.Warnings, .. table.Warnings] };
             files = [input];
             frameFigures = null;   // no image to draw on
@@ -42,12 +43,11 @@ public static class AnalyzeJob
         else
         {
             using var movie = open(input);
-            result = MovieAnalyzer.Run(movie, options, progress, floor);
+            result = MovieAnalyzer.Run(movie, options, progress, floor, velocities: velocities);
             files = new List<string>(movie.Files);
         }
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
         if (extraInputs is not null) files.InsertRange(0, extraInputs);
-        if (postProcess is not null) result = postProcess(result);
         var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
         prov["movie"] = Provenance.Movie(result.Movie, result.Units.PixelSizeUm, result.Units.PixelSizeSource, result.Units.FrameIntervalMin, result.Units.FrameIntervalSource);

@@ -4,7 +4,6 @@ using System.Text.Json;
 using System.Text.Json.Nodes;
 using OpenCvSharp;
 using ShapeNoise.Imaging.Reading;
-using ShapeNoise.Imaging.Writing;
 using ShapeNoise.Reading;
 using ShapeNoise.Reporting;
 using ShapeNoise.Segmentation;
@@ -90,7 +89,7 @@ public static class RawAnalyzeJob
             SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection);
             var figures = new CopyThenOverlays(temp);
             return AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
-                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? r => ShapeNoise.Imaging.Flow.OpticalFlowVelocity.Apply(raw, r, selection) : null);
+                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? new ShapeNoise.Imaging.Flow.OpticalFlowVelocity(raw, selection) : null);
         }
         finally { Scratch.Delete(temp); }
     }

@@ -1,6 +1,5 @@
 using ShapeNoise.Fluctuations;
 using ShapeNoise.Tracking;
-using ShapeNoise.Pipeline;
 using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Nematic;
@@ -14,6 +13,7 @@ namespace ShapeNoise.Nematic;
 /// <param name="HeadwardSpeed">Per defect track: its headward speed (px/frame).</param>
 public sealed record HypothesisResult(double SpearmanRho, double PValue, Estimate Rho95, int DefectTracks, double[] LocalAnisotropy, double[] HeadwardSpeed)
 {
+    /// <summary>No +1/2 defect track to test.</summary>
     public static HypothesisResult Empty => new(double.NaN, double.NaN, Estimate.NaN, 0, [], []);
 }
 
@@ -26,7 +26,9 @@ public sealed record HypothesisResult(double SpearmanRho, double PValue, Estimat
 /// stresses into headward motion; docs/measures.md#shape-noise-hypothesis. Statistics: <see cref="RankCorrelation"/>, <see cref="Bootstrap"/>.</remarks>
 public static class ShapeNoiseHypothesis
 {
-    public static HypothesisResult Test(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks, DefectResult defects, AnalysisOptions o)
+    /// <summary>Runs the test on the defect stage's result <paramref name="defects"/> for the analysed <paramref name="cells"/>
+    /// and <paramref name="tracks"/>; seeds and resamples from <paramref name="o"/>. Uses no cell velocities.</summary>
+    public static HypothesisResult Test(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks, DefectResult defects, DefectOptions o)
     {
         var plus = defects.Tracks.Where(t => t.Charge == 0.5 && double.IsFinite(t.HeadwardSpeed)).ToList();
         if (plus.Count == 0) return HypothesisResult.Empty;

@@ -52,6 +52,11 @@ public sealed record AnalysisOptions
     /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
     public string? FloorFrom { get; init; }
 
+    /// <summary>The defect stage's options: --coarse and --grid parsed once (<see cref="Nematic.LengthSpec.Parse"/>), with
+    /// the bootstrap resamples and seed. A method, not a property, so run.json keeps the option strings only.</summary>
+    public Nematic.DefectOptions ToDefectOptions() =>
+        new(Nematic.LengthSpec.Parse(CoarseWidth, "--coarse"), Nematic.LengthSpec.Parse(GridSpacing, "--grid"), BootstrapResamples, Seed);
+
     /// <summary>Throws <see cref="ArgumentException"/> naming the option when a value is out of range.</summary>
     public AnalysisOptions Validated()
     {
@@ -66,9 +71,8 @@ public sealed record AnalysisOptions
         if (MaxLagFrames < 2) throw new ArgumentException($"--max-lag must be at least 2 frames (got {MaxLagFrames})");
         if (TimeUnit is not ("tau_q" or "min") && !(double.TryParse(TimeUnit, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var tu) && tu > 0 && double.IsFinite(tu)))
             throw new ArgumentException($"--time-unit must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
-        foreach (var (name, v) in new[] { ("--coarse", CoarseWidth), ("--grid", GridSpacing) })
-            _ = Nematic.DefectAnalysis.ParseLengthPx(v, 1, 1, name);
         if (BootstrapResamples < 0) throw new ArgumentException($"--bootstrap must be >= 0 (got {BootstrapResamples})");
+        _ = ToDefectOptions();
         return this;
     }
 }

@@ -22,11 +22,11 @@ public static class MovieAnalyzer
 
     /// <summary>Runs outlines, shape, tracking and fluctuations over <paramref name="movie"/>, one frame at a time.</summary>
     public static AnalysisResult Run(ILabelMovie movie, AnalysisOptions options, IProgress<Progress>? progress = null,
-        NoiseFloorReference? floorReference = null, PhaseTimes? times = null)
+        NoiseFloorReference? floorReference = null, PhaseTimes? times = null, Nematic.IVelocitySource? velocities = null)
     {
         times ??= new PhaseTimes();
         options.Validated();
-        return RunFrames(movie.Info, LabelFrames(movie, options, times), options, progress, floorReference, times);
+        return RunFrames(movie.Info, LabelFrames(movie, options, times), options, progress, floorReference, times, velocities);
     }
 
     /// <summary>Label frames to outlines (largest 4-connected component per label) linked by mask overlap.</summary>
@@ -57,7 +57,7 @@ public static class MovieAnalyzer
 
     /// <summary>Shape, tracks and fluctuations from a stream of linked outlines (label movies and outline tables alike).</summary>
     public static AnalysisResult RunFrames(MovieInfo info, IEnumerable<FrameOutlines> frameOutlines, AnalysisOptions options, IProgress<Progress>? progress,
-        NoiseFloorReference? floorReference, PhaseTimes times)
+        NoiseFloorReference? floorReference, PhaseTimes times, Nematic.IVelocitySource? velocities = null)
     {
         if (info.FrameCount < 2)
             throw new InputException(info.Path, $"has {info.FrameCount} frame(s); fluctuations need a movie of at least 2 frames (and tracks of --min-track {options.MinTrackFrames})");
@@ -192,10 +192,10 @@ public static class MovieAnalyzer
         if (coverage < 0.7)
             warnings.Add($"cells cover {100 * coverage:F0}% of the field: the nematic field and its defects assume a confluent tissue, so read the defect results with care");
         progress?.Report(new Progress(2, 3, "nematic field and defects"));
-        var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options));
+        var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, options.ToDefectOptions(), velocities));
         if (defects.Tracks.Count > 0 && defects.PlusTracksUsed == 0)
             warnings.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
-        var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, options));
+        var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, options.ToDefectOptions()));
         if (defects.PlusTracksUsed > 0 && hypothesis.DefectTracks < 3)
             warnings.Add($"only {hypothesis.DefectTracks} +1/2 defect track(s) with a local anisotropy: the within-movie hypothesis test needs 3 or more; compare movies instead");
         progress?.Report(new Progress(3, 3, "done"));

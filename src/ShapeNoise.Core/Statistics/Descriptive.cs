@@ -69,4 +69,16 @@ public static class Descriptive
         int lo = (int)Math.Floor(h), hi = Math.Min(lo + 1, sorted.Length - 1);
         return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
     }
+
+    /// <summary>
+    /// Multiplicity-weighted mean sum_i k_i x_i / sum_i k_i (the mean of a bootstrap resample given each unit's
+    /// multiplicity k_i); NaN when the counts sum to 0. Sums are taken in index order.
+    /// </summary>
+    public static double WeightedMean(ReadOnlySpan<double> x, ReadOnlySpan<int> counts)
+    {
+        if (x.Length != counts.Length) throw new ArgumentException($"{nameof(x)} has {x.Length} values, {nameof(counts)} {counts.Length}");
+        double s = 0, n = 0;
+        for (int i = 0; i < x.Length; i++) { s += counts[i] * x[i]; n += counts[i]; }
+        return n > 0 ? s / n : double.NaN;
+    }
 }

@@ -1,3 +1,5 @@
+using ShapeNoise.Shape;
+
 namespace ShapeNoise.Tracking;
 
 /// <summary>Optimal one-to-one assignment (minimum total cost) between two sets, with a gate on the cost of a pair.</summary>
@@ -65,5 +67,22 @@ public static class Assignment
             if (i < rows && jj < cols && double.IsFinite(cost[i, jj]) && cost[i, jj] <= maxCost) result[i] = jj;
         }
         return result;
+    }
+
+    /// <summary>
+    /// Optimal one-to-one assignment of points <paramref name="a"/> to points <paramref name="b"/> by Euclidean distance
+    /// d = sqrt((ax - bx)^2 + (ay - by)^2), minimising the summed distance, with no pair farther apart than
+    /// <paramref name="gate"/>. Returns, for each point of <paramref name="a"/>, the index into <paramref name="b"/> or -1.
+    /// </summary>
+    public static int[] ByDistance(ReadOnlySpan<Point2> a, ReadOnlySpan<Point2> b, double gate)
+    {
+        var cost = new double[a.Length, b.Length];
+        for (int i = 0; i < a.Length; i++)
+            for (int j = 0; j < b.Length; j++)
+            {
+                double dx = a[i].X - b[j].X, dy = a[i].Y - b[j].Y;
+                cost[i, j] = Math.Sqrt(dx * dx + dy * dy);
+            }
+        return Solve(cost, gate);
     }
 }

@@ -2,16 +2,26 @@ using ShapeNoise.Fluctuations;
 using ShapeNoise.Tracking;
 using OpenCvSharp;
 using ShapeNoise.Imaging.Reading;
-using ShapeNoise.Pipeline;
+using ShapeNoise.Nematic;
 
 namespace ShapeNoise.Imaging.Flow;
 
 /// <summary>Cell velocities from dense optical flow of the raw movie (an alternative to tracked centroids).</summary>
 /// <remarks>Farneback G. (2003), "Two-frame motion estimation based on polynomial expansion", Proc. 13th Scandinavian
 /// Conference on Image Analysis, LNCS 2749:363-370 (OpenCV's calcOpticalFlowFarneback). The velocity of a cell in frame t
-/// is the mean of the flows t-1 -> t and t -> t+1 at its centroid (one-sided at the ends), px/frame.</remarks>
-public static class OpticalFlowVelocity
+/// is the mean of the flows t-1 -> t and t -> t+1 at its centroid (one-sided at the ends), px/frame. As an
+/// <see cref="IVelocitySource"/> it is chosen before the run; binding it reads the raw movie once.</remarks>
+/// <param name="rawPath">The raw (intensity) movie the label movie was segmented from.</param>
+/// <param name="selection">Plane and scale selection used when opening the raw movie.</param>
+public sealed class OpticalFlowVelocity(string rawPath, MovieSelection? selection = null) : IVelocitySource
 {
+    /// <summary>Reads the raw movie once and returns each analysed cell's flow velocity (NaN for a cell not in it).</summary>
+    public Func<CellRecord, (double Vx, double Vy)> Bind(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks)
+    {
+        var v = ForCells(rawPath, cells, selection);
+        return c => v.TryGetValue((c.Frame, c.Label), out var x) ? x : (double.NaN, double.NaN);
+    }
+
     /// <summary>Dense flow a -> b (px) of two intensity frames; returns a 2-channel float Mat.</summary>
     public static Mat Flow(int[] a, int[] b, int w, int h)
     {
@@ -43,9 +53,9 @@ public static class OpticalFlowVelocity
     }
 
     /// <summary>Velocity of every analysed cell, keyed by (frame, label), from the flow of the raw movie.</summary>
-    public static Dictionary<(int Frame, int Label), (double Vx, double Vy)> ForCells(string rawPath, AnalysisResult r, MovieSelection? selection = null)
+    public static Dictionary<(int Frame, int Label), (double Vx, double Vy)> ForCells(string rawPath, IReadOnlyList<CellRecord> cells, MovieSelection? selection = null)
     {
-        var byFrame = FrameRuns.Of(r.Cells).ToDictionary(x => x.Frame, x => (x.Start, x.Count));
+        var byFrame = FrameRuns.Of(cells).ToDictionary(x => x.Frame, x => (x.Start, x.Count));
         var result = new Dictionary<(int, int), (double, double)>();
         using var movie = LabelMovies.Open(rawPath, selection ?? MovieSelection.None);
         int[]? prev = null; Mat? back = null;   // back = flow (t-1 -> t) while visiting frame t
@@ -61,7 +71,7 @@ public static class OpticalFlowVelocity
             if (!byFrame.TryGetValue(frame, out var run)) return;
             for (int i = run.Start; i < run.Start + run.Count; i++)
             {
-                var c = r.Cells[i];
+                var c = cells[i];
                 double x = c.Shape.CentroidX, y = c.Shape.CentroidY;
                 (double, double)? a = before is null ? null : Sample(before, x, y), b = after is null ? null : Sample(after, x, y);
                 result[(c.Frame, c.Label)] = a is { } p && b is { } q ? (0.5 * (p.Item1 + q.Item1), 0.5 * (p.Item2 + q.Item2)) : (a ?? b ?? (double.NaN, double.NaN));
@@ -81,15 +91,5 @@ public static class OpticalFlowVelocity
         if (lastIndex >= 0) Assign(lastIndex, back, null);
         back?.Dispose();
         return result;
-    }
-
-    /// <summary>Re-runs the defect stage and the hypothesis test with optical-flow cell velocities.</summary>
-    public static AnalysisResult Apply(string rawPath, AnalysisResult r, MovieSelection? selection = null)
-    {
-        var v = ForCells(rawPath, r, selection);
-        var defects = Nematic.DefectAnalysis.Run(r.Movie.Width, r.Movie.Height, r.Cells, r.Tracks, r.MeanCellRadiusPx, r.Units.S, r.Options,
-            c => v.TryGetValue((c.Frame, c.Label), out var x) ? x : (double.NaN, double.NaN));
-        var hyp = Nematic.ShapeNoiseHypothesis.Test(r.Cells, r.Tracks, defects, r.Options);
-        return r with { Defects = defects, Hypothesis = hyp };
     }
 }

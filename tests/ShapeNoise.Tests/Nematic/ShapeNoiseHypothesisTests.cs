@@ -46,7 +46,7 @@ public class ShapeNoiseHypothesisTests
             new double[frames], new double[frames], new double[frames], far.Select(_ => 5000.0).ToArray(), far.Select(_ => 5000.0).ToArray(), null, 0, 0, true));
         cells.Sort((p, q) => p.Frame.CompareTo(q.Frame));
         var defects = new DefectResult(coarse, 5, obs, dtracks, 1, 0, Estimate.NaN, Estimate.NaN, 1, 5, 0, 0, new EnsembleFlow(0.5, 6, [], [], [], [], []));
-        var r = ShapeNoiseHypothesis.Test(cells, tracks, defects, new AnalysisOptions { BootstrapResamples = 200 });
+        var r = ShapeNoiseHypothesis.Test(cells, tracks, defects, new AnalysisOptions { BootstrapResamples = 200 }.ToDefectOptions());
         Assert.Equal(5, r.DefectTracks);
         for (int k = 0; k < a.Length; k++) Assert.Equal(a[k] * a[k], r.LocalAnisotropy[k], 9);
         Assert.Equal(1.0, r.SpearmanRho, 12);
