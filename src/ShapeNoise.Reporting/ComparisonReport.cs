@@ -61,7 +61,7 @@ public static class ComparisonReport
         Figures.Save(figures, dir);
         string narrative = Narrative(r);
         File.WriteAllText(Path.Combine(dir, "comparison.md"), narrative);
-        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise comparison", narrative, figures));
+        File.WriteAllText(Path.Combine(dir, AnalysisFolder.Report), HtmlReport.FromMarkdown("ShapeNoise comparison", narrative, figures));
     }
 
     /// <summary>Every track a small point coloured by replicate, each replicate's value a large marker, the condition value and 95% interval a bar.</summary>
@@ -77,7 +77,7 @@ public static class ComparisonReport
             for (int mi = 0; mi < movies.Count; mi++)
             {
                 var color = palette.GetColor(mi);
-                var ys = movies[mi].Tracks.Select(t => measure == "anisotropy" ? t.VarL / t.VarW : t.VarAlong / t.VarAcross).Where(v => v > 0 && double.IsFinite(v)).Select(Math.Log10).ToArray();
+                var ys = movies[mi].Tracks.Select(t => measure == Measures.Anisotropy.Name ? t.VarL / t.VarW : t.VarAlong / t.VarAcross).Where(v => v > 0 && double.IsFinite(v)).Select(Math.Log10).ToArray();
                 var xs = ys.Select(_ => ci + (rng.NextDouble() - 0.5) * 0.5).ToArray();
                 var pts = plt.Add.ScatterPoints(xs, ys); pts.Color = color.WithAlpha(0.35); pts.MarkerSize = 3;
                 double movieValue = ConditionComparison.Statistic(measure, [movies[mi]], [1], null);
@@ -116,7 +116,7 @@ public static class ComparisonReport
         foreach (var x in r.Differences)
         {
             var a = r.Conditions.First(c => c.Condition == x.A && c.Measure == x.Measure); var b = r.Conditions.First(c => c.Condition == x.B && c.Measure == x.Measure);
-            string unit = UnitOf(x.Measure, r) == "ratio" ? "" : $" {UnitOf(x.Measure, r)}";
+            string unit = Measures.Get(x.Measure).Kind == UnitKind.Ratio ? "" : $" {UnitOf(x.Measure, r)}";
             sb.Append(Ci, $"- **{x.Measure}**: {x.A} {F(a.Value.Value)}{unit} (95% CI {F(a.Value.Low)} to {F(a.Value.High)}) vs {x.B} {F(b.Value.Value)}{unit} ({F(b.Value.Low)} to {F(b.Value.High)}). ");
             if (!double.IsFinite(x.Difference.Value)) { sb.Append("Not defined in at least one condition.\n"); continue; }
             sb.Append(Ci, $"Difference {x.A} − {x.B} = {F(x.Difference.Value)}{unit} (95% CI {F(x.Difference.Low)} to {F(x.Difference.High)})");
@@ -143,7 +143,7 @@ public static class ComparisonReport
         Figures.Save([figure], dir);
         string narrative = PlanNarrative(plan);
         File.WriteAllText(Path.Combine(dir, "plan.md"), narrative);
-        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative, [figure]));
+        File.WriteAllText(Path.Combine(dir, AnalysisFolder.Report), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative, [figure]));
     }
 
     public static Plot PlanPlot(PlanResult p)
