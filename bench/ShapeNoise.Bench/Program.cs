@@ -40,7 +40,7 @@ using (var m = LabelMovies.Open(movieShort)) result = MovieAnalyzer.Run(m, new A
 foreach (var (phase, sec) in times.Phases) rows.Add((phase, sec, phase == "decode" ? "inside the analysis" : ""));
 string tmpOut = Path.Combine(Path.GetTempPath(), $"shapenoise-bench-{Environment.ProcessId}");
 var sw = Stopwatch.StartNew();
-ResultWriter.Write(result, tmpOut, Provenance.Describe("analyze", [movieShort], new JsonObject()), dir => new ShapeNoise.Imaging.Drawing.DefectOverlays().Write(result, () => LabelMovies.Open(movieShort), dir));
+ResultWriter.Write(result, tmpOut, Provenance.Describe("analyze", [movieShort], new JsonObject()), () => new ShapeNoise.Imaging.Drawing.DefectOverlays().Draw(result, () => LabelMovies.Open(movieShort)));
 rows.Add(("report", sw.Elapsed.TotalSeconds, "tables, JSON, figures, overlays"));
 Directory.Delete(tmpOut, true);
 double analysisTotal = times.Phases.Sum(p => p.Seconds);

@@ -117,31 +117,30 @@ public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
     private static void PrintSummary(AnalysisResult r, string outDir)
     {
         foreach (var w in r.Warnings) AnsiConsole.MarkupLineInterpolated($"[yellow]warning:[/] {w}");
-        var u = r.Units; double s2 = u.S * u.S;
+        var u = r.Units; var us = ShapeNoise.Reporting.UnitScale.Of(u);
         if (r.Movie.Plane is { } plane) AnsiConsole.MarkupLineInterpolated($"plane: {plane}");
         AnsiConsole.MarkupLineInterpolated($"pixel size: {(u.PixelSizeUm is { } ps ? $"{ps:G6} um/px" : "unknown (px)")} ({u.PixelSizeSource}); frame interval: {(u.FrameIntervalMin is { } fi ? $"{fi:G6} min" : "unknown (frames)")} ({u.FrameIntervalSource})");
         var t = new Table().AddColumn("measure").AddColumn("value").AddColumn("95% CI");
-        void Row(string name, Estimate e, string unit = "") =>
-            t.AddRow(name, $"{e.Value:G4}{unit}", double.IsFinite(e.Low) ? $"{e.Low:G4} - {e.High:G4}" : "-");
-        Row("anisotropy (var L / var W)", r.Pooled.Anisotropy);
-        Row("anisotropy_contour (along / across)", r.Pooled.AnisotropyContour);
-        Row($"var_L ({u.L2})", r.Pooled.VarL.Scale(s2));
-        Row($"var_W ({u.L2})", r.Pooled.VarW.Scale(s2));
-        Row($"var_along ({u.L2}, floor-corrected)", r.Pooled.VarAlong.Scale(s2));
-        Row($"var_across ({u.L2}, floor-corrected)", r.Pooled.VarAcross.Scale(s2));
-        var d = r.Dynamics;
-        Row($"tau_q ({u.Time}, bias-corrected)", d.TauQFrames.Scale(u.Dt));
-        Row($"tau_theta ({u.Time})", d.TauThetaFrames.Scale(u.Dt));
-        var df = r.Defects; double sv = u.S / u.Dt;
+        void Row(Measure m, Estimate e) =>
+            t.AddRow(m.Label(us).EscapeMarkup(), $"{e.Value:G4}", double.IsFinite(e.Low) ? $"{e.Low:G4} - {e.High:G4}" : "-");
+        Row(Measures.Anisotropy, r.Pooled.Anisotropy);
+        Row(Measures.AnisotropyContour, r.Pooled.AnisotropyContour);
+        Row(Measures.VarL, us.Area(r.Pooled.VarL));
+        Row(Measures.VarW, us.Area(r.Pooled.VarW));
+        Row(Measures.VarAlong, us.Area(r.Pooled.VarAlong));
+        Row(Measures.VarAcross, us.Area(r.Pooled.VarAcross));
+        Row(Measures.TauQ, us.Time(r.Dynamics.TauQFrames));
+        Row(Measures.TauTheta, us.Time(r.Dynamics.TauThetaFrames));
+        var df = r.Defects;
         t.AddRow("+1/2 / -1/2 defects per frame", $"{df.PlusPerFrame:G3} / {df.MinusPerFrame:G3}", "");
-        Row($"defect headward speed ({u.Length}/{u.Time}, > 0 headward)", df.HeadwardSpeed.Scale(sv));
-        Row($"flow headward speed ({u.Length}/{u.Time})", df.FlowHeadwardSpeed.Scale(sv));
+        Row(Measures.DefectHeadwardSpeed, us.Speed(df.HeadwardSpeed));
+        Row(Measures.FlowHeadwardSpeed, us.Speed(df.FlowHeadwardSpeed));
         t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");
         t.AddRow("frames", $"{r.Counts.Frames}", "");
         AnsiConsole.Write(t);
-        AnsiConsole.MarkupLineInterpolated($"results in [bold]{outDir}[/] (units: {u.Length}, {u.Time})");
+        AnsiConsole.MarkupLineInterpolated($"results in [bold]{outDir}[/] (units: {us.LengthName}, {us.TimeName})");
         foreach (var h in HtmlReport.Headlines(r).Take(3)) AnsiConsole.WriteLine(h);
-        AnsiConsole.MarkupLineInterpolated($"report: [bold]{Path.Combine(outDir, "report.html")}[/]");
+        AnsiConsole.MarkupLineInterpolated($"report: [bold]{Path.Combine(outDir, AnalysisFolder.Report)}[/]");
     }
 
     /// <summary>Reports progress on the calling thread (Progress&lt;T&gt; would post to the thread pool).</summary>

@@ -43,8 +43,9 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
         }
         if (s.Quiet) return 0;
         var t = new Table().AddColumn("measure").AddColumn("a - b").AddColumn("difference").AddColumn("95% CI").AddColumn("p (movies)");
+        var units = ShapeNoise.Reporting.UnitScale.FromNames(r.LengthUnit, r.TimeUnit);
         foreach (var d in r.Differences)
-            t.AddRow(d.Measure, $"{d.A} - {d.B}", $"{d.Difference.Value:G4}", double.IsFinite(d.Difference.Low) ? $"{d.Difference.Low:G4} - {d.Difference.High:G4}" : "-", double.IsFinite(d.PValue) ? $"{d.PValue:G3}" : "-");
+            t.AddRow((units is null ? d.Measure : ShapeNoise.Reporting.Measures.Get(d.Measure).Label(units)).EscapeMarkup(), $"{d.A} - {d.B}".EscapeMarkup(), $"{d.Difference.Value:G4}", double.IsFinite(d.Difference.Low) ? $"{d.Difference.Low:G4} - {d.Difference.High:G4}" : "-", double.IsFinite(d.PValue) ? $"{d.PValue:G3}" : "-");
         AnsiConsole.Write(t);
         foreach (var o in r.OrderStatements) AnsiConsole.WriteLine(o);
         AnsiConsole.MarkupLineInterpolated($"results in [bold]{s.Out}[/] (comparison.md, comparison.csv, differences.csv, superplots)");

@@ -7,13 +7,143 @@ using ShapeNoise.Reading;
 
 namespace ShapeNoise.Reporting;
 
-/// <summary>Reads an analysis folder back (for compare, plan and notebooks): summary.json, tracks.csv, defects.csv.</summary>
+/// <summary>The column names of an analysis folder's tables that carry a unit suffix, computed in one place from the run's
+/// <see cref="UnitScale"/> (docs/measures.md#output-contract); the writers' class maps and the readers both use them.</summary>
+public sealed class AnalysisColumns(UnitScale u)
+{
+    /// <summary>time_min or time_frames.</summary>
+    public string Time => $"time_{u.TimeSuffix}";
+    /// <summary>duration_min or duration_frames.</summary>
+    public string Duration => $"duration_{u.TimeSuffix}";
+    /// <summary>x_um or x_px.</summary>
+    public string X => $"x_{u.LengthName}";
+    /// <summary>y_um or y_px.</summary>
+    public string Y => $"y_{u.LengthName}";
+    /// <summary>area_um2 or area_px2.</summary>
+    public string Area => $"area_{u.AreaSuffix}";
+    /// <summary>perimeter_um or perimeter_px.</summary>
+    public string Perimeter => $"perimeter_{u.LengthName}";
+    /// <summary>length_um or length_px.</summary>
+    public string Length => $"length_{u.LengthName}";
+    /// <summary>width_um or width_px.</summary>
+    public string Width => $"width_{u.LengthName}";
+    /// <summary>mean_radius_um or mean_radius_px.</summary>
+    public string MeanRadius => $"mean_radius_{u.LengthName}";
+    /// <summary>mode2_amplitude_um or mode2_amplitude_px.</summary>
+    public string Mode2Amplitude => $"mode2_amplitude_{u.LengthName}";
+    /// <summary>mean_area_um2 or mean_area_px2.</summary>
+    public string MeanArea => $"mean_area_{u.AreaSuffix}";
+    /// <summary>mean_length_um or mean_length_px.</summary>
+    public string MeanLength => $"mean_length_{u.LengthName}";
+    /// <summary>mean_width_um or mean_width_px.</summary>
+    public string MeanWidth => $"mean_width_{u.LengthName}";
+    /// <summary>var_L_um2 or var_L_px2.</summary>
+    public string VarL => $"var_L_{u.AreaSuffix}";
+    /// <summary>var_W_um2 or var_W_px2.</summary>
+    public string VarW => $"var_W_{u.AreaSuffix}";
+    /// <summary>var_along_raw_um2 or var_along_raw_px2.</summary>
+    public string VarAlongRaw => $"var_along_raw_{u.AreaSuffix}";
+    /// <summary>var_across_raw_um2 or var_across_raw_px2.</summary>
+    public string VarAcrossRaw => $"var_across_raw_{u.AreaSuffix}";
+    /// <summary>floor_along_um2 or floor_along_px2.</summary>
+    public string FloorAlong => $"floor_along_{u.AreaSuffix}";
+    /// <summary>floor_across_um2 or floor_across_px2.</summary>
+    public string FloorAcross => $"floor_across_{u.AreaSuffix}";
+    /// <summary>var_along_um2 or var_along_px2 (floor-corrected).</summary>
+    public string VarAlong => $"var_along_{u.AreaSuffix}";
+    /// <summary>var_across_um2 or var_across_px2 (floor-corrected).</summary>
+    public string VarAcross => $"var_across_{u.AreaSuffix}";
+    /// <summary>power_raw_um2 or power_raw_px2.</summary>
+    public string PowerRaw => $"power_raw_{u.AreaSuffix}";
+    /// <summary>floor_um2 or floor_px2.</summary>
+    public string Floor => $"floor_{u.AreaSuffix}";
+    /// <summary>power_corrected_um2 or power_corrected_px2.</summary>
+    public string PowerCorrected => $"power_corrected_{u.AreaSuffix}";
+    /// <summary>variance_raw_um2 or variance_raw_px2.</summary>
+    public string VarianceRaw => $"variance_raw_{u.AreaSuffix}";
+    /// <summary>variance_corrected_um2 or variance_corrected_px2.</summary>
+    public string VarianceCorrected => $"variance_corrected_{u.AreaSuffix}";
+    /// <summary>lag_min; null when the frame interval is unknown (lag_frames alone then).</summary>
+    public string? Lag => u.FrameIntervalKnown ? "lag_min" : null;
+    /// <summary>vx_um_per_min … vx_px_per_frame.</summary>
+    public string Vx => $"vx_{u.SpeedSuffix}";
+    /// <summary>vy_um_per_min … vy_px_per_frame.</summary>
+    public string Vy => $"vy_{u.SpeedSuffix}";
+    /// <summary>headward_speed_um_per_min … headward_speed_px_per_frame.</summary>
+    public string HeadwardSpeed => $"headward_speed_{u.SpeedSuffix}";
+    /// <summary>flow_vx_um_per_min … flow_vx_px_per_frame.</summary>
+    public string FlowVx => $"flow_vx_{u.SpeedSuffix}";
+    /// <summary>flow_vy_um_per_min … flow_vy_px_per_frame.</summary>
+    public string FlowVy => $"flow_vy_{u.SpeedSuffix}";
+    /// <summary>flow_headward_speed_um_per_min … flow_headward_speed_px_per_frame.</summary>
+    public string FlowHeadwardSpeed => $"flow_headward_speed_{u.SpeedSuffix}";
+    /// <summary>v_head_um_per_min … v_head_px_per_frame.</summary>
+    public string VHead => $"v_head_{u.SpeedSuffix}";
+    /// <summary>v_side_um_per_min … v_side_px_per_frame.</summary>
+    public string VSide => $"v_side_{u.SpeedSuffix}";
+    /// <summary>x_um and y_um of defects.csv when the pixel size is known (x_px, y_px are always written); null otherwise.</summary>
+    public (string X, string Y)? DefectUm => u.PixelSizeKnown ? ("x_um", "y_um") : null;
+    /// <summary>tau_min or tau_frames (sim-params and summary.json "dynamics").</summary>
+    public string Tau => $"tau_{u.TimeSuffix}";
+    /// <summary>variance_um2 or variance_px2.</summary>
+    public string Variance => $"variance_{u.AreaSuffix}";
+    /// <summary>D_um2_per_min … D_px2_per_frame.</summary>
+    public string Diffusion => $"D_{u.DiffusionSuffix}";
+    /// <summary>measurement_noise_variance_um2 or measurement_noise_variance_px2.</summary>
+    public string NoiseVariance => $"measurement_noise_variance_{u.AreaSuffix}";
+}
+
+/// <summary>
+/// An analysis folder's layout: every file name it holds (written by <see cref="ResultWriter"/>) and the column names
+/// (<see cref="Columns"/>), for writing and for reading back (compare, plan, notebooks) through <see cref="Load"/>.
+/// </summary>
 public static class AnalysisFolder
 {
+    /// <summary>summary.json: headline numbers (docs/measures.md#output-contract).</summary>
+    public const string Summary = "summary.json";
+    /// <summary>cells.csv: one row per analysed outline.</summary>
+    public const string Cells = "cells.csv";
+    /// <summary>tracks.csv: one row per track.</summary>
+    public const string Tracks = "tracks.csv";
+    /// <summary>spectrum.csv: pooled mode power.</summary>
+    public const string Spectrum = "spectrum.csv";
+    /// <summary>profile.csv: contour variance against the normal's angle.</summary>
+    public const string Profile = "profile.csv";
+    /// <summary>autocorrelation.csv: pooled correlations per series and lag.</summary>
+    public const string Autocorrelation = "autocorrelation.csv";
+    /// <summary>defects.csv: one row per defect per frame.</summary>
+    public const string Defects = "defects.csv";
+    /// <summary>defect-flow.csv: mean flow and director around +1/2 defects.</summary>
+    public const string DefectFlow = "defect-flow.csv";
+    /// <summary>sim-params.json (--sim-format json).</summary>
+    public const string SimParamsJson = "sim-params.json";
+    /// <summary>sim-params.toml (--sim-format toml).</summary>
+    public const string SimParamsToml = "sim-params.toml";
+    /// <summary>floor.json: the fixed-cell floor export read by --floor-from.</summary>
+    public const string Floor = "floor.json";
+    /// <summary>run.json: provenance and the list of files written.</summary>
+    public const string Run = "run.json";
+    /// <summary>report.html: the self-contained report.</summary>
+    public const string Report = "report.html";
+    /// <summary>Figure files.</summary>
+    public const string SpectrumFigure = "spectrum.png", AnisotropyFigure = "anisotropy.png", ProfileFigure = "profile.png",
+        AutocorrelationFigure = "autocorrelation.png", HeadwardFigure = "headward.png", DefectFlowFigure = "defect-flow.png";
+    /// <summary>The file name of the defect overlay drawn on frame <paramref name="frame"/> (defects-frame-NNN.png).</summary>
+    public static string DefectFrameFigure(int frame) => $"defects-frame-{frame:D3}.png";
+
+    /// <summary>The unit-suffixed column names of a run with scale <paramref name="u"/>.</summary>
+    public static AnalysisColumns Columns(UnitScale u) => new(u);
+
+    /// <summary>Whether <paramref name="folder"/> holds a summary.json (is an analysis folder, as far as a listing can tell).</summary>
+    public static bool IsAnalysisFolder(string folder) => File.Exists(Path.Combine(folder, Summary));
+
+    /// <summary>The files of an analysis folder that <see cref="Load"/> reads (for run.json inputs).</summary>
+    public static IReadOnlyList<string> LoadedFiles(string folder) => [Path.Combine(folder, Summary), Path.Combine(folder, Tracks), Path.Combine(folder, Defects)];
+
     /// <summary>Loads summary.json, tracks.csv and defects.csv of an analysis folder; a one-line <see cref="InputException"/> on anything missing or malformed.</summary>
     public static MovieData Load(string condition, string replicate, string folder)
     {
-        string summaryPath = Path.Combine(folder, "summary.json"), tracksPath = Path.Combine(folder, "tracks.csv"), defectsPath = Path.Combine(folder, "defects.csv");
+        string summaryPath = Path.Combine(folder, Summary), tracksPath = Path.Combine(folder, Tracks), defectsPath = Path.Combine(folder, Defects);
         foreach (var f in new[] { summaryPath, tracksPath, defectsPath })
             if (!File.Exists(f)) throw new InputException(folder, $"is not a shapenoise analysis folder ({Path.GetFileName(f)} missing)");
         JsonNode summary;
@@ -21,19 +151,30 @@ public static class AnalysisFolder
         catch (System.Text.Json.JsonException e) { throw new InputException(summaryPath, $"is not valid JSON ({e.Message})"); }
         string lu = summary["units"]?["length"]?.GetValue<string>() ?? throw new InputException(summaryPath, "has no units.length");
         string tu = summary["units"]?["time"]?.GetValue<string>() ?? throw new InputException(summaryPath, "has no units.time");
-        string l2 = lu == "um" ? "um2" : "px2";
-        double tau = summary["tau_q"]?["value"]?.GetValue<double?>() ?? double.NaN;
+        var scale = UnitScale.FromNames(lu, tu) ?? throw new InputException(summaryPath, $"has units '{lu}'/'{tu}' (expected um or px, min or frame)");
+        var col = Columns(scale);
+        double tau = summary[Measures.TauQ.Name]?["value"]?.GetValue<double?>() ?? double.NaN;
+        var (headward, flow) = ReadPlusHalfSpeeds(defectsPath, col);
+        return new MovieData(condition, replicate, folder, scale.LengthName, scale.TimeName, ReadTracks(tracksPath, col), tau, headward, flow);
+    }
 
+    private static TrackUnit[] ReadTracks(string tracksPath, AnalysisColumns col)
+    {
         var tracks = new List<TrackUnit>();
-        ReadRows(tracksPath, ["frames", "in_statistics", $"var_L_{l2}", $"var_W_{l2}", $"var_along_{l2}", $"var_across_{l2}"], row =>
+        ReadRows(tracksPath, ["frames", "in_statistics", col.VarL, col.VarW, col.VarAlong, col.VarAcross], row =>
         {
             if (!bool.Parse(row[1])) return;
-            tracks.Add(new TrackUnit(Num(row[0], tracksPath, "frames"), Num(row[2], tracksPath, "var_L"), Num(row[3], tracksPath, "var_W"),
+            tracks.Add(new TrackUnit(Num(row[0], tracksPath, "frames"), Num(row[2], tracksPath, col.VarL), Num(row[3], tracksPath, col.VarW),
                 NumOrNaN(row[4]), NumOrNaN(row[5])));
         });
-        string v = $"{lu}_per_{(tu == "min" ? "min" : "frame")}";
+        return tracks.ToArray();
+    }
+
+    /// <summary>Per +1/2 defect track (in id order), the mean headward speed and the mean headward cell flow.</summary>
+    private static (double[] Headward, double[] Flow) ReadPlusHalfSpeeds(string defectsPath, AnalysisColumns col)
+    {
         var head = new Dictionary<int, List<double>>(); var flow = new Dictionary<int, List<double>>();
-        ReadRows(defectsPath, ["defect_track_id", "charge", $"headward_speed_{v}", $"flow_headward_speed_{v}"], row =>
+        ReadRows(defectsPath, ["defect_track_id", "charge", col.HeadwardSpeed, col.FlowHeadwardSpeed], row =>
         {
             if (NumOrNaN(row[1]) != 0.5) return;
             int id = int.Parse(row[0], CultureInfo.InvariantCulture);
@@ -41,8 +182,7 @@ public static class AnalysisFolder
             if (double.IsFinite(h)) { if (!head.TryGetValue(id, out var l)) head[id] = l = []; l.Add(h); }
             if (double.IsFinite(f)) { if (!flow.TryGetValue(id, out var l)) flow[id] = l = []; l.Add(f); }
         });
-        return new MovieData(condition, replicate, folder, lu, tu, tracks.ToArray(), tau,
-            head.OrderBy(k => k.Key).Select(k => k.Value.Average()).ToArray(), flow.OrderBy(k => k.Key).Select(k => k.Value.Average()).ToArray());
+        return (head.OrderBy(k => k.Key).Select(k => k.Value.Average()).ToArray(), flow.OrderBy(k => k.Key).Select(k => k.Value.Average()).ToArray());
     }
 
     private static double Num(string s, string file, string column)

@@ -3,6 +3,9 @@ using System.Text;
 using ScottPlot;
 using ShapeNoise.Comparison;
 using ShapeNoise.Statistics;
+using CsvHelper;
+using CsvHelper.Configuration;
+using Figure = ShapeNoise.Pipeline.Figure;
 
 namespace ShapeNoise.Reporting;
 
@@ -15,32 +18,50 @@ public static class ComparisonReport
     static string F(double v) => double.IsFinite(v) ? v.ToString("G4", Ci) : "n/a";
     static string Csv(double v) => double.IsFinite(v) ? v.ToString("R", Ci) : "";
 
-    private static string UnitOf(string measure, ComparisonResult r) => measure switch
+    /// <summary>The unit of a comparison measure ("ratio", the time unit, or length/time), from <see cref="Measures"/>.</summary>
+    private static string UnitOf(string measure, ComparisonResult r)
+        => (UnitScale.FromNames(r.LengthUnit, r.TimeUnit) ?? throw new ArgumentException($"units '{r.LengthUnit}'/'{r.TimeUnit}'")).Label(Measures.Get(measure).Kind);
+
+    /// <summary>comparison.csv file name.</summary>
+    public const string ComparisonCsv = "comparison.csv";
+    /// <summary>differences.csv file name.</summary>
+    public const string DifferencesCsv = "differences.csv";
+    /// <summary>plan.csv file name.</summary>
+    public const string PlanCsv = "plan.csv";
+
+    /// <summary>Writes a CSV file through CsvHelper (RFC 4180 quoting: a field with a comma, quote or line break is quoted).</summary>
+    internal static void WriteCsv(string path, string[] header, IEnumerable<string[]> rows)
     {
-        "tau_q" => r.TimeUnit,
-        "defect_headward_speed" or "flow_headward_speed" => $"{r.LengthUnit}/{r.TimeUnit}",
-        _ => "ratio",
-    };
+        using var w = new StreamWriter(path, false, new UTF8Encoding(false));
+        using var csv = new CsvWriter(w, new CsvConfiguration(Ci) { NewLine = "\n" });
+        foreach (var h in header) csv.WriteField(h);
+        csv.NextRecord();
+        foreach (var row in rows)
+        {
+            foreach (var f in row) csv.WriteField(f);
+            csv.NextRecord();
+        }
+    }
+
+    static string I(int v) => v.ToString(Ci);
 
     /// <summary>Writes comparison.csv, differences.csv, the superplots, comparison.md and report.html into <paramref name="dir"/>.</summary>
     public static void Write(ComparisonResult r, string dir)
     {
-        var c = new StringBuilder("condition,measure,unit,movies,units,value,ci95_low,ci95_high\n");
-        foreach (var m in r.Conditions)
-            c.Append(Ci, $"{m.Condition},{m.Measure},{UnitOf(m.Measure, r)},{m.Movies},{m.Units},{Csv(m.Value.Value)},{Csv(m.Value.Low)},{Csv(m.Value.High)}\n");
-        File.WriteAllText(Path.Combine(dir, "comparison.csv"), c.ToString());
-        var d = new StringBuilder("measure,condition_a,condition_b,difference,ci95_low,ci95_high,ratio,ratio_ci95_low,ratio_ci95_high,p_value,movies_a,movies_b\n");
-        foreach (var x in r.Differences)
-            d.Append(Ci, $"{x.Measure},{x.A},{x.B},{Csv(x.Difference.Value)},{Csv(x.Difference.Low)},{Csv(x.Difference.High)},{Csv(x.Ratio.Value)},{Csv(x.Ratio.Low)},{Csv(x.Ratio.High)},{Csv(x.PValue)},{x.MoviesA},{x.MoviesB}\n");
-        File.WriteAllText(Path.Combine(dir, "differences.csv"), d.ToString());
-        foreach (var measure in new[] { "anisotropy", "anisotropy_contour" }) SuperPlot(r, measure).SavePng(Path.Combine(dir, $"superplot-{measure}.png"), 720, 520);
+        WriteCsv(Path.Combine(dir, ComparisonCsv), ["condition", "measure", "unit", "movies", "units", "value", "ci95_low", "ci95_high"],
+            r.Conditions.Select(m => new[] { m.Condition, m.Measure, UnitOf(m.Measure, r), I(m.Movies), I(m.Units), Csv(m.Value.Value), Csv(m.Value.Low), Csv(m.Value.High) }));
+        WriteCsv(Path.Combine(dir, DifferencesCsv), ["measure", "condition_a", "condition_b", "difference", "ci95_low", "ci95_high", "ratio", "ratio_ci95_low", "ratio_ci95_high", "p_value", "movies_a", "movies_b"],
+            r.Differences.Select(x => new[] { x.Measure, x.A, x.B, Csv(x.Difference.Value), Csv(x.Difference.Low), Csv(x.Difference.High), Csv(x.Ratio.Value), Csv(x.Ratio.Low), Csv(x.Ratio.High), Csv(x.PValue), I(x.MoviesA), I(x.MoviesB) }));
+        var figures = new List<Figure>
+        {
+            new("superplot-anisotropy.png", "Every track (small points, coloured by replicate), every replicate's value (large markers) and each condition's value with its 95% hierarchical-bootstrap interval (black bar), for var_L / var_W on a log scale.",
+                Figures.Png(SuperPlot(r, Measures.Anisotropy.Name), 720, 520)),
+            new("superplot-anisotropy_contour.png", "The same for the floor-corrected contour ratio var_along / var_across.", Figures.Png(SuperPlot(r, Measures.AnisotropyContour.Name), 720, 520)),
+        };
+        Figures.Save(figures, dir);
         string narrative = Narrative(r);
         File.WriteAllText(Path.Combine(dir, "comparison.md"), narrative);
-        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise comparison", narrative,
-        [
-            (Path.Combine(dir, "superplot-anisotropy.png"), "Every track (small points, coloured by replicate), every replicate's value (large markers) and each condition's value with its 95% hierarchical-bootstrap interval (black bar), for var_L / var_W on a log scale."),
-            (Path.Combine(dir, "superplot-anisotropy_contour.png"), "The same for the floor-corrected contour ratio var_along / var_across."),
-        ]));
+        File.WriteAllText(Path.Combine(dir, AnalysisFolder.Report), HtmlReport.FromMarkdown("ShapeNoise comparison", narrative, figures));
     }
 
     /// <summary>Every track a small point coloured by replicate, each replicate's value a large marker, the condition value and 95% interval a bar.</summary>
@@ -56,7 +77,7 @@ public static class ComparisonReport
             for (int mi = 0; mi < movies.Count; mi++)
             {
                 var color = palette.GetColor(mi);
-                var ys = movies[mi].Tracks.Select(t => measure == "anisotropy" ? t.VarL / t.VarW : t.VarAlong / t.VarAcross).Where(v => v > 0 && double.IsFinite(v)).Select(Math.Log10).ToArray();
+                var ys = movies[mi].Tracks.Select(t => measure == Measures.Anisotropy.Name ? t.VarL / t.VarW : t.VarAlong / t.VarAcross).Where(v => v > 0 && double.IsFinite(v)).Select(Math.Log10).ToArray();
                 var xs = ys.Select(_ => ci + (rng.NextDouble() - 0.5) * 0.5).ToArray();
                 var pts = plt.Add.ScatterPoints(xs, ys); pts.Color = color.WithAlpha(0.35); pts.MarkerSize = 3;
                 double movieValue = ConditionComparison.Statistic(measure, [movies[mi]], [1], null);
@@ -76,7 +97,7 @@ public static class ComparisonReport
         }
         plt.Axes.Bottom.TickGenerator = new ScottPlot.TickGenerators.NumericManual(Enumerable.Range(0, conditions.Count).Select(i => (double)i).ToArray(), conditions.ToArray());
         plt.Axes.Left.TickGenerator = new ScottPlot.TickGenerators.NumericAutomatic { LabelFormatter = y => Math.Pow(10, y).ToString("G3", Ci) };
-        plt.Title(measure == "anisotropy" ? "var_L / var_W per track (small), per replicate (large)" : "var_along / var_across per track (small), per replicate (large)");
+        plt.Title($"{Measures.Get(measure).Statistic} per track (small), per replicate (large)");
         plt.YLabel($"{measure} (log scale)");
         plt.ShowLegend(Alignment.UpperRight);
         return plt;
@@ -95,7 +116,7 @@ public static class ComparisonReport
         foreach (var x in r.Differences)
         {
             var a = r.Conditions.First(c => c.Condition == x.A && c.Measure == x.Measure); var b = r.Conditions.First(c => c.Condition == x.B && c.Measure == x.Measure);
-            string unit = UnitOf(x.Measure, r) == "ratio" ? "" : $" {UnitOf(x.Measure, r)}";
+            string unit = Measures.Get(x.Measure).Kind == UnitKind.Ratio ? "" : $" {UnitOf(x.Measure, r)}";
             sb.Append(Ci, $"- **{x.Measure}**: {x.A} {F(a.Value.Value)}{unit} (95% CI {F(a.Value.Low)} to {F(a.Value.High)}) vs {x.B} {F(b.Value.Value)}{unit} ({F(b.Value.Low)} to {F(b.Value.High)}). ");
             if (!double.IsFinite(x.Difference.Value)) { sb.Append("Not defined in at least one condition.\n"); continue; }
             sb.Append(Ci, $"Difference {x.A} − {x.B} = {F(x.Difference.Value)}{unit} (95% CI {F(x.Difference.Low)} to {F(x.Difference.High)})");
@@ -112,18 +133,17 @@ public static class ComparisonReport
         return sb.ToString();
     }
 
-    /// <summary>The <c>plan</c> job: pilot analysis folders in, plan.csv, plan.png and plan.md out.</summary>
     /// <summary>Writes plan.csv, plan.png, plan.md and report.html into <paramref name="dir"/>.</summary>
     public static void WritePlan(PlanResult plan, string dir)
     {
-        var sb = new StringBuilder("movies_per_condition,cells_per_movie,power\n");
-        foreach (var d in plan.Designs) sb.Append(Ci, $"{d.MoviesPerCondition},{d.CellsPerMovie},{d.Power.ToString("R", Ci)}\n");
-        File.WriteAllText(Path.Combine(dir, "plan.csv"), sb.ToString());
-        PlanPlot(plan).SavePng(Path.Combine(dir, "plan.png"), 720, 480);
+        WriteCsv(Path.Combine(dir, PlanCsv), ["movies_per_condition", "cells_per_movie", "power"],
+            plan.Designs.Select(d => new[] { I(d.MoviesPerCondition), I(d.CellsPerMovie), d.Power.ToString("R", Ci) }));
+        var figure = new Figure("plan.png", "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.",
+            Figures.Png(PlanPlot(plan), 720, 480));
+        Figures.Save([figure], dir);
         string narrative = PlanNarrative(plan);
         File.WriteAllText(Path.Combine(dir, "plan.md"), narrative);
-        File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative,
-            [(Path.Combine(dir, "plan.png"), "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.")]));
+        File.WriteAllText(Path.Combine(dir, AnalysisFolder.Report), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative, [figure]));
     }
 
     public static Plot PlanPlot(PlanResult p)
@@ -149,7 +169,7 @@ public static class ComparisonReport
     {
         var vc = p.Components;
         var sb = new StringBuilder("# Experiment plan\n\n");
-        sb.Append(Ci, $"Pilot: {p.PilotMovies} movies, {p.PilotTracks} tracks (median {p.MedianTracksPerMovie:G3} per movie). Measure: per-track ln({(p.Measure == "anisotropy" ? "var_L / var_W" : "var_along / var_across")}). ");
+        sb.Append(Ci, $"Pilot: {p.PilotMovies} movies, {p.PilotTracks} tracks (median {p.MedianTracksPerMovie:G3} per movie). Measure: per-track ln({Measures.Get(p.Measure).Statistic}). ");
         sb.Append(Ci, $"Between-movie variance {F(vc.Between)}, within-movie variance {F(vc.Within)}, intraclass correlation {F(vc.Icc)}, so averaging m cells in a movie is worth m / (1 + (m − 1) ICC) independent cells (design effect, Kish 1965): with {p.MedianTracksPerMovie:G3} cells per movie the design effect is {F(vc.DesignEffect(p.MedianTracksPerMovie))}.\n\n");
         sb.Append(Ci, $"Target: a {p.RelativeEffect * 100:G3}% change in {p.Measure} (ln-scale effect {F(p.LogEffect)}), two-sided alpha 0.05, power 0.8, two-sample t test on movie means.\n\n");
         sb.Append(p.Smallest is { } b

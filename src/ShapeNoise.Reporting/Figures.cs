@@ -1,5 +1,6 @@
 using ScottPlot;
 using ShapeNoise.Pipeline;
+using Figure = ShapeNoise.Pipeline.Figure;
 
 namespace ShapeNoise.Reporting;
 
@@ -8,22 +9,39 @@ public static class Figures
 {
     private const int W = 720, H = 480;
 
-    public static void WriteAll(AnalysisResult r, string dir)
+    /// <summary>Every figure of an analysis, drawn in memory, in the order the report shows them (file name, caption, PNG bytes).</summary>
+    public static List<Figure> All(AnalysisResult r)
     {
-        Spectrum(r).SavePng(Path.Combine(dir, "spectrum.png"), W, H);
-        Anisotropy(r).SavePng(Path.Combine(dir, "anisotropy.png"), W, H);
-        Profile(r).SavePng(Path.Combine(dir, "profile.png"), W, H);
-        if (r.Dynamics.Series.Count > 0) SaveGrid(Autocorrelation(r), 3, Path.Combine(dir, "autocorrelation.png"), 480, 360);
-        Headward(r).SavePng(Path.Combine(dir, "headward.png"), W, H);
-        DefectFlow(r).SavePng(Path.Combine(dir, "defect-flow.png"), 640, 640);
+        var figures = new List<Figure>
+        {
+            new(AnalysisFolder.AnisotropyFigure, "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).", Png(Anisotropy(r), W, H)),
+            new(AnalysisFolder.ProfileFigure, "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.", Png(Profile(r), W, H)),
+            new(AnalysisFolder.SpectrumFigure, "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.", Png(Spectrum(r), W, H)),
+        };
+        if (r.Dynamics.Series.Count > 0)
+            figures.Add(new(AnalysisFolder.AutocorrelationFigure, "Pooled autocorrelation of each quantity with its 95% band (points, shading) and the fitted model (line), whose correlation time is in the panel title. Dips below zero at long lags are the expected bias of subtracting each track's mean, which the model includes.",
+                Grid(Autocorrelation(r), 3, 480, 360)));
+        figures.Add(new(AnalysisFolder.HeadwardFigure, "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).", Png(Headward(r), W, H)));
+        figures.Add(new(AnalysisFolder.DefectFlowFigure, "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.", Png(DefectFlow(r), 640, 640)));
+        return figures;
     }
+
+    /// <summary>Saves figures into <paramref name="dir"/> under their file names.</summary>
+    public static void Save(IEnumerable<Figure> figures, string dir)
+    {
+        foreach (var f in figures) File.WriteAllBytes(Path.Combine(dir, f.FileName), f.Png);
+    }
+
+    /// <summary>A plot rendered to PNG bytes.</summary>
+    public static byte[] Png(Plot plot, int width, int height) => plot.GetImageBytes(width, height, ImageFormat.Png);
 
     /// <summary>Distribution of the mean headward speed per +1/2 defect track: defect displacement and cell flow at the core.</summary>
     public static Plot Headward(AnalysisResult r)
     {
         var plt = new Plot();
-        double sv = r.Units.S / r.Units.Dt;
-        string unit = $"{r.Units.Length}/{r.Units.Time}";
+        var u = UnitScale.Of(r.Units);
+        double sv = u.SpeedFactor;
+        string unit = u.SpeedLabel;
         var plus = r.Defects.Tracks.Where(t => t.Charge == 0.5).ToList();
         var kin = plus.Where(t => double.IsFinite(t.HeadwardSpeed)).Select(t => t.HeadwardSpeed * sv).ToArray();
         var flow = plus.Where(t => double.IsFinite(t.FlowHeadwardSpeed)).Select(t => t.FlowHeadwardSpeed * sv).ToArray();
@@ -85,7 +103,7 @@ public static class Figures
         var head = plt.Add.Arrow(new Coordinates(0, 0), new Coordinates(1, 0)); head.ArrowFillColor = Colors.Black; head.ArrowLineColor = Colors.Black;
         plt.Axes.SquareUnits();
         plt.Axes.InvertY();
-        plt.Title($"Mean cell flow around +1/2 defects (head to +x)\nlongest arrow {maxV * r.Units.S / r.Units.Dt:G3} {r.Units.Length}/{r.Units.Time}; grey: director");
+        plt.Title($"Mean cell flow around +1/2 defects (head to +x)\nlongest arrow {UnitScale.Of(r.Units).Speed(maxV):G3} {UnitScale.Of(r.Units).SpeedLabel}; grey: director");
         plt.XLabel("along e_head (coarse widths)");
         plt.YLabel("across (coarse widths)");
         return plt;
@@ -101,7 +119,7 @@ public static class Figures
     public static List<Plot> Autocorrelation(AnalysisResult r)
     {
         var plots = new List<Plot>();
-        var d = r.Dynamics; double dt = r.Units.Dt; string tu = r.Units.Time;
+        var d = r.Dynamics; double dt = UnitScale.Of(r.Units).TimeFactor; string tu = UnitScale.Of(r.Units).TimeName;
         string[] order = ["q", "theta", "length", "width", "along", "across"];
         foreach (var name in order)
         {
@@ -133,7 +151,7 @@ public static class Figures
     }
 
     /// <summary>Renders plots side by side into one PNG (SkiaSharp canvas, ScottPlot renders each panel).</summary>
-    public static void SaveGrid(IReadOnlyList<Plot> plots, int columns, string path, int panelWidth, int panelHeight)
+    public static byte[] Grid(IReadOnlyList<Plot> plots, int columns, int panelWidth, int panelHeight)
     {
         int rows = (plots.Count + columns - 1) / columns;
         var info = new SkiaSharp.SKImageInfo(columns * panelWidth, rows * panelHeight);
@@ -147,8 +165,7 @@ public static class Figures
         }
         using var img = surface.Snapshot();
         using var png = img.Encode(SkiaSharp.SKEncodedImageFormat.Png, 100);
-        using var fs = File.Create(path);
-        png.SaveTo(fs);
+        return png.ToArray();
     }
 
     /// <summary>Pooled mode power against mode number on a log axis: raw, floor-corrected and the floor.</summary>
@@ -171,7 +188,7 @@ public static class Figures
         LogY(plt);
         plt.Title("Fluctuation spectrum (pooled over tracks)");
         plt.XLabel("Fourier mode n");
-        plt.YLabel($"mode power p_n ({r.Units.L2.Replace("2", "²")})");
+        plt.YLabel($"mode power p_n ({UnitScale.Of(r.Units).AreaLabel})");
         plt.ShowLegend();
         return plt;
     }
@@ -192,8 +209,8 @@ public static class Figures
         }
         var iso = plt.Add.Line(0, 0, max, max); iso.LegendText = "equal (isotropic)"; iso.LinePattern = LinePattern.Dashed;
         plt.Title("Length vs width fluctuation per track");
-        plt.XLabel($"var W ({r.Units.L2.Replace("2", "²")})");
-        plt.YLabel($"var L ({r.Units.L2.Replace("2", "²")})");
+        plt.XLabel($"var W ({UnitScale.Of(r.Units).AreaLabel})");
+        plt.YLabel($"var L ({UnitScale.Of(r.Units).AreaLabel})");
         plt.ShowLegend(Alignment.UpperLeft);
         return plt;
     }
@@ -211,7 +228,7 @@ public static class Figures
         plt.Axes.SetLimitsX(0, 90);
         plt.Title("Contour variance from pole (0°) to flank (90°)");
         plt.XLabel("angle of the outward normal from the long axis (degrees)");
-        plt.YLabel($"mean_t n² ({r.Units.L2.Replace("2", "²")})");
+        plt.YLabel($"mean_t n² ({UnitScale.Of(r.Units).AreaLabel})");
         plt.ShowLegend(Alignment.UpperRight);
         return plt;
     }

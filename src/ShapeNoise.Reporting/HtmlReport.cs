@@ -4,6 +4,7 @@ using System.Text;
 using System.Text.Json.Nodes;
 using ShapeNoise.Pipeline;
 using ShapeNoise.Statistics;
+using Figure = ShapeNoise.Pipeline.Figure;
 
 namespace ShapeNoise.Reporting;
 
@@ -25,23 +26,23 @@ public static class HtmlReport
     /// <summary>Plain-language headline sentences, each with its interval.</summary>
     public static List<string> Headlines(AnalysisResult r)
     {
-        var u = r.Units; var p = r.Pooled; var d = r.Dynamics; var df = r.Defects;
+        var u = UnitScale.Of(r.Units); var p = r.Pooled; var d = r.Dynamics; var df = r.Defects;
         string ci(Estimate e) => double.IsFinite(e.Low) ? $"95% CI {Round(e.Low)}–{Round(e.High)}" : "no interval";
         var h = new List<string>
         {
             $"Length fluctuates {Round(p.Anisotropy.Value)}× more than width ({ci(p.Anisotropy)}, {r.Counts.TracksUsed} tracks).",
             $"After removing the noise floor, the outline fluctuates {Round(p.AnisotropyContour.Value)}× more at the poles than at the flanks ({ci(p.AnisotropyContour)}).",
-            $"Elongation stays correlated for τ_q = {Round(d.TauQFrames.Value * u.Dt)} {u.Time} ({ci(d.TauQFrames.Scale(u.Dt))}); orientation for τ_θ = {Round(d.TauThetaFrames.Value * u.Dt)} {u.Time} ({ci(d.TauThetaFrames.Scale(u.Dt))}).",
+            $"Elongation stays correlated for τ_q = {Round(u.Time(d.TauQFrames.Value))} {u.TimeName} ({ci(u.Time(d.TauQFrames))}); orientation for τ_θ = {Round(u.Time(d.TauThetaFrames.Value))} {u.TimeName} ({ci(u.Time(d.TauThetaFrames))}).",
         };
-        var hs = df.HeadwardSpeed.Scale(u.S / u.Dt);
+        var hs = u.Speed(df.HeadwardSpeed);
         if (df.PlusTracksUsed > 0)
-            h.Add($"+1/2 defects ({Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed) move {(hs.Value > 0 ? "toward their head (extensile-like)" : "toward their tail (contractile-like)")} at {Round(hs.Value)} {u.Length}/{u.Time} ({ci(hs)}).");
+            h.Add($"+1/2 defects ({Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed) move {(hs.Value > 0 ? "toward their head (extensile-like)" : "toward their tail (contractile-like)")} at {Round(hs.Value)} {u.SpeedLabel} ({ci(hs)}).");
         else h.Add($"No +1/2 defect was followed long enough to measure its motion ({Round(df.PlusPerFrame)} +1/2 and {Round(df.MinusPerFrame)} −1/2 defects per frame).");
         return h;
     }
 
     /// <summary>A self-contained page from a short Markdown summary (headings, bullets, paragraphs, **bold**) and PNG figures with captions.</summary>
-    public static string FromMarkdown(string title, string markdown, IEnumerable<(string Path, string Caption)> figures)
+    public static string FromMarkdown(string title, string markdown, IEnumerable<Figure> figures)
     {
         var sb = new StringBuilder("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\" /><title>");
         sb.Append(E(title)).Append("</title>\n<style>body{font-family:sans-serif;max-width:1000px;margin:2em auto;color:#222;line-height:1.45}")
@@ -64,20 +65,36 @@ public static class HtmlReport
             else if (line.Length > 0) sb.Append("<p>").Append(Inline(line)).Append("</p>\n");
         }
         if (inList) sb.Append("</ul>\n");
-        foreach (var (path, caption) in figures)
-        {
-            if (!File.Exists(path)) continue;
-            sb.Append("<figure><img alt=\"").Append(E(Path.GetFileName(path))).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(path)))
-              .Append("\" /><figcaption>").Append(E(caption)).Append("</figcaption></figure>\n");
-        }
+        foreach (var f in figures) AppendFigure(sb, f);
         sb.Append("<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n")
           .Append(LoadCheck).Append("</body></html>\n");
         return sb.ToString();
     }
 
-    public static string Build(AnalysisResult r, string dir, JsonObject provenance)
+    /// <summary>One figure: the embedded image (its own bytes, base64) and its caption.</summary>
+    static void AppendFigure(StringBuilder sb, Figure f)
+        => sb.Append("<figure>").Append(Img(f)).Append("<figcaption>").Append(E(f.Caption)).Append("</figcaption></figure>\n");
+
+    static string Img(Figure f) => $"<img alt=\"{E(f.FileName)}\" src=\"data:image/png;base64,{Convert.ToBase64String(f.Png)}\" />";
+
+    /// <summary>Frame figures as strips: consecutive figures with the same caption share one figure element.</summary>
+    static void AppendStrips(StringBuilder sb, IReadOnlyList<Figure> frames)
     {
-        var u = r.Units; var p = r.Pooled;
+        for (int i = 0; i < frames.Count;)
+        {
+            sb.Append("<figure class=\"strip\">");
+            int j = i;
+            for (; j < frames.Count && frames[j].Caption == frames[i].Caption; j++) sb.Append(Img(frames[j]));
+            sb.Append("<figcaption>").Append(E(frames[i].Caption)).Append("</figcaption></figure>\n");
+            i = j;
+        }
+    }
+
+    /// <summary>report.html of an analysis: headline, warnings, noise floor, <paramref name="figures"/> (each embedded
+    /// once from its bytes), <paramref name="frameFigures"/> as strips, options and provenance.</summary>
+    public static string Build(AnalysisResult r, IReadOnlyList<Figure> figures, IReadOnlyList<Figure> frameFigures, JsonObject provenance)
+    {
+        var u = UnitScale.Of(r.Units); var p = r.Pooled;
         var sb = new StringBuilder();
         sb.Append("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\" /><title>ShapeNoise report — ")
           .Append(E(Path.GetFileName(r.Movie.Path.TrimEnd('/')))).Append("</title>\n<style>")
@@ -89,7 +106,7 @@ public static class HtmlReport
         sb.Append("<h1>Cell-shape fluctuations of ").Append(E(Path.GetFileName(r.Movie.Path.TrimEnd('/')))).Append("</h1>\n");
         sb.Append("<p>").Append(r.Counts.Frames).Append(" frames, ").Append(r.Counts.Outlines).Append(" outlines, ")
           .Append(r.Counts.TracksUsed).Append(" of ").Append(r.Counts.Tracks).Append(" tracks in the statistics; units: ")
-          .Append(E(u.Length)).Append(", ").Append(E(u.Time)).Append(". Intervals are 95% bootstrap intervals over tracks (seed ")
+          .Append(E(u.LengthName)).Append(", ").Append(E(u.TimeName)).Append(". Intervals are 95% bootstrap intervals over tracks (seed ")
           .Append(r.Options.Seed).Append(").</p>\n<h2>Headline</h2>\n<ul>\n");
         foreach (var h in Headlines(r)) sb.Append("<li>").Append(E(h)).Append("</li>\n");
         sb.Append("</ul>\n");
@@ -105,27 +122,8 @@ public static class HtmlReport
             : $"Taken from a fixed-cell movie (--floor-from): {Round(100 * fa)}% of the raw contour variance in the pole sector, {Round(100 * fc)}% in the flank sector; its length and width fluctuations were subtracted too."))
           .Append("</p>\n");
         sb.Append("<h2>Figures</h2>\n");
-        void Fig(string file, string caption)
-        {
-            string path = Path.Combine(dir, file);
-            if (!File.Exists(path)) return;
-            sb.Append("<figure><img alt=\"").Append(E(file)).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(path)))
-              .Append("\" /><figcaption>").Append(E(caption)).Append("</figcaption></figure>\n");
-        }
-        Fig("anisotropy.png", "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).");
-        Fig("profile.png", "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.");
-        Fig("spectrum.png", "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.");
-        Fig("autocorrelation.png", "Pooled autocorrelation of each quantity with its 95% band (points, shading) and the fitted model (line), whose correlation time is in the panel title. Dips below zero at long lags are the expected bias of subtracting each track's mean, which the model includes.");
-        Fig("headward.png", "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).");
-        Fig("defect-flow.png", "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.");
-        var overlays = Directory.Exists(dir) ? Directory.GetFiles(dir, "defects-frame-*.png").OrderBy(f => f, StringComparer.Ordinal).ToList() : [];
-        if (overlays.Count > 0)
-        {
-            sb.Append("<figure class=\"strip\">");
-            foreach (var o in overlays)
-                sb.Append("<img alt=\"").Append(E(Path.GetFileName(o))).Append("\" src=\"data:image/png;base64,").Append(Convert.ToBase64String(File.ReadAllBytes(o))).Append("\" />");
-            sb.Append("<figcaption>").Append(E("Frames with each cell's long axis (short lines), +1/2 defects as red comets (the dot is the head) and −1/2 defects as blue three-armed symbols.")).Append("</figcaption></figure>\n");
-        }
+        foreach (var f in figures) AppendFigure(sb, f);
+        AppendStrips(sb, frameFigures);
         sb.Append("<h2>Options</h2>\n<table>\n");
         if (provenance["options"] is JsonObject opts)
             foreach (var (k, v) in opts) sb.Append("<tr><th>").Append(E(k)).Append("</th><td>").Append(E(v?.ToJsonString() ?? "null")).Append("</td></tr>\n");

@@ -97,7 +97,7 @@ public static class OutputFolder
     private static string? PreviousOutput(string dir)
     {
         const string foreign = "is not empty and is not a ShapeNoise output (no run.json of ours); nothing was written, choose a new folder";
-        string runJson = Path.Combine(dir, "run.json");
+        string runJson = Path.Combine(dir, AnalysisFolder.Run);
         if (!File.Exists(runJson)) return foreign;
         JsonNode? run;
         try { run = JsonNode.Parse(File.ReadAllText(runJson)); }
@@ -143,7 +143,7 @@ public static class OutputFolder
     /// lets a later <c>--overwrite</c> prove the folder holds nothing else.</summary>
     private static void AddManifest(string dir)
     {
-        string runJson = Path.Combine(dir, "run.json");
+        string runJson = Path.Combine(dir, AnalysisFolder.Run);
         if (!File.Exists(runJson)) return;
         var files = new List<string>();
         foreach (var f in Directory.EnumerateFiles(dir, "*", SearchOption.AllDirectories)) files.Add(Path.GetRelativePath(dir, f).Replace('\\', '/'));
@@ -172,8 +172,8 @@ public static class OutputFolder
             {
                 string target = Path.Combine(parent, name);
                 if (partial && (File.Exists(Path.Combine(d, Marker)) || !Directory.EnumerateFileSystemEntries(d).Any())) Directory.Delete(d, true);
-                else if (old && !Directory.Exists(target) && File.Exists(Path.Combine(d, "run.json"))) Directory.Move(d, target);
-                else if (old && File.Exists(Path.Combine(d, "run.json"))) Directory.Delete(d, true);
+                else if (old && !Directory.Exists(target) && File.Exists(Path.Combine(d, AnalysisFolder.Run))) Directory.Move(d, target);
+                else if (old && File.Exists(Path.Combine(d, AnalysisFolder.Run))) Directory.Delete(d, true);
             }
             catch (Exception e) when (e is IOException or UnauthorizedAccessException) { /* left for a later run; never fatal */ }
         }

@@ -3,23 +3,34 @@ using ShapeNoise.Pipeline;
 
 namespace ShapeNoise.Reporting;
 
-/// <summary>Writes every output of <c>analyze</c> into a folder, atomically.</summary>
+/// <summary>Writes every output of <c>analyze</c> into a folder, atomically, under the names of <see cref="AnalysisFolder"/>.</summary>
 public static class ResultWriter
 {
-    public static void Write(AnalysisResult r, OutputTarget outDir, JsonObject provenance, Action<string>? extra = null)
+    /// <summary>Writes the tables, summary.json, floor.json, run.json, sim-params, the figures and report.html.</summary>
+    /// <param name="r">The analysis.</param>
+    /// <param name="outDir">The output folder (written atomically).</param>
+    /// <param name="provenance">run.json content.</param>
+    /// <param name="frameFigures">Optional figures drawn on the movie's frames: saved and embedded in report.html like the others.</param>
+    /// <param name="extra">Optional further files written into the folder (e.g. a copy of the segmentation).</param>
+    public static void Write(AnalysisResult r, OutputTarget outDir, JsonObject provenance, Func<IReadOnlyList<Figure>>? frameFigures = null,
+        Action<string>? extra = null)
     {
         OutputFolder.Write(outDir, dir =>
         {
+            string In(string name) => Path.Combine(dir, name);
             Tables.WriteAll(r, dir);
-            File.WriteAllText(Path.Combine(dir, "summary.json"), Summary.Build(r).ToJsonString(Summary.Indented));
-            File.WriteAllText(Path.Combine(dir, "floor.json"), Summary.Floor(r).ToJsonString(Summary.Indented));
-            File.WriteAllText(Path.Combine(dir, "run.json"), provenance.ToJsonString(Summary.Indented));
+            File.WriteAllText(In(AnalysisFolder.Summary), Summary.Build(r).ToJsonString(Summary.Indented));
+            File.WriteAllText(In(AnalysisFolder.Floor), Summary.Floor(r).ToJsonString(Summary.Indented));
+            File.WriteAllText(In(AnalysisFolder.Run), provenance.ToJsonString(Summary.Indented));
             var sim = SimulationParameters.Build(r, provenance);
-            if (r.Options.SimFormat == SimFormat.Toml) File.WriteAllText(Path.Combine(dir, "sim-params.toml"), SimulationParameters.ToToml(sim));
-            else File.WriteAllText(Path.Combine(dir, "sim-params.json"), sim.ToJsonString(Summary.Indented));
-            Figures.WriteAll(r, dir);
+            if (r.Options.SimFormat == SimFormat.Toml) File.WriteAllText(In(AnalysisFolder.SimParamsToml), SimulationParameters.ToToml(sim));
+            else File.WriteAllText(In(AnalysisFolder.SimParamsJson), sim.ToJsonString(Summary.Indented));
+            var figures = Figures.All(r);
+            var frames = frameFigures?.Invoke() ?? [];
+            Figures.Save(figures, dir);
+            Figures.Save(frames, dir);
             extra?.Invoke(dir);
-            File.WriteAllText(Path.Combine(dir, "report.html"), HtmlReport.Build(r, dir, provenance));
+            File.WriteAllText(In(AnalysisFolder.Report), HtmlReport.Build(r, figures, frames, provenance));
         });
     }
 }

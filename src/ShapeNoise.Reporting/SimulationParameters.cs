@@ -19,12 +19,12 @@ public static class SimulationParameters
     /// <summary>The time unit T in the run's time unit, and its name.</summary>
     public static (double Value, string Name) TimeUnit(AnalysisResult r)
     {
-        double dt = r.Units.Dt;
+        var u = UnitScale.Of(r.Units);
         return r.Options.TimeUnit switch
         {
-            "tau_q" => (r.Dynamics.TauQFrames.Value * dt, "tau_q"),
-            "min" => (1.0, r.Units.FrameIntervalMin is null ? "frame" : "min"),
-            var x => (double.Parse(x, CultureInfo.InvariantCulture), $"{x} {r.Units.Time}"),
+            "tau_q" => (u.Time(r.Dynamics.TauQFrames.Value), "tau_q"),
+            "min" => (1.0, u.TimeName),
+            var x => (double.Parse(x, CultureInfo.InvariantCulture), $"{x} {u.TimeName}"),
         };
     }
 
@@ -34,27 +34,27 @@ public static class SimulationParameters
     /// <summary>The parameter blocks shared by sim-params and summary.json ("dynamics"), so both report the same numbers.</summary>
     public static JsonObject Dynamics(AnalysisResult r)
     {
-        var u = r.Units; var d = r.Dynamics;
-        double s2 = u.S * u.S, dt = u.Dt, R0 = r.MeanCellRadiusPx * u.S;
+        var u = UnitScale.Of(r.Units); var d = r.Dynamics; var col = AnalysisFolder.Columns(u);
+        double dt = u.TimeFactor, R0 = u.Length(r.MeanCellRadiusPx);
+        string Tn = u.TimeSuffix;
         var (T, tName) = TimeUnit(r);
-        string L2 = u.L2, Tn = u.T, D = $"{u.L2}_per_{(u.FrameIntervalMin is null ? "frame" : "min")}";
         var coords = new JsonObject();
         foreach (var c in d.Coordinates)
         {
-            var tau = c.TauFrames.Scale(dt); var v = c.VariancePx2.Scale(s2); var dd = c.DPx2PerFrame.Scale(s2 / dt);
+            var tau = u.Time(c.TauFrames); var v = u.Area(c.VariancePx2); var dd = c.DPx2PerFrame.Scale(u.DiffusionFactor);
             coords[c.Name] = new JsonObject
             {
                 ["meaning"] = c.Meaning,
-                [$"tau_{Tn}"] = I(tau),
-                [$"variance_{L2}"] = I(v),
-                [$"D_{D}"] = I(dd),
+                [col.Tau] = I(tau),
+                [col.Variance] = I(v),
+                [col.Diffusion] = I(dd),
                 ["dimensionless"] = new JsonObject
                 {
                     ["tau_over_T"] = I(tau.Scale(1 / T)),
                     ["variance_over_R0_squared"] = I(v.Scale(1 / (R0 * R0))),
                     ["D_times_T_over_R0_squared"] = I(dd.Scale(T / (R0 * R0))),
                 },
-                [$"measurement_noise_variance_{L2}"] = Num(c.NoiseVariancePx2 * s2),
+                [col.NoiseVariance] = Num(u.Area(c.NoiseVariancePx2)),
             };
         }
         return new JsonObject
@@ -62,7 +62,7 @@ public static class SimulationParameters
             ["coordinates"] = coords,
             ["elongation_q"] = new JsonObject
             {
-                [$"tau_{Tn}"] = I(d.TauQFrames.Scale(dt)),
+                [col.Tau] = I(u.Time(d.TauQFrames)),
                 [$"tau_uncorrected_{Tn}"] = Num(d.TauQUncorrectedFrames * dt),
                 [$"tau_integrated_{Tn}"] = I(d.TauQIntegratedFrames.Scale(dt)),
                 ["sokal_window_frames"] = d.SokalWindow,
@@ -77,7 +77,7 @@ public static class SimulationParameters
             },
             ["scales"] = new JsonObject
             {
-                [$"R0_{u.L}"] = Num(R0),
+                [$"R0_{u.LengthName}"] = Num(R0),
                 ["R0_definition"] = "sqrt(mean cell area / pi)",
                 [$"T_{Tn}"] = Num(T),
                 ["T_definition"] = tName,
@@ -91,13 +91,13 @@ public static class SimulationParameters
     /// <summary>sim-params content: schema, model, units, the headline anisotropy, the dynamics blocks, provenance.</summary>
     public static JsonObject Build(AnalysisResult r, JsonObject provenance)
     {
-        var u = r.Units;
+        var u = UnitScale.Of(r.Units);
         var o = new JsonObject
         {
             ["schema"] = "shapenoise.sim-params",
             ["schema_version"] = SchemaVersion,
             ["model"] = "Each coordinate x is an Ornstein-Uhlenbeck process dx = -x/tau dt + sqrt(2 D) dW with stationary variance var = D tau; coordinates are independent.",
-            ["units"] = new JsonObject { ["length"] = u.Length, ["time"] = u.Time },
+            ["units"] = new JsonObject { ["length"] = u.LengthName, ["time"] = u.TimeName },
             ["noise_anisotropy"] = I(r.Pooled.Anisotropy),
             ["noise_anisotropy_definition"] = "pooled var_L / var_W over tracks (spec: anisotropy)",
             ["noise_anisotropy_contour"] = I(r.Pooled.AnisotropyContour),

@@ -19,15 +19,15 @@ public static class Summary
 
     public static JsonObject Build(AnalysisResult r)
     {
-        var u = r.Units; var p = r.Pooled; var c = r.Counts;
-        double s = u.S, s2 = s * s;
+        var u = r.Units; var p = r.Pooled; var c = r.Counts; var us = UnitScale.Of(u);
+        double s = us.LengthFactor, s2 = us.AreaFactor;
         var warnings = new JsonArray();
         foreach (var w in r.Warnings) warnings.Add(w);
         return new JsonObject
         {
             ["tool_version"] = Provenance.ToolVersion,
             ["input"] = Path.GetFileName(r.Movie.Path.TrimEnd('/')),
-            ["units"] = new JsonObject { ["length"] = u.Length, ["time"] = u.Time },
+            ["units"] = new JsonObject { ["length"] = us.LengthName, ["time"] = us.TimeName },
             ["pixel_size_um"] = u.PixelSizeUm is { } ps ? ps : null,
             ["pixel_size_source"] = u.PixelSizeSource,
             ["frame_interval_min"] = u.FrameIntervalMin is { } fi ? fi : null,
@@ -58,12 +58,12 @@ public static class Summary
             ["floor_per_mode"] = Num(p.FloorPerMode * s2),
             ["floor_source"] = r.FloorReference is null ? "high modes" : "--floor-from",
             ["mean_cell_radius"] = Num(r.MeanCellRadiusPx * s),
-            ["tau_q"] = Interval(r.Dynamics.TauQFrames.Scale(r.Units.Dt)),
-            ["tau_theta"] = Interval(r.Dynamics.TauThetaFrames.Scale(r.Units.Dt)),
+            ["tau_q"] = Interval(us.Time(r.Dynamics.TauQFrames)),
+            ["tau_theta"] = Interval(us.Time(r.Dynamics.TauThetaFrames)),
             ["plus_half_defects"] = Num(r.Defects.PlusPerFrame),
             ["minus_half_defects"] = Num(r.Defects.MinusPerFrame),
-            ["defect_headward_speed"] = Interval(r.Defects.HeadwardSpeed.Scale(r.Units.S / r.Units.Dt)),
-            ["flow_headward_speed"] = Interval(r.Defects.FlowHeadwardSpeed.Scale(r.Units.S / r.Units.Dt)),
+            ["defect_headward_speed"] = Interval(us.Speed(r.Defects.HeadwardSpeed)),
+            ["flow_headward_speed"] = Interval(us.Speed(r.Defects.FlowHeadwardSpeed)),
             ["fraction_headward"] = Num(r.Defects.FractionHeadward),
             ["plus_half_defect_tracks"] = r.Defects.PlusTracksUsed,
             ["defect_tracks"] = r.Defects.Tracks.Count,
@@ -101,7 +101,7 @@ public static class Summary
     /// <summary>Reads floor.json from an analysis output folder.</summary>
     public static NoiseFloorReference ReadFloor(string folder)
     {
-        string path = Path.Combine(folder, "floor.json");
+        string path = Path.Combine(folder, AnalysisFolder.Floor);
         if (!File.Exists(path)) throw new Reading.InputException(folder, "has no floor.json; --floor-from needs the output folder of a fixed-cell movie analysed by shapenoise");
         JsonNode? n;
         try { n = JsonNode.Parse(File.ReadAllText(path)); }

@@ -28,10 +28,10 @@ public sealed record CorrelationRow(string Series, int LagFrames, double Lag, do
 
 internal sealed class CorrelationMap : ClassMap<CorrelationRow>
 {
-    public CorrelationMap(Units u)
+    public CorrelationMap(AnalysisColumns c)
     {
         Map(r => r.Series).Name("series"); Map(r => r.LagFrames).Name("lag_frames");
-        if (u.FrameIntervalMin is null) Map(r => r.Lag).Ignore(); else Map(r => r.Lag).Name("lag_min");
+        if (c.Lag is null) Map(r => r.Lag).Ignore(); else Map(r => r.Lag).Name(c.Lag);
         Map(r => r.Correlation).Name("correlation"); Map(r => r.Pairs).Name("pairs");
         Map(r => r.Low).Name("ci95_low"); Map(r => r.High).Name("ci95_high"); Map(r => r.Model).Name("model");
     }
@@ -43,17 +43,16 @@ public sealed record DefectRow(int Frame, double Time, int DefectTrackId, double
 
 internal sealed class DefectMap : ClassMap<DefectRow>
 {
-    public DefectMap(Units u)
+    public DefectMap(AnalysisColumns c)
     {
-        string v = $"{u.L}_per_{(u.FrameIntervalMin is null ? "frame" : "min")}";
-        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name($"time_{u.T}"); Map(r => r.DefectTrackId).Name("defect_track_id");
+        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name(c.Time); Map(r => r.DefectTrackId).Name("defect_track_id");
         Map(r => r.Charge).Name("charge");
-        if (u.PixelSizeUm is null) { Map(r => r.X).Ignore(); Map(r => r.Y).Ignore(); }
-        else { Map(r => r.X).Name("x_um"); Map(r => r.Y).Name("y_um"); }
+        if (c.DefectUm is { } um) { Map(r => r.X).Name(um.X); Map(r => r.Y).Name(um.Y); }
+        else { Map(r => r.X).Ignore(); Map(r => r.Y).Ignore(); }
         Map(r => r.XPx).Name("x_px"); Map(r => r.YPx).Name("y_px");
         Map(r => r.HeadX).Name("head_x"); Map(r => r.HeadY).Name("head_y");
-        Map(r => r.Vx).Name($"vx_{v}"); Map(r => r.Vy).Name($"vy_{v}"); Map(r => r.HeadwardSpeed).Name($"headward_speed_{v}");
-        Map(r => r.FlowVx).Name($"flow_vx_{v}"); Map(r => r.FlowVy).Name($"flow_vy_{v}"); Map(r => r.FlowHeadwardSpeed).Name($"flow_headward_speed_{v}");
+        Map(r => r.Vx).Name(c.Vx); Map(r => r.Vy).Name(c.Vy); Map(r => r.HeadwardSpeed).Name(c.HeadwardSpeed);
+        Map(r => r.FlowVx).Name(c.FlowVx); Map(r => r.FlowVy).Name(c.FlowVy); Map(r => r.FlowHeadwardSpeed).Name(c.FlowHeadwardSpeed);
         Map(r => r.Order).Name("order");
     }
 }
@@ -63,73 +62,73 @@ public sealed record FlowRow(double XCoarse, double YCoarse, double X, double Y,
 
 internal sealed class FlowMap : ClassMap<FlowRow>
 {
-    public FlowMap(Units u)
+    public FlowMap(AnalysisColumns c)
     {
-        string v = $"{u.L}_per_{(u.FrameIntervalMin is null ? "frame" : "min")}";
         Map(r => r.XCoarse).Name("x_coarse_widths"); Map(r => r.YCoarse).Name("y_coarse_widths");
-        Map(r => r.X).Name($"x_{u.L}"); Map(r => r.Y).Name($"y_{u.L}");
-        Map(r => r.VHead).Name($"v_head_{v}"); Map(r => r.VSide).Name($"v_side_{v}");
+        Map(r => r.X).Name(c.X); Map(r => r.Y).Name(c.Y);
+        Map(r => r.VHead).Name(c.VHead); Map(r => r.VSide).Name(c.VSide);
         Map(r => r.Qxx).Name("qxx"); Map(r => r.Qxy).Name("qxy"); Map(r => r.Samples).Name("samples");
     }
 }
 
 internal sealed class CellMap : ClassMap<CellRow>
 {
-    public CellMap(Units u)
+    public CellMap(AnalysisColumns c)
     {
-        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name($"time_{u.T}"); Map(r => r.Label).Name("label")
+        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name(c.Time); Map(r => r.Label).Name("label")
             .Convert(a => ((uint)a.Value.Label).ToString(CultureInfo.InvariantCulture));   // ids above 2^31 - 1 are stored bit for bit in int (TiffPages)
         Map(r => r.TrackId).Name("track_id"); Map(r => r.InStatistics).Name("in_statistics");
-        Map(r => r.X).Name($"x_{u.L}"); Map(r => r.Y).Name($"y_{u.L}"); Map(r => r.Area).Name($"area_{u.L2}");
-        Map(r => r.Perimeter).Name($"perimeter_{u.L}"); Map(r => r.Length).Name($"length_{u.L}"); Map(r => r.Width).Name($"width_{u.L}");
+        Map(r => r.X).Name(c.X); Map(r => r.Y).Name(c.Y); Map(r => r.Area).Name(c.Area);
+        Map(r => r.Perimeter).Name(c.Perimeter); Map(r => r.Length).Name(c.Length); Map(r => r.Width).Name(c.Width);
         Map(r => r.AspectRatio).Name("aspect_ratio"); Map(r => r.Elongation).Name("elongation_q"); Map(r => r.ThetaRad).Name("theta_rad");
-        Map(r => r.MeanRadius).Name($"mean_radius_{u.L}"); Map(r => r.Mode2Amplitude).Name($"mode2_amplitude_{u.L}");
+        Map(r => r.MeanRadius).Name(c.MeanRadius); Map(r => r.Mode2Amplitude).Name(c.Mode2Amplitude);
         Map(r => r.StarShaped).Name("star_shaped"); Map(r => r.Vertices).Name("vertices");
     }
 }
 
 internal sealed class TrackMap : ClassMap<TrackRow>
 {
-    public TrackMap(Units u)
+    public TrackMap(AnalysisColumns c)
     {
         Map(r => r.TrackId).Name("track_id"); Map(r => r.FirstFrame).Name("first_frame"); Map(r => r.LastFrame).Name("last_frame");
-        Map(r => r.Frames).Name("frames"); Map(r => r.Duration).Name($"duration_{u.T}"); Map(r => r.End).Name("end");
-        Map(r => r.InStatistics).Name("in_statistics"); Map(r => r.MeanArea).Name($"mean_area_{u.L2}");
-        Map(r => r.MeanLength).Name($"mean_length_{u.L}"); Map(r => r.MeanWidth).Name($"mean_width_{u.L}");
-        Map(r => r.VarL).Name($"var_L_{u.L2}"); Map(r => r.VarW).Name($"var_W_{u.L2}");
-        Map(r => r.VarAlongRaw).Name($"var_along_raw_{u.L2}"); Map(r => r.VarAcrossRaw).Name($"var_across_raw_{u.L2}");
-        Map(r => r.FloorAlong).Name($"floor_along_{u.L2}"); Map(r => r.FloorAcross).Name($"floor_across_{u.L2}");
-        Map(r => r.VarAlong).Name($"var_along_{u.L2}"); Map(r => r.VarAcross).Name($"var_across_{u.L2}");
+        Map(r => r.Frames).Name("frames"); Map(r => r.Duration).Name(c.Duration); Map(r => r.End).Name("end");
+        Map(r => r.InStatistics).Name("in_statistics"); Map(r => r.MeanArea).Name(c.MeanArea);
+        Map(r => r.MeanLength).Name(c.MeanLength); Map(r => r.MeanWidth).Name(c.MeanWidth);
+        Map(r => r.VarL).Name(c.VarL); Map(r => r.VarW).Name(c.VarW);
+        Map(r => r.VarAlongRaw).Name(c.VarAlongRaw); Map(r => r.VarAcrossRaw).Name(c.VarAcrossRaw);
+        Map(r => r.FloorAlong).Name(c.FloorAlong); Map(r => r.FloorAcross).Name(c.FloorAcross);
+        Map(r => r.VarAlong).Name(c.VarAlong); Map(r => r.VarAcross).Name(c.VarAcross);
         Map(r => r.BelowFloor).Name("below_floor");
     }
 }
 
 internal sealed class SpectrumMap : ClassMap<SpectrumRow>
 {
-    public SpectrumMap(Units u)
+    public SpectrumMap(AnalysisColumns c)
     {
-        Map(r => r.Mode).Name("mode"); Map(r => r.PowerRaw).Name($"power_raw_{u.L2}");
-        Map(r => r.Floor).Name($"floor_{u.L2}"); Map(r => r.PowerCorrected).Name($"power_corrected_{u.L2}");
+        Map(r => r.Mode).Name("mode"); Map(r => r.PowerRaw).Name(c.PowerRaw);
+        Map(r => r.Floor).Name(c.Floor); Map(r => r.PowerCorrected).Name(c.PowerCorrected);
     }
 }
 
 internal sealed class ProfileMap : ClassMap<ProfileRow>
 {
-    public ProfileMap(Units u)
+    public ProfileMap(AnalysisColumns c)
     {
         Map(r => r.AngleLowDeg).Name("normal_angle_low_deg"); Map(r => r.AngleHighDeg).Name("normal_angle_high_deg");
-        Map(r => r.AngleDeg).Name("normal_angle_deg"); Map(r => r.VarianceRaw).Name($"variance_raw_{u.L2}");
-        Map(r => r.Floor).Name($"floor_{u.L2}"); Map(r => r.VarianceCorrected).Name($"variance_corrected_{u.L2}");
+        Map(r => r.AngleDeg).Name("normal_angle_deg"); Map(r => r.VarianceRaw).Name(c.VarianceRaw);
+        Map(r => r.Floor).Name(c.Floor); Map(r => r.VarianceCorrected).Name(c.VarianceCorrected);
     }
 }
 
-/// <summary>Builds the tidy tables of an analysis in the run's units (lengths x s, areas and variances x s^2, times x dt).</summary>
+/// <summary>Builds the tidy tables of an analysis in the run's units (factors from <see cref="UnitScale"/>; column names from <see cref="AnalysisColumns"/>).</summary>
 public static class Tables
 {
     /// <summary>cells.csv rows, produced lazily (a large movie has hundreds of thousands).</summary>
     public static IEnumerable<CellRow> Cells(AnalysisResult r)
     {
-        double s = r.Units.S, s2 = s * s, dt = r.Units.Dt;
+        var u = UnitScale.Of(r.Units);
+        double s = u.LengthFactor, s2 = u.AreaFactor, dt = u.TimeFactor;
         var used = new HashSet<int>();
         foreach (var t in r.Tracks) if (t.Used) used.Add(t.Id);
         foreach (var c in r.Cells)
@@ -145,7 +144,8 @@ public static class Tables
 
     public static List<TrackRow> Tracks(AnalysisResult r)
     {
-        double s = r.Units.S, s2 = s * s, dt = r.Units.Dt;
+        var u = UnitScale.Of(r.Units);
+        double s = u.LengthFactor, s2 = u.AreaFactor, dt = u.TimeFactor;
         var fr = r.FloorReference;
         var rows = new List<TrackRow>(r.Tracks.Count);
         foreach (var t in r.Tracks)
@@ -170,7 +170,7 @@ public static class Tables
 
     public static List<SpectrumRow> Spectrum(AnalysisResult r)
     {
-        double s2 = r.Units.S * r.Units.S;
+        double s2 = UnitScale.Of(r.Units).AreaFactor;
         var p = r.Pooled;
         var rows = new List<SpectrumRow>();
         for (int n = 2; n < p.ModePowerRaw.Length; n++)
@@ -180,7 +180,7 @@ public static class Tables
 
     public static List<ProfileRow> Profile(AnalysisResult r)
     {
-        double s2 = r.Units.S * r.Units.S;
+        double s2 = UnitScale.Of(r.Units).AreaFactor;
         var p = r.Pooled;
         int bins = p.ProfileBinCentreDeg.Length;
         double width = 90.0 / bins;
@@ -192,10 +192,11 @@ public static class Tables
 
     public static List<CorrelationRow> Correlations(AnalysisResult r)
     {
+        double dt = UnitScale.Of(r.Units).TimeFactor;
         var rows = new List<CorrelationRow>();
         foreach (var s in r.Dynamics.Series)
             for (int k = 0; k < s.Correlation.Length; k++)
-                rows.Add(new CorrelationRow(s.Name, k, k * r.Units.Dt, s.Correlation[k], s.Pairs[k], s.Low[k], s.High[k], s.Model[k]));
+                rows.Add(new CorrelationRow(s.Name, k, k * dt, s.Correlation[k], s.Pairs[k], s.Low[k], s.High[k], s.Model[k]));
         return rows;
     }
 
@@ -203,7 +204,8 @@ public static class Tables
 
     public static List<DefectRow> Defects(AnalysisResult r)
     {
-        double s = r.Units.S, dt = r.Units.Dt, sv = s / dt;
+        var u = UnitScale.Of(r.Units);
+        double s = u.LengthFactor, dt = u.TimeFactor, sv = u.SpeedFactor;
         return r.Defects.Observations.Select(o => new DefectRow(o.Frame, o.Frame * dt, o.TrackId, o.Defect.Charge, o.Defect.X * s, o.Defect.Y * s,
             o.Defect.X, o.Defect.Y, N(o.Defect.HeadX), N(o.Defect.HeadY), N(o.Vx * sv), N(o.Vy * sv), N(o.HeadwardSpeed * sv),
             N(o.FlowVx * sv), N(o.FlowVy * sv), N(o.FlowHeadwardSpeed * sv), o.Defect.Order)).ToList();
@@ -211,7 +213,8 @@ public static class Tables
 
     public static List<FlowRow> DefectFlow(AnalysisResult r)
     {
-        var f = r.Defects.Flow; double s = r.Units.S, sv = s / r.Units.Dt, c = r.Defects.CoarsePx;
+        var u = UnitScale.Of(r.Units);
+        var f = r.Defects.Flow; double s = u.LengthFactor, sv = u.SpeedFactor, c = r.Defects.CoarsePx;
         var rows = new List<FlowRow>();
         int side = 2 * f.Half + 1;
         if (f.Samples.Length == 0) return rows;
@@ -236,13 +239,13 @@ public static class Tables
 
     public static void WriteAll(AnalysisResult r, string dir)
     {
-        var u = r.Units;
-        Write(Path.Combine(dir, "cells.csv"), Cells(r), new CellMap(u));
-        Write(Path.Combine(dir, "tracks.csv"), Tracks(r), new TrackMap(u));
-        Write(Path.Combine(dir, "spectrum.csv"), Spectrum(r), new SpectrumMap(u));
-        Write(Path.Combine(dir, "profile.csv"), Profile(r), new ProfileMap(u));
-        Write(Path.Combine(dir, "autocorrelation.csv"), Correlations(r), new CorrelationMap(u));
-        Write(Path.Combine(dir, "defects.csv"), Defects(r), new DefectMap(u));
-        Write(Path.Combine(dir, "defect-flow.csv"), DefectFlow(r), new FlowMap(u));
+        var c = AnalysisFolder.Columns(UnitScale.Of(r.Units));
+        Write(Path.Combine(dir, AnalysisFolder.Cells), Cells(r), new CellMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.Tracks), Tracks(r), new TrackMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.Spectrum), Spectrum(r), new SpectrumMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.Profile), Profile(r), new ProfileMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.Autocorrelation), Correlations(r), new CorrelationMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.Defects), Defects(r), new DefectMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.DefectFlow), DefectFlow(r), new FlowMap(c));
     }
 }

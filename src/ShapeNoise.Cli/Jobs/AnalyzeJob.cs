@@ -20,9 +20,11 @@ public static class AnalyzeJob
     /// <param name="extraInputs">Further input files for run.json (e.g. the raw movie a label movie was segmented from).</param>
     /// <param name="velocities">Cell velocities of the defect stage, chosen before the run (e.g. optical flow of the raw
     /// movie); null = tracked centroids.</param>
+    /// <param name="extraFiles">Optional further files written into the output folder (e.g. a copy of the segmentation).</param>
     public static AnalysisResult Run(string input, OutputTarget outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
         IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null,
-        IEnumerable<string>? extraInputs = null, ShapeNoise.Nematic.IVelocitySource? velocities = null)
+        IEnumerable<string>? extraInputs = null, ShapeNoise.Nematic.IVelocitySource? velocities = null,
+        Action<string>? extraFiles = null)
     {
         options.Validated();
         OutputFolder.Check(outDir);
@@ -52,7 +54,7 @@ public static class AnalyzeJob
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
         prov["movie"] = Provenance.Movie(result.Movie, result.Units.PixelSizeUm, result.Units.PixelSizeSource, result.Units.FrameIntervalMin, result.Units.FrameIntervalSource);
         var figs = frameFigures;
-        ResultWriter.Write(result, outDir, prov, figs is null ? null : dir => figs.Write(result, () => open(input), dir));
+        ResultWriter.Write(result, outDir, prov, figs is null ? null : () => figs.Draw(result, () => open(input)), extraFiles);
         return result;
     }
 }

@@ -20,14 +20,14 @@ public static class CompareJob
         var rows = ConditionTable.Read(conditionsCsv);
         inputs.Add(conditionsCsv);
         foreach (var r in rows)
-            if (!File.Exists(Path.Combine(r.Path, "summary.json")) && !File.Exists(r.Path) && !Directory.Exists(r.Path))
+            if (!AnalysisFolder.IsAnalysisFolder(r.Path) && !File.Exists(r.Path) && !Directory.Exists(r.Path))
                 throw new InputException(r.Path, $"listed in {Path.GetFileName(conditionsCsv)} does not exist");
         RefuseRepeatedData(conditionsCsv, rows);
         var movies = new List<MovieData>();
         foreach (var r in rows)
         {
             string folder = r.Path;
-            if (!File.Exists(Path.Combine(folder, "summary.json")))
+            if (!AnalysisFolder.IsAnalysisFolder(folder))
             {
                 folder = Path.Combine(analysisDir, Safe($"{r.Condition}-{r.Replicate}"));
                 try { AnalyzeJob.Run(r.Path, folder, options, open, null, null, figures); }
@@ -37,7 +37,7 @@ public static class CompareJob
                     throw new InputException(e.PathName, $"{e.Problem} — compare cannot pick a plane itself: run analyze on this movie with that option and list its analysis folder in {Path.GetFileName(conditionsCsv)}");
                 }
             }
-            inputs.Add(Path.Combine(folder, "summary.json")); inputs.Add(Path.Combine(folder, "tracks.csv")); inputs.Add(Path.Combine(folder, "defects.csv"));
+            inputs.AddRange(AnalysisFolder.LoadedFiles(folder));
             movies.Add(AnalysisFolder.Load(r.Condition, r.Replicate, folder));
         }
         return movies;
@@ -65,7 +65,7 @@ public static class CompareJob
         {
             string real = RealPath(r.Path);
             if (byPath.TryGetValue(real, out var first))
-                throw new InputException(conditionsCsv, $"{first.Describe()} and {r.Describe()} are the same {(File.Exists(Path.Combine(real, "summary.json")) ? "analysis folder" : "movie")} ({real}); list each movie once");
+                throw new InputException(conditionsCsv, $"{first.Describe()} and {r.Describe()} are the same {(AnalysisFolder.IsAnalysisFolder(real) ? "analysis folder" : "movie")} ({real}); list each movie once");
             byPath[real] = r;
             foreach (var (name, sha) in DataHashes(real).DistinctBy(x => x.Sha))   // a movie may repeat a frame within itself
             {
@@ -79,8 +79,8 @@ public static class CompareJob
     /// <summary>SHA-256 of the data behind a row: an analysis folder's run.json inputs (floor.json excepted), or the movie file(s).</summary>
     private static IEnumerable<(string Name, string Sha)> DataHashes(string path)
     {
-        string run = Path.Combine(path, "run.json");
-        if (File.Exists(Path.Combine(path, "summary.json")))
+        string run = Path.Combine(path, AnalysisFolder.Run);
+        if (AnalysisFolder.IsAnalysisFolder(path))
         {
             if (!File.Exists(run)) yield break;   // an analysis folder without provenance: only its path can be compared
             JsonNode? doc;
@@ -90,7 +90,7 @@ public static class CompareJob
             foreach (var i in arr)
             {
                 string? name = i?["name"]?.GetValue<string>(), sha = i?["sha256"]?.GetValue<string>();
-                if (name is null || sha is null || name == "floor.json") continue;
+                if (name is null || sha is null || name == AnalysisFolder.Floor) continue;
                 yield return ($"{Path.GetFileName(path)}/run.json input {name}", sha);
             }
         }
@@ -133,28 +133,28 @@ public static class CompareJob
             result = ConditionComparison.Run(movies, options.BootstrapResamples, options.Seed);
             ComparisonReport.Write(result, dir);
             var prov = Provenance.Describe("compare", inputs, new JsonObject { ["bootstrap"] = options.BootstrapResamples, ["seed"] = options.Seed }, commandLine);
-            File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
+            File.WriteAllText(Path.Combine(dir, AnalysisFolder.Run), prov.ToJsonString(Summary.Indented));
         });
         return result!;
     }
 
     public static PlanResult Plan(IReadOnlyList<string> pilotFolders, double effect, string measure, OutputTarget outDir, IEnumerable<string>? commandLine = null)
     {
-        if (measure is not ("anisotropy" or "anisotropy_contour")) throw new ArgumentException($"--measure must be anisotropy or anisotropy_contour (got '{measure}')");
+        if (measure != Measures.Anisotropy.Name && measure != Measures.AnisotropyContour.Name) throw new ArgumentException($"--measure must be anisotropy or anisotropy_contour (got '{measure}')");
         OutputFolder.Check(outDir);
         var inputs = new List<string>();
         var pilots = new List<MovieData>();
         foreach (var p in pilotFolders)
         {
             // A pilot folder is one analysis folder, or a folder of analysis folders (one condition's movies).
-            var folders = File.Exists(Path.Combine(p, "summary.json")) ? [p]
-                : Directory.Exists(p) ? Directory.GetDirectories(p).Where(d => File.Exists(Path.Combine(d, "summary.json"))).OrderBy(d => d, StringComparer.Ordinal).ToList()
+            var folders = AnalysisFolder.IsAnalysisFolder(p) ? [p]
+                : Directory.Exists(p) ? Directory.GetDirectories(p).Where(AnalysisFolder.IsAnalysisFolder).OrderBy(d => d, StringComparer.Ordinal).ToList()
                 : throw new InputException(p, "no such folder");
             if (folders.Count == 0) throw new InputException(p, "holds no shapenoise analysis folder (no summary.json)");
             foreach (var f in folders)
             {
                 pilots.Add(AnalysisFolder.Load(Path.GetFileName(p.TrimEnd('/')), Path.GetFileName(f), f));
-                inputs.Add(Path.Combine(f, "tracks.csv"));
+                inputs.Add(Path.Combine(f, AnalysisFolder.Tracks));
             }
         }
         var plan = ExperimentPlan.Run(pilots, effect, measure);
@@ -162,7 +162,7 @@ public static class CompareJob
         {
             ComparisonReport.WritePlan(plan, dir);
             var prov = Provenance.Describe("plan", inputs, new JsonObject { ["effect"] = effect, ["measure"] = measure }, commandLine);
-            File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
+            File.WriteAllText(Path.Combine(dir, AnalysisFolder.Run), prov.ToJsonString(Summary.Indented));
         });
         return plan;
     }

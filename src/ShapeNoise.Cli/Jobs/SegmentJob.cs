@@ -87,21 +87,18 @@ public static class RawAnalyzeJob
         try
         {
             SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection);
-            var figures = new CopyThenOverlays(temp);
-            return AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, figures, [raw],
-                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? new ShapeNoise.Imaging.Flow.OpticalFlowVelocity(raw, selection) : null);
+            return AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, new ShapeNoise.Imaging.Drawing.DefectOverlays(), [raw],
+                options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? new ShapeNoise.Imaging.Flow.OpticalFlowVelocity(raw, selection) : null,
+                dir => CopySegmentation(temp, dir));
         }
         finally { Scratch.Delete(temp); }
     }
 
-    private sealed class CopyThenOverlays(string segDir) : ShapeNoise.Pipeline.IFrameFigures
+    /// <summary>Copies the segmentation's files into the analysis folder's segmentation/ subfolder.</summary>
+    private static void CopySegmentation(string segDir, string dir)
     {
-        public void Write(ShapeNoise.Pipeline.AnalysisResult result, Func<ILabelMovie> reopen, string dir)
-        {
-            string target = Path.Combine(dir, "segmentation");
-            Directory.CreateDirectory(target);
-            foreach (var f in Directory.GetFiles(segDir)) File.Copy(f, Path.Combine(target, Path.GetFileName(f)));
-            new ShapeNoise.Imaging.Drawing.DefectOverlays().Write(result, reopen, dir);
-        }
+        string target = Path.Combine(dir, "segmentation");
+        Directory.CreateDirectory(target);
+        foreach (var f in Directory.GetFiles(segDir)) File.Copy(f, Path.Combine(target, Path.GetFileName(f)));
     }
 }

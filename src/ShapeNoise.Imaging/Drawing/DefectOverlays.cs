@@ -12,10 +12,15 @@ namespace ShapeNoise.Imaging.Drawing;
 /// </summary>
 public sealed class DefectOverlays(int frames = 3) : IFrameFigures
 {
-    public void Write(AnalysisResult r, Func<ILabelMovie> reopen, string dir)
+    /// <summary>The caption shared by the overlay frames (one strip in the report).</summary>
+    public const string Caption = "Frames with each cell's long axis (short lines), +1/2 defects as red comets (the dot is the head) and −1/2 defects as blue three-armed symbols.";
+
+    /// <summary>Draws the chosen frames (first, last, evenly between) and hands them back as defects-frame-NNN.png figures, in frame order.</summary>
+    public IReadOnlyList<Figure> Draw(AnalysisResult r, Func<ILabelMovie> reopen)
     {
+        var figures = new List<Figure>();
         int total = r.Counts.Frames;
-        if (total == 0) return;
+        if (total == 0) return figures;
         var wanted = Enumerable.Range(0, frames).Select(i => frames == 1 ? 0 : (int)Math.Round(i * (total - 1) / (double)(frames - 1))).Distinct().ToHashSet();
         var cellsByFrame = r.Cells.Where(c => wanted.Contains(c.Frame)).GroupBy(c => c.Frame).ToDictionary(g => g.Key, g => g.ToList());
         var defectsByFrame = r.Defects.Observations.GroupBy(o => o.Frame).ToDictionary(g => g.Key, g => g.ToList());
@@ -24,9 +29,10 @@ public sealed class DefectOverlays(int frames = 3) : IFrameFigures
         {
             if (!wanted.Contains(frame.Index)) continue;
             using var img = Draw(frame, cellsByFrame.GetValueOrDefault(frame.Index) ?? [], defectsByFrame.GetValueOrDefault(frame.Index) ?? [], r.Defects.CoarsePx);
-            Cv2.ImWrite(Path.Combine(dir, $"defects-frame-{frame.Index:D3}.png"), img);
+            figures.Add(new Figure($"defects-frame-{frame.Index:D3}.png", Caption, img.ImEncode(".png")));
             if (frame.Index >= wanted.Max()) break;
         }
+        return figures;
     }
 
     /// <summary>Draws one frame (scaled up so the symbols stay legible on small movies).</summary>
