@@ -1,5 +1,4 @@
 using ShapeNoise.Fluctuations;
-using ShapeNoise.Tracking;
 using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Dynamics;
