@@ -28,7 +28,7 @@ EXIT CODES:
         try { return body(); }
         catch (InputException e) { Error(e.Message); return BadInput; }
         catch (OutputException e) { Error($"{e.Message}"); return Unwritable; }
-        catch (ArgumentException e) { Error(e.Message); return BadOptions; }
+        catch (ArgumentException e) { Error(OptionNames.ToFlags(e.Message)); return BadOptions; }
         catch (CommandParseException e) { Error(e.Message); return BadOptions; }
         catch (CommandRuntimeException e) { Error(e.Message); return BadOptions; }
         catch (Exception e) { Error($"unexpected {e.GetType().Name}: {e.Message}"); return Unexpected; }

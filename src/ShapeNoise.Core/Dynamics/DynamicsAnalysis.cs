@@ -1,6 +1,4 @@
 using ShapeNoise.Fluctuations;
-using ShapeNoise.Tracking;
-using ShapeNoise.Pipeline;
 using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Dynamics;
@@ -30,7 +28,10 @@ public static class DynamicsAnalysis
         ("across", "mean normal displacement of the outline in the flank sector"),
     ];
 
-    public static DynamicsResult Run(IReadOnlyList<TrackRecord> allTracks, AnalysisOptions options)
+    /// <summary>Correlation curves, Ornstein-Uhlenbeck fits per coordinate, the Sokal integrated time of q and the
+    /// orientation correlation time over the used tracks (docs/dynamics.md), each with a bootstrap over tracks
+    /// (<paramref name="options"/>: longest lag, resamples, seed).</summary>
+    public static DynamicsResult Run(IReadOnlyList<TrackRecord> allTracks, DynamicsOptions options)
     {
         var tracks = allTracks.Where(t => t.Used && t.Contour is not null).ToList();
         if (tracks.Count == 0) return DynamicsResult.Empty;

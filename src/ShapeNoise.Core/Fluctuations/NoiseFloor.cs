@@ -1,6 +1,3 @@
-using ShapeNoise.Tracking;
-using ShapeNoise.Pipeline;
-
 namespace ShapeNoise.Fluctuations;
 
 /// <summary>The noise floor a track's contour variances are corrected by (docs/measures.md#noise-floor): the fixed-cell

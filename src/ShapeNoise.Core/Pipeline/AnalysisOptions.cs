@@ -1,4 +1,8 @@
+using System.Text.Json.Serialization;
+using ShapeNoise.Dynamics;
+using ShapeNoise.Fluctuations;
 using ShapeNoise.Outlines;
+using ShapeNoise.Tracking;
 
 namespace ShapeNoise.Pipeline;
 
@@ -8,7 +12,8 @@ public enum VelocitySource { Centroids, Flow }
 /// <summary>File format of the simulation parameters.</summary>
 public enum SimFormat { Json, Toml }
 
-/// <summary>Options of <c>analyze</c>; validated on construction. Defaults are the spec's.</summary>
+/// <summary>Options of <c>analyze</c>, flat as the CLI and run.json see them; <see cref="Validated"/> checks them, and the
+/// <c>For*</c> properties hand each stage its own (self-checking) record. Defaults are the spec's.</summary>
 public sealed record AnalysisOptions
 {
     /// <summary>Rays per outline, M (multiple of 8, at least 16).</summary>
@@ -52,27 +57,34 @@ public sealed record AnalysisOptions
     /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
     public string? FloorFrom { get; init; }
 
+    /// <summary>The outline stage's options (checked when built).</summary>
+    [JsonIgnore] public OutlineOptions ForOutlines => new(Outline, BorderMarginPx, MinAreaPx);
+    /// <summary>The tracking stage's options (checked when built).</summary>
+    [JsonIgnore] public TrackingOptions ForTracking => new(LinkOverlapFraction, MaxGapFrames, MinTrackFrames);
+    /// <summary>The pooling stage's options (checked when built).</summary>
+    [JsonIgnore] public PoolingOptions ForPooling => new(BootstrapResamples, Seed);
     /// <summary>The defect stage's options: --coarse and --grid parsed once (<see cref="Nematic.LengthSpec.Parse"/>), with
     /// the bootstrap resamples and seed. A method, not a property, so run.json keeps the option strings only.</summary>
     public Nematic.DefectOptions ToDefectOptions() =>
         new(Nematic.LengthSpec.Parse(CoarseWidth, "--coarse"), Nematic.LengthSpec.Parse(GridSpacing, "--grid"), BootstrapResamples, Seed);
+    /// <summary>The dynamics stage's options (checked when built).</summary>
+    [JsonIgnore] public DynamicsOptions ForDynamics => new(MaxLagFrames, BootstrapResamples, Seed);
 
-    /// <summary>Throws <see cref="ArgumentException"/> naming the option when a value is out of range.</summary>
+    /// <summary>Throws <see cref="ArgumentException"/> when a value is out of range: builds every stage's options (which
+    /// check themselves) and checks the rest. Messages start with the property's name (<c>nameof</c>); the CLI turns it
+    /// into the flag (ShapeNoise.Cli.OptionNames).</summary>
     public AnalysisOptions Validated()
     {
-        if (Rays < 16 || Rays % 8 != 0) throw new ArgumentException($"--rays must be a multiple of 8 and at least 16 (got {Rays})");
-        if (MinAreaPx < 3) throw new ArgumentException($"--min-area must be at least 3 px (got {MinAreaPx})");
-        if (BorderMarginPx < 0) throw new ArgumentException($"--border-margin must be >= 0 (got {BorderMarginPx})");
-        if (MinTrackFrames < 3) throw new ArgumentException($"--min-track must be at least 3 frames (got {MinTrackFrames})");
-        if (MaxGapFrames < 0) throw new ArgumentException($"--max-gap must be >= 0 frames (got {MaxGapFrames})");
-        if (LinkOverlapFraction is <= 0 or > 1) throw new ArgumentException($"--link-overlap must be in (0, 1] (got {LinkOverlapFraction})");
-        if (PixelSizeUm is { } s && !(s > 0 && double.IsFinite(s))) throw new ArgumentException($"--pixel-size must be a positive number (got {s})");
-        if (FrameIntervalMin is { } t && !(t > 0 && double.IsFinite(t))) throw new ArgumentException($"--frame-interval must be a positive number (got {t})");
-        if (MaxLagFrames < 2) throw new ArgumentException($"--max-lag must be at least 2 frames (got {MaxLagFrames})");
+        if (Rays < 16 || Rays % 8 != 0) throw new ArgumentException($"{nameof(Rays)} must be a multiple of 8 and at least 16 (got {Rays})");
+        _ = ForOutlines;
+        _ = ForTracking;
+        if (PixelSizeUm is { } s && !(s > 0 && double.IsFinite(s))) throw new ArgumentException($"{nameof(PixelSizeUm)} must be a positive number (got {s})");
+        if (FrameIntervalMin is { } t && !(t > 0 && double.IsFinite(t))) throw new ArgumentException($"{nameof(FrameIntervalMin)} must be a positive number (got {t})");
+        _ = ForDynamics;
         if (TimeUnit is not ("tau_q" or "min") && !(double.TryParse(TimeUnit, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var tu) && tu > 0 && double.IsFinite(tu)))
-            throw new ArgumentException($"--time-unit must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
-        if (BootstrapResamples < 0) throw new ArgumentException($"--bootstrap must be >= 0 (got {BootstrapResamples})");
+            throw new ArgumentException($"{nameof(TimeUnit)} must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
         _ = ToDefectOptions();
+        _ = ForPooling;
         return this;
     }
 }

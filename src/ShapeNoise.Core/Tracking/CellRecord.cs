@@ -1,4 +1,3 @@
-using ShapeNoise.Fluctuations;
 using ShapeNoise.Shape;
 
 namespace ShapeNoise.Tracking;

@@ -1,17 +1,16 @@
 using System.Numerics;
-using ShapeNoise.Fluctuations;
-using ShapeNoise.Pipeline;
 using ShapeNoise.Shape;
-using ShapeNoise.Statistics;
 
 namespace ShapeNoise.Tracking;
 
 /// <summary>
 /// Accumulates the outlines of the tracks that are still open, keeps the long axis continuous modulo pi along each track
 /// (each frame takes the representative within pi/2 of the previous one, which shifts the body-frame samples by M/2 when
-/// it adds pi), and turns a track into a <see cref="TrackRecord"/> when it ends. Open tracks keep their radii in a temporary file (<see cref="RadiusStore"/>), so memory does not grow with the movie's length.
+/// it adds pi), and hands a track over as a <see cref="FinishedTrack"/> when it ends. Open tracks keep their radii in a
+/// temporary file (<see cref="RadiusStore"/>), so memory does not grow with the movie's length; a finished track's radii
+/// are read back once, into its <see cref="FinishedTrack.BodyFrameRadiiPx"/>.
 /// </summary>
-public sealed class TrackBuilder(int rays, int minTrackFrames) : IDisposable
+internal sealed class TrackBuilder(int rays) : IDisposable
 {
     private readonly RadiusStore _store = new(rays);
     private sealed class Open
@@ -27,7 +26,7 @@ public sealed class TrackBuilder(int rays, int minTrackFrames) : IDisposable
     private int _nextId = 1;
 
     /// <summary>Tracks that have ended, in the order they ended.</summary>
-    public List<TrackRecord> Finished { get; } = [];
+    public List<FinishedTrack> Finished { get; } = [];
 
     /// <summary>Track id held by an open slot.</summary>
     public int IdOf(int slot) => _slots[slot]!.Id;
@@ -81,25 +80,13 @@ public sealed class TrackBuilder(int rays, int minTrackFrames) : IDisposable
         var tr = _slots[slot] ?? throw new InvalidOperationException("slot is not open");
         _slots[slot] = null; _free.Push(slot);
         int n = tr.Frames.Count;
-        bool used = n >= minTrackFrames;
-        TrackContour? contour = null;
-        double varL = double.NaN, varW = double.NaN;
-        if (n >= 2)
-        {
-            varL = Descriptive.PopulationVariance(tr.L.ToArray());
-            varW = Descriptive.PopulationVariance(tr.W.ToArray());
-        }
-        if (used)
-        {
-            // Modes are recomputed here rather than kept per outline: open tracks then hold only their radii.
-            var rho = new double[n * rays];
-            for (int t = 0; t < n; t++) _store.Read(tr.Rho[t], rho.AsSpan(t * rays, rays));
-            contour = ContourFluctuations.Of(rho, n, rays);
-        }
-        Finished.Add(new TrackRecord(tr.Id, tr.Frames[0], tr.Frames[^1], why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(),
-            tr.Q.ToArray(), tr.Theta.ToArray(), tr.Area.ToArray(), tr.Cx.ToArray(), tr.Cy.ToArray(), contour, varL, varW, used));
+        var rho = new double[n * rays];
+        for (int t = 0; t < n; t++) _store.Read(tr.Rho[t], rho.AsSpan(t * rays, rays));
+        Finished.Add(new FinishedTrack(tr.Id, why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(), tr.Q.ToArray(),
+            tr.Theta.ToArray(), tr.Area.ToArray(), tr.Cx.ToArray(), tr.Cy.ToArray(), rays, rho));
     }
 
+    /// <summary>Deletes the temporary radius file.</summary>
     public void Dispose() => _store.Dispose();
 
     /// <summary>Closes every open track.</summary>

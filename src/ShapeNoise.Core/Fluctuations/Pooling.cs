@@ -1,0 +1,89 @@
+using ShapeNoise.Statistics;
+
+namespace ShapeNoise.Fluctuations;
+
+/// <summary>Pooling of the tracks' fluctuation measures over one movie (docs/measures.md#movie-pooling).</summary>
+public static class Pooling
+{
+    /// <summary>Frame-weighted pooling over the used tracks with percentile bootstrap intervals over tracks
+    /// (docs/measures.md#movie-pooling): a pooled mean is sum_i N_i v_i / sum_i N_i (N_i = frames of track i); the
+    /// anisotropies are ratios of such means; contour variances are floor-corrected by <see cref="NoiseFloor"/>.</summary>
+    public static PooledFluctuations Of(IReadOnlyList<TrackRecord> allTracks, int m, PoolingOptions options, NoiseFloorReference? r)
+    {
+        var t = new List<TrackRecord>();
+        foreach (var x in allTracks) if (x.Used && x.Contour is not null) t.Add(x);
+        int n = t.Count;
+        var N = new double[n]; var vL = new double[n]; var vW = new double[n];
+        var aR = new double[n]; var cR = new double[n]; var aF = new double[n]; var cF = new double[n];
+        for (int i = 0; i < n; i++)
+        {
+            var c = t[i].Contour!;
+            N[i] = t[i].Frames;
+            vL[i] = t[i].VarLPx2 - (r?.VarLPx2 ?? 0);
+            vW[i] = t[i].VarWPx2 - (r?.VarWPx2 ?? 0);
+            aR[i] = c.VarAlongRaw; cR[i] = c.VarAcrossRaw;
+            aF[i] = NoiseFloor.AlongOf(c, r); cF[i] = NoiseFloor.AcrossOf(c, r);
+        }
+        double Mean(double[] v, int[] k) { double s = 0, w = 0; for (int i = 0; i < n; i++) { s += k[i] * N[i] * v[i]; w += k[i] * N[i]; } return w > 0 ? s / w : double.NaN; }
+        double Diff(double[] a, double[] b, int[] k) => Mean(a, k) - Mean(b, k);
+        int B = options.BootstrapResamples, seed = options.Seed;
+        var anis = Bootstrap.Percentile(n, k => Mean(vL, k) / Mean(vW, k), B, seed);
+        var anisC = Bootstrap.Percentile(n, k => Diff(aR, aF, k) / Diff(cR, cF, k), B, seed);
+        var anisCRaw = Bootstrap.Percentile(n, k => Mean(aR, k) / Mean(cR, k), B, seed);
+        var varL = Bootstrap.Percentile(n, k => Mean(vL, k), B, seed);
+        var varW = Bootstrap.Percentile(n, k => Mean(vW, k), B, seed);
+        var along = Bootstrap.Percentile(n, k => Diff(aR, aF, k), B, seed);
+        var across = Bootstrap.Percentile(n, k => Diff(cR, cF, k), B, seed);
+        var ones = new int[n]; Array.Fill(ones, 1);
+
+        var (spec, floorMode, centres, profRaw, profCorr, profFloor) = SpectrumAndProfile(t, m, r);
+        return new PooledFluctuations(anis, anisC, anisCRaw, varL, varW, along, across,
+            Mean(aR, ones), Mean(cR, ones), Mean(aF, ones), Mean(cF, ones), floorMode, spec, centres, profRaw, profCorr, profFloor);
+    }
+
+    /// <summary>Frame-weighted mode spectrum p_n, floor per mode, and the variance profile against the normal's angle to
+    /// the long axis (9 bins over [0, 90] degrees), raw, floor and corrected.</summary>
+    private static (double[] Spec, double FloorMode, double[] Centres, double[] ProfRaw, double[] ProfCorr, double[] ProfFloor)
+        SpectrumAndProfile(List<TrackRecord> t, int m, NoiseFloorReference? r)
+    {
+        int nm = m / 2 + 1;
+        var spec = new double[nm];
+        double floorMode = 0, wsum = 0;
+        const int bins = 9;
+        var profRaw = new double[bins]; var profFloor = new double[bins]; var profW = new double[bins]; var centres = new double[bins];
+        for (int b = 0; b < bins; b++) centres[b] = (b + 0.5) * 90.0 / bins;
+        foreach (var x in t)
+        {
+            var c = x.Contour!;
+            for (int j = 0; j < nm; j++) spec[j] += x.Frames * c.ModePower[j];
+            floorMode += x.Frames * (r?.FloorPerModePx2 ?? c.FloorPerMode);
+            wsum += x.Frames;
+            double floorScale = r is null ? 1 : (c.FloorPerMode > 0 ? r.FloorPerModePx2 / c.FloorPerMode : 0);
+            for (int k = 0; k < m; k++)
+            {
+                int b = Math.Min(bins - 1, (int)(c.NormalAngleDeg[k] / (90.0 / bins)));
+                double w = x.Frames * c.ArcWeight[k];
+                profRaw[b] += w * c.SampleVariance[k]; profFloor[b] += w * c.SampleFloor[k] * floorScale; profW[b] += w;
+            }
+        }
+        for (int j = 0; j < nm; j++) spec[j] = wsum > 0 ? spec[j] / wsum : double.NaN;
+        floorMode = wsum > 0 ? floorMode / wsum : double.NaN;
+        var profCorr = new double[bins];
+        for (int b = 0; b < bins; b++)
+        {
+            profRaw[b] = profW[b] > 0 ? profRaw[b] / profW[b] : double.NaN;
+            profFloor[b] = profW[b] > 0 ? profFloor[b] / profW[b] : double.NaN;
+            profCorr[b] = profRaw[b] - profFloor[b];
+        }
+        return (spec, floorMode, centres, profRaw, profCorr, profFloor);
+    }
+
+    /// <summary>Used tracks whose floor-corrected var_along or var_across is &lt;= 0 (docs/measures.md#noise-floor).</summary>
+    public static int TracksBelowFloor(IReadOnlyList<TrackRecord> tracks, NoiseFloorReference? floorReference)
+    {
+        int below = 0;
+        foreach (var t in tracks)
+            if (t.Used && t.Contour is { } c && (c.VarAlongRaw - NoiseFloor.AlongOf(c, floorReference) <= 0 || c.VarAcrossRaw - NoiseFloor.AcrossOf(c, floorReference) <= 0)) below++;
+        return below;
+    }
+}
