@@ -87,6 +87,15 @@ public sealed class OutlineTable
             }
             Flush();
         }
+        return Assemble(path, byFrame, firstSeen, allInteger, skipped, maxX, maxY, pixelSizeUm, frameIntervalMin);
+    }
+
+    /// <summary>The parsed cells as outlines per frame (ids kept or numbered by first appearance), with the warnings for
+    /// skipped outlines and frames missing between others.</summary>
+    private static OutlineTable Assemble(string path, SortedDictionary<int, List<(string Id, Point2[] Vertices)>> byFrame, Dictionary<string, int> firstSeen,
+        bool allInteger, int skipped, double maxX, double maxY, double? pixelSizeUm, double? frameIntervalMin)
+    {
+        var ci = CultureInfo.InvariantCulture;
         if (byFrame.Count == 0) throw new InputException(path, "holds no outline with 3 or more vertices");
         var frames = new List<(int, Outline[])>(byFrame.Count);
         foreach (var (frame, cells) in byFrame)

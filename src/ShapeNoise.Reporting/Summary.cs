@@ -17,6 +17,8 @@ public static class Summary
     /// <summary>{"value": x, "ci95": [lo, hi]}, with nulls where undefined.</summary>
     public static JsonObject Interval(Estimate e) => new() { ["value"] = Num(e.Value), ["ci95"] = new JsonArray(Num(e.Low), Num(e.High)) };
 
+    /// <summary>summary.json of one analysis (docs/measures.md#output-contract).</summary>
+    /// <remarks>Longer than 60 lines on purpose: one JSON literal that reads like the schema it writes.</remarks>
     public static JsonObject Build(AnalysisResult r)
     {
         var u = r.Units; var p = r.Pooled; var c = r.Counts; var us = UnitScale.Of(u);

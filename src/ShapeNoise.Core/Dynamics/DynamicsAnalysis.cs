@@ -28,6 +28,18 @@ public static class DynamicsAnalysis
         ("across", "mean normal displacement of the outline in the flank sector"),
     ];
 
+    private static readonly string[] Names = ["q", "length", "width", "along", "across"];
+    private static readonly string[] SeriesNames = ["q", "length", "width", "along", "across", "theta"];
+
+    /// <summary>Lag sums of every coordinate of the used tracks, and the lag ranges (K curve lags, fitted lags).</summary>
+    private sealed record Inputs(int Tracks, int MaxLen, int K, int FitLags, int[][] Frames, List<LagSums>[] Sums, List<LagSums> ThetaSums);
+
+    /// <summary>The point estimates: one OU fit per coordinate, the orientation fit, the Sokal time of q.</summary>
+    private sealed record Point(OuFit[] Fits, double[] CTheta, long[] ThetaPairs, PlateauFit ThetaFit, (double TauInt, int Window, bool Reached) Sokal);
+
+    /// <summary>Per bootstrap resample: tau, variance and D of every coordinate, every curve, tau_theta and Sokal's tau_int.</summary>
+    private sealed record Resamples(int B, double[,] Tau, double[,] Var, double[,] D, double[][,] Curve, double[] Theta, double[] TauInt);
+
     /// <summary>Correlation curves, Ornstein-Uhlenbeck fits per coordinate, the Sokal integrated time of q and the
     /// orientation correlation time over the used tracks (docs/dynamics.md), each with a bootstrap over tracks
     /// (<paramref name="options"/>: longest lag, resamples, seed).</summary>
@@ -35,87 +47,107 @@ public static class DynamicsAnalysis
     {
         var tracks = allTracks.Where(t => t.Used && t.Contour is not null).ToList();
         if (tracks.Count == 0) return DynamicsResult.Empty;
+        var inp = Prepare(tracks, options.MaxLagFrames);
+        var point = PointEstimates(inp);
+        var boot = Resample(inp, options.BootstrapResamples, options.Seed);
+        int K = inp.K;
+        var coords = new List<OuCoordinate>();
+        for (int s = 1; s < Names.Length; s++)
+        {
+            var f = point.Fits[s];
+            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Est(f.TauFrames, boot.Tau, s, boot.B), Est(f.SignalVariance, boot.Var, s, boot.B),
+                Est(f.SignalVariance / f.TauFrames, boot.D, s, boot.B), f.NoiseVariance, f.UncorrectedTauFrames));
+        }
+        var series = Curves(inp, point, boot);
+        var theta = Bootstrap.Interval(point.ThetaFit.TauFrames, boot.Theta);
+        var tauInt = Bootstrap.Interval(point.Sokal.TauInt, boot.TauInt);
+        var q = point.Fits[0];
+        return new DynamicsResult(K, inp.FitLags, series, Est(q.TauFrames, boot.Tau, 0, boot.B), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
+            theta, point.ThetaFit.Plateau, q.SignalVariance, coords, inp.Tracks);
+    }
+
+    private static Estimate Est(double value, double[,] boot, int row, int b) => Bootstrap.Interval(value, Enumerable.Range(0, b).Select(i => boot[row, i]));
+
+    private static Inputs Prepare(List<TrackRecord> tracks, int maxLagFrames)
+    {
         int maxLen = tracks.Max(t => t.FrameIndex[^1] - t.FrameIndex[0] + 1);
         var lengths = tracks.Select(t => t.Frames).OrderBy(n => n).ToArray();
         int medianLen = lengths[lengths.Length / 2];
-        int K = Math.Min(options.MaxLagFrames, maxLen - 1);
+        int K = Math.Min(maxLagFrames, maxLen - 1);
         int fitLags = Math.Min(K, Math.Max(4, medianLen / 3));
         var frames = tracks.Select(t => t.FrameIndex).ToArray();
-
-        var names = new[] { "q", "length", "width", "along", "across" };
         var values = new Func<TrackRecord, double[]>[] { t => t.Elongation, t => t.LengthPx, t => t.WidthPx, t => t.Contour!.AlongSeries, t => t.Contour!.AcrossSeries };
-        var sums = new List<LagSums>[names.Length];
-        for (int s = 0; s < names.Length; s++)
+        var sums = new List<LagSums>[Names.Length];
+        for (int s = 0; s < Names.Length; s++)
             sums[s] = tracks.Select(t => PooledAutocovariance.Of(new TrackSeries(t.FrameIndex, values[s](t)), K)).ToList();
         var thetaSums = tracks.Select(t => OrientationCorrelation.Of(new TrackSeries(t.FrameIndex, t.ThetaRad), K)).ToList();
+        return new Inputs(tracks.Count, maxLen, K, fitLags, frames, sums, thetaSums);
+    }
 
-        // Point estimates.
-        var fits = new OuFit[names.Length];
-        for (int s = 0; s < names.Length; s++) fits[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, [], fitLags);
-        var cTheta = OrientationCorrelation.Pool(thetaSums, [], out var thetaPairs);
-        var thetaFit = OrientationCorrelation.Fit(cTheta, thetaPairs, K, 20.0 * maxLen);
-        var cq = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(sums[0], [], out _));
+    private static Point PointEstimates(Inputs inp)
+    {
+        var fits = new OuFit[Names.Length];
+        for (int s = 0; s < Names.Length; s++) fits[s] = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, [], inp.FitLags);
+        var cTheta = OrientationCorrelation.Pool(inp.ThetaSums, [], out var thetaPairs);
+        var thetaFit = OrientationCorrelation.Fit(cTheta, thetaPairs, inp.K, 20.0 * inp.MaxLen);
+        var cq = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[0], [], out _));
         var sokal = IntegratedTime.Sokal(cq);
+        return new Point(fits, cTheta, thetaPairs, thetaFit, (sokal.TauInt, sokal.Window, sokal.Reached));
+    }
 
-        // Bootstrap over tracks: the resamples are drawn in order from one seeded stream, then evaluated in parallel.
-        int B = options.BootstrapResamples, n = tracks.Count;
-        var draws = Bootstrap.Draws(n, B, options.Seed);
-        var bTau = new double[names.Length, B]; var bVar = new double[names.Length, B]; var bD = new double[names.Length, B];
-        var bCurve = new double[names.Length + 1][,];
-        for (int s = 0; s <= names.Length; s++) bCurve[s] = new double[B, K + 1];
-        var bTheta = new double[B]; var bInt = new double[B];
+    /// <summary>Bootstrap over tracks: the resamples are drawn in order from one seeded stream, then evaluated in parallel.</summary>
+    private static Resamples Resample(Inputs inp, int B, int seed)
+    {
+        int K = inp.K, m = Names.Length;
+        var draws = Bootstrap.Draws(inp.Tracks, B, seed);
+        var r = new Resamples(B, new double[m, B], new double[m, B], new double[m, B], new double[m + 1][,], new double[B], new double[B]);
+        for (int s = 0; s <= m; s++) r.Curve[s] = new double[B, K + 1];
         Parallel.For(0, B, b =>
         {
             var w = draws[b];
-            for (int s = 0; s < names.Length; s++)
+            for (int s = 0; s < m; s++)
             {
-                var f = OrnsteinUhlenbeckFit.Fit(sums[s], frames, w, fitLags);
-                bTau[s, b] = f.TauFrames; bVar[s, b] = f.SignalVariance; bD[s, b] = f.SignalVariance / f.TauFrames;
-                var c = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(sums[s], w, out _));
-                for (int k = 0; k <= K; k++) bCurve[s][b, k] = c[k];
-                if (s == 0) bInt[b] = IntegratedTime.Sokal(c).TauInt;
+                var f = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, w, inp.FitLags);
+                r.Tau[s, b] = f.TauFrames; r.Var[s, b] = f.SignalVariance; r.D[s, b] = f.SignalVariance / f.TauFrames;
+                var c = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[s], w, out _));
+                for (int k = 0; k <= K; k++) r.Curve[s][b, k] = c[k];
+                if (s == 0) r.TauInt[b] = IntegratedTime.Sokal(c).TauInt;
             }
-            var ct = OrientationCorrelation.Pool(thetaSums, w, out var tp);
-            for (int k = 0; k <= K; k++) bCurve[names.Length][b, k] = ct[k];
-            bTheta[b] = OrientationCorrelation.Fit(ct, tp, K, 20.0 * maxLen).TauFrames;
+            var ct = OrientationCorrelation.Pool(inp.ThetaSums, w, out var tp);
+            for (int k = 0; k <= K; k++) r.Curve[m][b, k] = ct[k];
+            r.Theta[b] = OrientationCorrelation.Fit(ct, tp, K, 20.0 * inp.MaxLen).TauFrames;
         });
+        return r;
+    }
 
-        Estimate Est(double value, double[,] boot, int row) => Bootstrap.Interval(value, Enumerable.Range(0, B).Select(b => boot[row, b]));
-        var coords = new List<OuCoordinate>();
-        for (int s = 1; s < names.Length; s++)
-        {
-            var f = fits[s];
-            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Est(f.TauFrames, bTau, s), Est(f.SignalVariance, bVar, s),
-                Est(f.SignalVariance / f.TauFrames, bD, s), f.NoiseVariance, f.UncorrectedTauFrames));
-        }
-
+    /// <summary>Every pooled curve with its bootstrap band and fitted model (the OU model; for theta the plateau model).</summary>
+    private static List<SeriesCorrelation> Curves(Inputs inp, Point point, Resamples boot)
+    {
+        int K = inp.K, m = Names.Length;
         var series = new List<SeriesCorrelation>();
-        string[] seriesNames = ["q", "length", "width", "along", "across", "theta"];
-        for (int s = 0; s <= names.Length; s++)
+        for (int s = 0; s <= m; s++)
         {
             double[] corr; long[] pairs; double[] model;
-            if (s < names.Length)
+            if (s < m)
             {
-                corr = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(sums[s], [], out pairs));
-                model = OrnsteinUhlenbeckFit.ModelCorrelation(frames, fits[s], K);
+                corr = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[s], [], out pairs));
+                model = OrnsteinUhlenbeckFit.ModelCorrelation(inp.Frames, point.Fits[s], K);
             }
             else
             {
-                corr = cTheta; pairs = thetaPairs;
+                corr = point.CTheta; pairs = point.ThetaPairs;
+                var tf = point.ThetaFit;
                 model = new double[K + 1];
-                for (int k = 0; k <= K; k++) model[k] = k == 0 ? 1 : thetaFit.Plateau + thetaFit.Amplitude * Math.Exp(-k / thetaFit.TauFrames);
+                for (int k = 0; k <= K; k++) model[k] = k == 0 ? 1 : tf.Plateau + tf.Amplitude * Math.Exp(-k / tf.TauFrames);
             }
             var lo = new double[K + 1]; var hi = new double[K + 1];
             for (int k = 0; k <= K; k++)
             {
-                var e = Bootstrap.Interval(corr[k], Enumerable.Range(0, B).Select(b => bCurve[s][b, k]));
+                var e = Bootstrap.Interval(corr[k], Enumerable.Range(0, boot.B).Select(b => boot.Curve[s][b, k]));
                 lo[k] = e.Low; hi[k] = e.High;
             }
-            series.Add(new SeriesCorrelation(seriesNames[s], corr, pairs, lo, hi, model));
+            series.Add(new SeriesCorrelation(SeriesNames[s], corr, pairs, lo, hi, model));
         }
-        var theta = Bootstrap.Interval(thetaFit.TauFrames, bTheta);
-        var tauInt = Bootstrap.Interval(sokal.TauInt, bInt);
-        return new DynamicsResult(K, fitLags, series, Est(fits[0].TauFrames, bTau, 0), fits[0].UncorrectedTauFrames, tauInt, sokal.Window, sokal.Reached,
-            theta, thetaFit.Plateau, fits[0].SignalVariance, coords, n);
+        return series;
     }
 }
