@@ -77,7 +77,7 @@ public static class ConditionComparison
     };
 
     /// <summary>One hierarchical resample of a condition: movie draw counts, then unit multiplicities per measure.</summary>
-    private static (int[] Count, Dictionary<string, int[][]> Units) Draw(IReadOnlyList<MovieData> movies, Random rng)
+    private static (int[] Count, Dictionary<string, int[][]> Units) Draw(List<MovieData> movies, Random rng)
     {
         var counts = Measures.Select(k => (IReadOnlyList<int>)movies.Select(m => UnitCount(k, m)).ToArray()).ToList();
         var (count, units) = HierarchicalBootstrap.Draw(counts, movies.Count, rng);

@@ -3,11 +3,11 @@ using ShapeNoise.Reading;
 namespace ShapeNoise.Outlines;
 
 /// <summary>Bounding box and pixel count of one label in one frame (inclusive pixel bounds).</summary>
-public readonly record struct LabelBox(int Label, int MinX, int MinY, int MaxX, int MaxY, int PixelCount);
+internal readonly record struct LabelBox(int Label, int MinX, int MinY, int MaxX, int MaxY, int PixelCount);
 
 /// <summary>One pass over a frame: every label's bounding box and pixel count, and a dense index image
 /// (0 = background, i + 1 = the i-th label in <see cref="Boxes"/>).</summary>
-public sealed class LabelScan
+internal sealed class LabelScan
 {
     public LabelBox[] Boxes { get; }
     public int[] DenseImage { get; }

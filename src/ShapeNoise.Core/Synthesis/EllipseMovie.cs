@@ -21,7 +21,7 @@ public sealed record EllipseMovieOptions
     /// <summary>Correlation time of the semi-axis processes (frames).</summary>
     public double TauFrames { get; init; } = 5;
     /// <summary>Steady rotation speed of each cell's axis (degrees per frame; sign drawn per cell).</summary>
-    public double RotationDegPerFrame { get; init; } = 0;
+    public double RotationDegPerFrame { get; init; }
     /// <summary>Correlation time of the axis orientation under rotational diffusion (frames): C_theta(k) = exp(-k / tau_theta),
     /// i.e. angular steps of variance 1 / (2 tau_theta) rad^2 per frame, since E cos 2 dtheta = exp(-2 var dtheta). 0 = no rotational diffusion.</summary>
     public double TauThetaFrames { get; init; } = 40;

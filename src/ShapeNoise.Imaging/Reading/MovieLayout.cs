@@ -37,7 +37,7 @@ public sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series
         {
             if (MovieMetadata.OmeDocument(path, d) is { } doc) return Ome(path, doc, pages.Count);
             if (d.StartsWith("ImageJ=", StringComparison.Ordinal)) return ImageJ(path, d, pages);
-            if (d.TrimStart().StartsWith("{", StringComparison.Ordinal) && d.Contains("\"shape\"", StringComparison.Ordinal)) return Shaped(path, pages);
+            if (d.TrimStart().StartsWith('{') && d.Contains("\"shape\"", StringComparison.Ordinal)) return Shaped(path, pages);
         }
         return new MovieLayout("TIFF", [Sequential(pages.Count, 1, 1, MovieMetadata.FromPage(path, p0))]);
     }
@@ -78,7 +78,7 @@ public sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series
         while (at < pages.Count)
         {
             var d = pages[at].Description;
-            if (d is null || !d.TrimStart().StartsWith("{", StringComparison.Ordinal))
+            if (d is null || !d.TrimStart().StartsWith('{'))
                 throw new InputException(path, $"tifffile descriptions cover {at} of {pages.Count} pages; page {at + 1} starts no series");
             int[] shape; string? axes = null;
             try
