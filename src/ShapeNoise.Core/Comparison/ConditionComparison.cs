@@ -84,6 +84,7 @@ public static class ConditionComparison
         return (count, Measures.Select((k, j) => (k, units[j])).ToDictionary(x => x.k, x => x.Item2));
     }
 
+    /// <summary>Compares every pair of conditions on every measure in <see cref="Measures"/>: per condition the value with a 95% percentile interval from <paramref name="resamples"/> hierarchical resamples (one stream seeded by <paramref name="seed"/>, drawn in condition order), per pair a - b and a / b with intervals and the Welch p-value on movie-level values. Throws <see cref="Reading.InputException"/> when the movies are in different units.</summary>
     public static ComparisonResult Run(IReadOnlyList<MovieData> movies, int resamples, int seed)
     {
         var units = movies.Select(m => (m.LengthUnit, m.TimeUnit)).Distinct().ToList();

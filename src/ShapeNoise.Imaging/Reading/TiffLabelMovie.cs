@@ -8,7 +8,9 @@ public sealed class TiffLabelMovie : ILabelMovie
 {
     private readonly TiffPages _tiff;
     private readonly int[] _pages;
+    /// <inheritdoc/>
     public MovieInfo Info { get; }
+    /// <inheritdoc/>
     public IReadOnlyList<string> Files { get; }
 
     /// <summary>Opens a file whose every page is a frame of one plane (no option needed).</summary>
@@ -44,11 +46,13 @@ public sealed class TiffLabelMovie : ILabelMovie
         Files = [path];
     }
 
+    /// <inheritdoc/>
     public IEnumerable<LabelFrame> Frames()
     {
         for (int i = 0; i < _pages.Length; i++)
             yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i]));
     }
 
+    /// <inheritdoc/>
     public void Dispose() => _tiff.Dispose();
 }
