@@ -7,7 +7,7 @@ namespace ShapeNoise.Imaging.Reading;
 /// <remarks>PNG files are decoded with OpenCV (imread, IMREAD_UNCHANGED; palette PNGs only with the identity palette); TIFF
 /// files with <see cref="TiffPages"/>. Hidden files (names starting with '.') are skipped.
 /// Pixel size and frame interval come from the first TIFF's metadata when it has any.</remarks>
-public sealed class FolderLabelMovie : ILabelMovie
+internal sealed class FolderLabelMovie : ILabelMovie
 {
     /// <inheritdoc/>
     public MovieInfo Info { get; }

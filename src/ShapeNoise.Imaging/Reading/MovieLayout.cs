@@ -11,7 +11,7 @@ namespace ShapeNoise.Imaging.Reading;
 /// <param name="SizeC">Channels.</param>
 /// <param name="Pages">Page index of plane (t, z, c) at <c>(t * SizeZ + z) * SizeC + c</c>; -1 where no page is mapped.</param>
 /// <param name="Scale">Pixel size and frame interval of this series.</param>
-public sealed record SeriesLayout(int SizeT, int SizeZ, int SizeC, int[] Pages, MovieMetadata.Scale Scale)
+internal sealed record SeriesLayout(int SizeT, int SizeZ, int SizeC, int[] Pages, MovieMetadata.Scale Scale)
 {
     /// <summary>Page index of plane (t, z, c), or -1.</summary>
     public int Page(int t, int z, int c) => Pages[(t * SizeZ + z) * SizeC + c];
@@ -26,7 +26,7 @@ public sealed record SeriesLayout(int SizeT, int SizeZ, int SizeC, int[] Pages, 
 /// <c>Pixels/@DimensionOrder</c> (XYZCT: Z fastest) and <c>TiffData</c> IFD/FirstZ/FirstC/FirstT/PlaneCount
 /// (OME-TIFF specification; OME Data Model 2016-06 schema: IFD default 0, PlaneCount default 1 when IFD is given, else
 /// every plane).</remarks>
-public sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series)
+internal sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series)
 {
     /// <summary>Reads the layout of a file's pages.</summary>
     public static MovieLayout Of(string path, IReadOnlyList<TiffPage> pages)

@@ -8,7 +8,7 @@ namespace ShapeNoise.Imaging.Reading;
 /// sy &gt; sx, output row j (centre at (j + 0.5) sx) takes source row floor((j + 0.5) sx / sy); the height becomes
 /// round(H sy / sx). Columns likewise when sx &gt; sy. Labels are copied, never blended.
 /// </summary>
-public sealed class SquarePixelMovie : ILabelMovie
+internal sealed class SquarePixelMovie : ILabelMovie
 {
     private readonly ILabelMovie _inner;
     private readonly int[] _rowOf, _colOf;
@@ -67,7 +67,7 @@ public sealed class SquarePixelMovie : ILabelMovie
 }
 
 /// <summary>A movie whose <see cref="MovieInfo"/> is replaced (scale given by options); frames pass through.</summary>
-public sealed class RescaledMovie(ILabelMovie inner, MovieInfo info) : ILabelMovie
+internal sealed class RescaledMovie(ILabelMovie inner, MovieInfo info) : ILabelMovie
 {
     /// <inheritdoc/>
     public MovieInfo Info { get; } = info;

@@ -4,7 +4,7 @@ namespace ShapeNoise.Imaging.Reading;
 
 /// <summary>A multi-page TIFF label stack, read page by page: one page a frame, or, for an OME-TIFF, ImageJ hyperstack
 /// or tifffile series, the pages of the plane <see cref="MovieSelection"/> picks (<see cref="MovieLayout"/>).</summary>
-public sealed class TiffLabelMovie : ILabelMovie
+internal sealed class TiffLabelMovie : ILabelMovie
 {
     private readonly TiffPages _tiff;
     private readonly int[] _pages;
