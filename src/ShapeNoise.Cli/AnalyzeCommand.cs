@@ -10,7 +10,7 @@ using Spectre.Console.Cli;
 
 namespace ShapeNoise.Cli;
 
-public sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
+internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 {
     public sealed class Settings : CommandSettings
     {

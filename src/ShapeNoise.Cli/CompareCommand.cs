@@ -8,7 +8,7 @@ using Spectre.Console.Cli;
 
 namespace ShapeNoise.Cli;
 
-public sealed class CompareCommand : Command<CompareCommand.Settings>
+internal sealed class CompareCommand : Command<CompareCommand.Settings>
 {
     public sealed class Settings : CommandSettings
     {
@@ -53,7 +53,7 @@ public sealed class CompareCommand : Command<CompareCommand.Settings>
     }
 }
 
-public sealed class PlanCommand : Command<PlanCommand.Settings>
+internal sealed class PlanCommand : Command<PlanCommand.Settings>
 {
     public sealed class Settings : CommandSettings
     {

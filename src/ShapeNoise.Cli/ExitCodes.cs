@@ -6,7 +6,7 @@ using Spectre.Console.Cli;
 namespace ShapeNoise.Cli;
 
 /// <summary>Maps failures to one-line messages and documented exit codes.</summary>
-public static class ExitCodes
+internal static class ExitCodes
 {
     public const int Ok = 0, Unexpected = 1, BadInput = 2, Unwritable = 3, BadOptions = 64;
 

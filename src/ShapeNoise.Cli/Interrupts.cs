@@ -7,7 +7,7 @@ namespace ShapeNoise.Cli;
 /// <summary>Ctrl-C (SIGINT), SIGTERM and SIGHUP: remove this run's temporary folders (restoring an earlier output that was
 /// being replaced), say so in one line and exit with 128 + the signal number, the shell convention (130 for Ctrl-C).
 /// See docs/inputs.md#output-folders.</summary>
-public static class Interrupts
+internal static class Interrupts
 {
     private static readonly List<PosixSignalRegistration> Registrations = [];
     private static readonly ManualResetEventSlim Unwound = new();

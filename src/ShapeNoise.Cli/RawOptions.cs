@@ -6,7 +6,7 @@ using Spectre.Console.Cli;
 namespace ShapeNoise.Cli;
 
 /// <summary>Options shared by the synth commands for rendering the raw junction-marker movie.</summary>
-public class RawRenderSettings : CommandSettings
+internal class RawRenderSettings : CommandSettings
 {
     [CommandOption("--raw"), Description("Also render raw.tif: the junction-marker movie of the tissue (truth labels kept in labels.tif).")] public bool Raw { get; init; }
     [CommandOption("--snr <RATIO>"), Description("Raw movie: junction signal over noise sd.")] public double Snr { get; init; } = 8;

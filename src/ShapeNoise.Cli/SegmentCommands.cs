@@ -6,7 +6,7 @@ using Spectre.Console.Cli;
 
 namespace ShapeNoise.Cli;
 
-public sealed class SegmentCommand : Command<SegmentCommand.Settings>
+internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
 {
     public sealed class Settings : CommandSettings
     {
@@ -55,7 +55,7 @@ internal sealed class Inline(ProgressTask task) : IProgress<(int Done, int Total
     public void Report((int Done, int Total) x) { task.MaxValue = x.Total; task.Value = x.Done; }
 }
 
-public sealed class ScoreCommand : Command<ScoreCommand.Settings>
+internal sealed class ScoreCommand : Command<ScoreCommand.Settings>
 {
     public sealed class Settings : CommandSettings
     {

@@ -7,7 +7,7 @@ using Spectre.Console.Cli;
 namespace ShapeNoise.Cli;
 
 /// <summary>A bad option or usage: an unknown option, a stray argument, a value that does not convert (exit 64).</summary>
-public sealed class OptionException(string message) : ArgumentException(message);
+internal sealed class OptionException(string message) : ArgumentException(message);
 
 /// <summary>
 /// Strict command lines for every command. Spectre.Console.Cli (0.57) collects unknown options into
@@ -16,7 +16,7 @@ public sealed class OptionException(string message) : ArgumentException(message)
 /// reflection) before anything runs, and refuses with one line that names the offending token and the nearest known
 /// option of that command.
 /// </summary>
-public static class StrictOptions
+internal static class StrictOptions
 {
     /// <summary>Every command of the application by its path (as typed), with its settings type.</summary>
     public static readonly IReadOnlyDictionary<string, Type> Commands = new Dictionary<string, Type>

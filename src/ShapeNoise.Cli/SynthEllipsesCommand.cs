@@ -7,7 +7,7 @@ using Spectre.Console.Cli;
 
 namespace ShapeNoise.Cli;
 
-public sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings>
+internal sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settings>
 {
     public sealed class Settings : RawRenderSettings
     {

@@ -7,7 +7,7 @@ using Spectre.Console.Cli;
 
 namespace ShapeNoise.Cli;
 
-public sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Settings>
+internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Settings>
 {
     public sealed class Settings : RawRenderSettings
     {

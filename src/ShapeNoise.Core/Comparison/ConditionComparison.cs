@@ -77,13 +77,14 @@ public static class ConditionComparison
     };
 
     /// <summary>One hierarchical resample of a condition: movie draw counts, then unit multiplicities per measure.</summary>
-    private static (int[] Count, Dictionary<string, int[][]> Units) Draw(IReadOnlyList<MovieData> movies, Random rng)
+    private static (int[] Count, Dictionary<string, int[][]> Units) Draw(List<MovieData> movies, Random rng)
     {
         var counts = Measures.Select(k => (IReadOnlyList<int>)movies.Select(m => UnitCount(k, m)).ToArray()).ToList();
         var (count, units) = HierarchicalBootstrap.Draw(counts, movies.Count, rng);
         return (count, Measures.Select((k, j) => (k, units[j])).ToDictionary(x => x.k, x => x.Item2));
     }
 
+    /// <summary>Compares every pair of conditions on every measure in <see cref="Measures"/>: per condition the value with a 95% percentile interval from <paramref name="resamples"/> hierarchical resamples (one stream seeded by <paramref name="seed"/>, drawn in condition order), per pair a - b and a / b with intervals and the Welch p-value on movie-level values. Throws <see cref="Reading.InputException"/> when the movies are in different units.</summary>
     public static ComparisonResult Run(IReadOnlyList<MovieData> movies, int resamples, int seed)
     {
         var units = movies.Select(m => (m.LengthUnit, m.TimeUnit)).Distinct().ToList();

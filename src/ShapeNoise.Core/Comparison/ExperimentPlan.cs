@@ -20,7 +20,8 @@ public sealed record PlanResult(string Measure, double RelativeEffect, double Lo
 /// 1 + (m - 1) ICC, which is the same inflation written per cell; Cohen (1988) for power.</remarks>
 public static class ExperimentPlan
 {
-    public static readonly int[] CellsChoices = [25, 50, 100, 200, 400];
+    /// <summary>Cells per movie m at which the plan evaluates power.</summary>
+    internal static readonly int[] CellsChoices = [25, 50, 100, 200, 400];
 
     /// <summary>Track-level values of the measure per movie (natural log of the per-track variance ratio).</summary>
     public static double[] TrackValues(MovieData m, string measure) => m.Tracks

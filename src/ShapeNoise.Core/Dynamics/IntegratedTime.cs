@@ -7,7 +7,7 @@ namespace ShapeNoise.Dynamics;
 /// Integration (Cargèse 1996), NATO ASI Series B 361, Plenum, pp. 131-192; Madras N. and Sokal A.D. (1988),
 /// J. Stat. Phys. 50:109-186. For an AR(1) process with lag-1 correlation rho, tau_int = (1 + rho) / (2 (1 - rho)) frames.
 /// </remarks>
-public static class IntegratedTime
+internal static class IntegratedTime
 {
     /// <summary>Returns tau_int in lag units and the window used; the window is flagged (Reached=false) when no lag
     /// up to the last available satisfies the rule.</summary>

@@ -4,14 +4,14 @@ namespace ShapeNoise.Dynamics;
 /// <param name="TauFrames">Decay time of the decorrelating part (frames).</param>
 /// <param name="Plateau">p: the part of the alignment that never decorrelates within the tracks.</param>
 /// <param name="Amplitude">A (A + p &lt; 1 when fast measurement noise removes some correlation already at lag 1).</param>
-public readonly record struct PlateauFit(double TauFrames, double Plateau, double Amplitude);
+internal readonly record struct PlateauFit(double TauFrames, double Plateau, double Amplitude);
 
 /// <summary>Orientation autocorrelation C_theta(k) = mean cos 2(theta(t+k) - theta(t)) pooled over tracks, and its fit.</summary>
 /// <remarks>The nematic (cos 2 delta-theta) orientation correlation of elongated cells; a plateau allows for locally
 /// aligned regions that never decorrelate (e.g. Duclos G. et al. (2017), "Topological defects in confined populations of
 /// spindle-shaped cells", Nature Physics 13:58-62). Fitted by weighted least squares: p and A in closed form for each tau
 /// (p constrained to [0, 1], A &gt;= 0), tau by a grid over log tau refined by golden section.</remarks>
-public static class OrientationCorrelation
+internal static class OrientationCorrelation
 {
     /// <summary>Per-track sums of cos 2(theta(t+k) - theta(t)) over present pairs, lags 0..K.</summary>
     public static LagSums Of(TrackSeries theta, int maxLag)

@@ -6,7 +6,7 @@ namespace ShapeNoise.Dynamics;
 /// <param name="SignalVariance">Stationary variance of the OU signal, sigma^2 (measurement noise removed).</param>
 /// <param name="NoiseVariance">Variance of the white measurement noise, eta^2.</param>
 /// <param name="UncorrectedTauFrames">-1 / ln C(1) of the raw pooled autocorrelation: what ignoring both biases would give.</param>
-public readonly record struct OuFit(double Rho, double TauFrames, double SignalVariance, double NoiseVariance, double UncorrectedTauFrames);
+internal readonly record struct OuFit(double Rho, double TauFrames, double SignalVariance, double NoiseVariance, double UncorrectedTauFrames);
 
 /// <summary>
 /// Correlation time of an Ornstein-Uhlenbeck process seen in many short tracks, corrected for the bias that subtracting
@@ -27,7 +27,7 @@ public readonly record struct OuFit(double Rho, double TauFrames, double SignalV
 /// track lengths and gaps, rather than first-order. The OU autocorrelation exp(-|t|/tau) is that of
 /// Uhlenbeck G.E. and Ornstein L.S. (1930), "On the theory of the Brownian motion", Phys. Rev. 36:823-841.
 /// </remarks>
-public static class OrnsteinUhlenbeckFit
+internal static class OrnsteinUhlenbeckFit
 {
     /// <summary>
     /// Expected lagged sums per unit sigma^2 (<paramref name="signal"/>) and per unit eta^2 (<paramref name="noise"/>) of a

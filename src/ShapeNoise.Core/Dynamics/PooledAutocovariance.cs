@@ -7,7 +7,7 @@ namespace ShapeNoise.Dynamics;
 /// section 3). This is the usual pooled (panel) estimator; its bias from subtracting each short track's own mean is
 /// removed downstream by <see cref="OrnsteinUhlenbeckFit"/>.
 /// </remarks>
-public static class PooledAutocovariance
+internal static class PooledAutocovariance
 {
     /// <summary>Lagged sums of one track for lags 0..<paramref name="maxLag"/>; a pair needs both frames present.</summary>
     public static LagSums Of(TrackSeries s, int maxLag)

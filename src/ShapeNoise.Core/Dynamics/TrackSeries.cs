@@ -1,7 +1,7 @@
 namespace ShapeNoise.Dynamics;
 
 /// <summary>One track's samples of a scalar quantity at the frames where the cell was seen (frames ascending, gaps allowed).</summary>
-public readonly record struct TrackSeries(int[] Frames, double[] Values)
+internal readonly record struct TrackSeries(int[] Frames, double[] Values)
 {
     /// <summary>True when the frames have no gaps.</summary>
     public bool Contiguous => Frames.Length == 0 || Frames[^1] - Frames[0] == Frames.Length - 1;
@@ -10,4 +10,4 @@ public readonly record struct TrackSeries(int[] Frames, double[] Values)
 /// <summary>Per-track sums of mean-subtracted lagged products, the building blocks of the pooled autocovariance.</summary>
 /// <param name="Sum">Sum[k] = sum over present pairs (t, t+k) of (x_t - mean)(x_{t+k} - mean).</param>
 /// <param name="Pairs">Pairs[k] = number of such pairs.</param>
-public sealed record LagSums(double[] Sum, int[] Pairs);
+internal sealed record LagSums(double[] Sum, int[] Pairs);

@@ -3,15 +3,19 @@ using ShapeNoise.Reading;
 namespace ShapeNoise.Outlines;
 
 /// <summary>Bounding box and pixel count of one label in one frame (inclusive pixel bounds).</summary>
-public readonly record struct LabelBox(int Label, int MinX, int MinY, int MaxX, int MaxY, int PixelCount);
+internal readonly record struct LabelBox(int Label, int MinX, int MinY, int MaxX, int MaxY, int PixelCount);
 
 /// <summary>One pass over a frame: every label's bounding box and pixel count, and a dense index image
 /// (0 = background, i + 1 = the i-th label in <see cref="Boxes"/>).</summary>
-public sealed class LabelScan
+internal sealed class LabelScan
 {
+    /// <summary>Every label's box and pixel count, in order of first appearance in raster order.</summary>
     public LabelBox[] Boxes { get; }
+    /// <summary>Row-major dense index image: 0 = background, i + 1 = the label of <see cref="Boxes"/>[i].</summary>
     public int[] DenseImage { get; }
+    /// <summary>Frame width (px).</summary>
     public int Width { get; }
+    /// <summary>Frame height (px).</summary>
     public int Height { get; }
 
     private LabelScan(LabelBox[] boxes, int[] dense, int w, int h) { Boxes = boxes; DenseImage = dense; Width = w; Height = h; }

@@ -15,4 +15,12 @@ public enum OutlineMethod
 }
 
 /// <summary>Why an object did not yield an outline.</summary>
-public enum OutlineStatus { Ok, Border, Small }
+public enum OutlineStatus
+{
+    /// <summary>The object yielded an outline.</summary>
+    Ok,
+    /// <summary>The object comes within the border margin of the image edge, so its outline may be cut off (docs/measures.md#outline-definitions).</summary>
+    Border,
+    /// <summary>The object has fewer pixels than <c>--min-area</c> (docs/measures.md#outline-definitions).</summary>
+    Small,
+}

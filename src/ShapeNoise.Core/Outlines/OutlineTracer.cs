@@ -13,7 +13,7 @@ public sealed record Outline(int Label, OutlineStatus Status, Point2[] Vertices,
 /// (1987), "Marching cubes", Computer Graphics 21:163-169) with saddles split as 4-connectivity requires, so the crack
 /// sequence gives the midpoint and sub-pixel polygons in order without a separate assembly step.
 /// </remarks>
-public static class OutlineTracer
+internal static class OutlineTracer
 {
     /// <summary>Gaussian width (px) of the smoothing used by <see cref="OutlineMethod.Subpixel"/>.</summary>
     public const double SubpixelSigmaPx = 1.0;

@@ -3,9 +3,13 @@ namespace ShapeNoise.Reading;
 /// <summary>One frame of a label movie: 0 = background, any other value = one object. Row-major, Width x Height.</summary>
 public sealed class LabelFrame(int index, int width, int height, int[] labels)
 {
+    /// <summary>Zero-based frame number in the movie.</summary>
     public int Index { get; } = index;
+    /// <summary>Frame width (px).</summary>
     public int Width { get; } = width;
+    /// <summary>Frame height (px).</summary>
     public int Height { get; } = height;
+    /// <summary>Row-major label values, <c>Labels[y * Width + x]</c>; length Width x Height (checked).</summary>
     public int[] Labels { get; } = labels.Length == width * height ? labels
         : throw new ArgumentException($"label array has {labels.Length} values, expected {width}x{height}");
 }
@@ -32,6 +36,7 @@ public sealed record MovieInfo(string Path, int Width, int Height, int FrameCoun
 /// <summary>A stream of label frames, read one at a time so memory does not grow with the movie length.</summary>
 public interface ILabelMovie : IDisposable
 {
+    /// <summary>Size, frame count, calibration and format, known before any pixel is read.</summary>
     MovieInfo Info { get; }
     /// <summary>The frames in order; each is read when enumerated.</summary>
     IEnumerable<LabelFrame> Frames();
@@ -42,12 +47,15 @@ public interface ILabelMovie : IDisposable
 /// <summary>Bad input: names the file and says what is wrong with it, in one line.</summary>
 public sealed class InputException(string path, string problem) : Exception($"{path}: {problem}")
 {
+    /// <summary>The file or folder the problem is in.</summary>
     public string PathName { get; } = path;
+    /// <summary>What is wrong with the input, in one line without the path.</summary>
     public string Problem { get; } = problem;
 }
 
 /// <summary>The output folder cannot be written.</summary>
 public sealed class OutputException(string path, string problem) : Exception($"{path}: {problem}")
 {
+    /// <summary>The output file or folder that cannot be written.</summary>
     public string PathName { get; } = path;
 }

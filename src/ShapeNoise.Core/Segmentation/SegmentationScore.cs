@@ -23,6 +23,7 @@ public readonly record struct SegmentationScore(double Seg, double F1, double Pr
     /// <summary>Per-frame sums: sum of J over reference objects, counts.</summary>
     public readonly record struct Sums(double JaccardSum, int Reference, int Segmented, int Matches);
 
+    /// <summary>Sums of one frame for <see cref="Pool"/>: with |R ∩ S| &gt; 0.5 |R| as the match rule, the sum of J = |R ∩ S| / |R ∪ S| over matched reference objects, the object counts and the matches with J &gt; 0.5. Throws <see cref="ArgumentException"/> when the images differ in size.</summary>
     public static Sums Accumulate(ReadOnlySpan<int> reference, ReadOnlySpan<int> segmented)
     {
         if (reference.Length != segmented.Length) throw new ArgumentException("images differ in size");

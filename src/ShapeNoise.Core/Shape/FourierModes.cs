@@ -6,7 +6,7 @@ namespace ShapeNoise.Shape;
 /// <remarks>Fourier decomposition of cell contours in the tradition of membrane-fluctuation spectroscopy:
 /// Pécréaux J. et al. (2004), "Refined contour analysis of giant unilamellar vesicles", Eur. Phys. J. E 13:277-290.
 /// Uses FftSharp's radix-2 FFT when M is a power of two, an exact direct sum otherwise.</remarks>
-public static class FourierModes
+internal static class FourierModes
 {
     /// <summary>Writes C_0..C_{M/2} of <paramref name="rho"/> (length M) into <paramref name="modes"/> (length M/2 + 1).</summary>
     public static void Of(ReadOnlySpan<double> rho, Span<Complex> modes)

@@ -1,7 +1,7 @@
 namespace ShapeNoise.Shape;
 
 /// <summary>Radial function r(phi): distance from a centre to the outline along the ray at angle phi.</summary>
-public static class RadialFunction
+internal static class RadialFunction
 {
     /// <summary>
     /// Samples rho_k = r(theta0 + 2 pi k / M), k = 0..M-1, by casting the M rays from <paramref name="centre"/> against every

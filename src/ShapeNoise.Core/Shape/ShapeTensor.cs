@@ -7,7 +7,7 @@ namespace ShapeNoise.Shape;
 /// <param name="AreaPx2">|A|.</param>
 /// <param name="Centroid">Area centroid c.</param>
 /// <param name="Sxx">S_xx.</param><param name="Sxy">S_xy.</param><param name="Syy">S_yy.</param>
-public readonly record struct ShapeTensor(double AreaPx2, Point2 Centroid, double Sxx, double Sxy, double Syy)
+internal readonly record struct ShapeTensor(double AreaPx2, Point2 Centroid, double Sxx, double Sxy, double Syy)
 {
     /// <summary>Larger eigenvalue l1 = (Sxx+Syy)/2 + sqrt(((Sxx-Syy)/2)^2 + Sxy^2).</summary>
     public double L1 => 0.5 * (Sxx + Syy) + Half;

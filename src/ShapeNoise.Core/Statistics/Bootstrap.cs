@@ -3,7 +3,9 @@ namespace ShapeNoise.Statistics;
 /// <summary>A value with its 95% interval.</summary>
 public readonly record struct Estimate(double Value, double Low, double High)
 {
+    /// <summary>No value: value and both bounds NaN (too few units to estimate).</summary>
     public static Estimate NaN => new(double.NaN, double.NaN, double.NaN);
+    /// <summary>The estimate times <paramref name="f"/> (a unit conversion); a negative factor swaps the bounds so Low &lt;= High stays true.</summary>
     public Estimate Scale(double f) => f >= 0 ? new(Value * f, Low * f, High * f) : new(Value * f, High * f, Low * f);
 }
 

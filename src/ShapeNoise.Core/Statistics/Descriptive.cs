@@ -4,7 +4,7 @@ namespace ShapeNoise.Statistics;
 /// <remarks>Two-pass (corrected) variance: Chan T.F., Golub G.H. and LeVeque R.J. (1983), "Algorithms for computing the
 /// sample variance: analysis and recommendations", The American Statistician 37:242-247. Checked against the NIST
 /// Statistical Reference Datasets (univariate summary statistics).</remarks>
-public static class Descriptive
+internal static class Descriptive
 {
     /// <summary>Arithmetic mean, sum y_i / n.</summary>
     public static double Mean(ReadOnlySpan<double> y)

@@ -4,7 +4,7 @@ namespace ShapeNoise.Statistics;
 /// <remarks>Saravanan V., Berman G.J. and Sober S.J. (2020), "Application of the hierarchical bootstrap to multi-level
 /// data in neuroscience", Neurons, Behavior, Data analysis, and Theory 3(5). Seeded: the same data and seed give the
 /// same interval.</remarks>
-public static class HierarchicalBootstrap
+internal static class HierarchicalBootstrap
 {
     /// <summary>
     /// One resample for several kinds of unit at once: M movie slots each draw a movie with replacement, and for every

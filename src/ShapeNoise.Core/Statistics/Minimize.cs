@@ -3,7 +3,7 @@ namespace ShapeNoise.Statistics;
 /// <summary>One-dimensional minimisation on an interval: a coarse grid to find the basin, then golden-section refinement.</summary>
 /// <remarks>Golden-section search: Kiefer J. (1953), "Sequential minimax search for a maximum", Proc. Am. Math. Soc.
 /// 4:502-506; Press W.H. et al. (2007), Numerical Recipes, 3rd ed., sec. 10.2. The grid guards against local minima.</remarks>
-public static class Minimize
+internal static class Minimize
 {
     /// <summary>Returns the x in [lo, hi] minimising f: the best of grid + 1 equally spaced points, refined by golden section
     /// between its neighbours to width 1e-7.</summary>

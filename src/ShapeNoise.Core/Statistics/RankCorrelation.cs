@@ -5,7 +5,7 @@ namespace ShapeNoise.Statistics;
 /// 15:72-101: the Pearson correlation of the ranks (ties get their average rank). Permutation test: Good P. (2005),
 /// Permutation, Parametric and Bootstrap Tests of Hypotheses, Springer; p = (hits + 1) / (B + 1) (Phipson B. and
 /// Smyth G.K. (2010), "Permutation p-values should never be zero", Stat. Appl. Genet. Mol. Biol. 9:39).</remarks>
-public static class RankCorrelation
+internal static class RankCorrelation
 {
     /// <summary>Average ranks (1-based; ties share the mean of their positions).</summary>
     public static double[] Ranks(ReadOnlySpan<double> x)
@@ -39,7 +39,7 @@ public static class RankCorrelation
     public static double Spearman(ReadOnlySpan<double> x, ReadOnlySpan<double> y) => Pearson(Ranks(x), Ranks(y));
 
     /// <summary>Which deviations count as at least as extreme as the observed rho.</summary>
-    public enum Alternative { TwoSided, Greater, Less }
+    internal enum Alternative { TwoSided, Greater, Less }
 
     /// <summary>Permutation p-value of Spearman's rho: the y ranks are shuffled <paramref name="permutations"/> times
     /// (seeded); p = (hits + 1) / (B + 1).</summary>

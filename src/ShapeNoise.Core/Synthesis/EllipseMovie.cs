@@ -8,7 +8,9 @@ namespace ShapeNoise.Synthesis;
 /// <summary>Options of the fluctuating-ellipse scenario; validated on construction.</summary>
 public sealed record EllipseMovieOptions
 {
+    /// <summary>Number of cells (ellipses) on the canvas.</summary>
     public int Cells { get; init; } = 40;
+    /// <summary>Number of frames.</summary>
     public int Frames { get; init; } = 80;
     /// <summary>Mean semi-major axis a0 (px).</summary>
     public double SemiMajorPx { get; init; } = 14;
@@ -21,7 +23,7 @@ public sealed record EllipseMovieOptions
     /// <summary>Correlation time of the semi-axis processes (frames).</summary>
     public double TauFrames { get; init; } = 5;
     /// <summary>Steady rotation speed of each cell's axis (degrees per frame; sign drawn per cell).</summary>
-    public double RotationDegPerFrame { get; init; } = 0;
+    public double RotationDegPerFrame { get; init; }
     /// <summary>Correlation time of the axis orientation under rotational diffusion (frames): C_theta(k) = exp(-k / tau_theta),
     /// i.e. angular steps of variance 1 / (2 tau_theta) rad^2 per frame, since E cos 2 dtheta = exp(-2 var dtheta). 0 = no rotational diffusion.</summary>
     public double TauThetaFrames { get; init; } = 40;
@@ -31,10 +33,14 @@ public sealed record EllipseMovieOptions
     public int Width { get; init; }
     /// <summary>Canvas height; 0 = just large enough for the cells.</summary>
     public int Height { get; init; }
+    /// <summary>Pixel size written into the movie's metadata (µm per px).</summary>
     public double PixelSizeUm { get; init; } = 0.5;
+    /// <summary>Frame interval written into the movie's metadata (min).</summary>
     public double FrameIntervalMin { get; init; } = 2;
+    /// <summary>Seed of every random draw of the scenario; the same seed gives the same movie.</summary>
     public int Seed { get; init; } = 7;
 
+    /// <summary>Returns these options unchanged when every value is in range; throws <see cref="ArgumentException"/> naming the option otherwise.</summary>
     public EllipseMovieOptions Validated()
     {
         if (Cells < 1) throw new ArgumentException($"--cells must be >= 1 (got {Cells})");
@@ -67,9 +73,13 @@ public sealed record EllipseTruth(
 /// simulation of the Ornstein-Uhlenbeck process and its integral", Phys. Rev. E 54:2084-2091.</remarks>
 public sealed class EllipseMovie
 {
+    /// <summary>The validated options the movie was generated with.</summary>
     public EllipseMovieOptions Options { get; }
+    /// <summary>Canvas width (px).</summary>
     public int Width { get; }
+    /// <summary>Canvas height (px).</summary>
     public int Height { get; }
+    /// <summary>The realised truth of this draw (per-cell centre, semi-axis and angle series and the statistics they realise), for recovery tests.</summary>
     public EllipseTruth Truth { get; }
     private readonly int _slot;
 

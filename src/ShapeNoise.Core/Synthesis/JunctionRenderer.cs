@@ -17,8 +17,10 @@ public sealed record RawRenderOptions
     public double Illumination { get; init; } = 0.3;
     /// <summary>Fraction of the signal lost to photobleaching by the last frame (exponential).</summary>
     public double Bleach { get; init; } = 0.3;
+    /// <summary>Seed of the photon, read-noise and illumination draws.</summary>
     public int Seed { get; init; } = 3;
 
+    /// <summary>Returns these options unchanged when every value is in range; throws <see cref="ArgumentException"/> naming the option otherwise.</summary>
     public RawRenderOptions Validated()
     {
         if (!(Snr > 0)) throw new ArgumentException($"--snr must be > 0 (got {Snr})");

@@ -1,12 +1,22 @@
 namespace ShapeNoise.Synthesis;
 
 /// <summary>How the +1/2 defect of the synthetic monolayer moves.</summary>
-public enum DefectMotion { Headward, Tailward, None }
+public enum DefectMotion
+{
+    /// <summary>The +1/2 defect moves along its head direction (the comet's head), at <see cref="MonolayerMovieOptions.DefectSpeedPx"/>.</summary>
+    Headward,
+    /// <summary>The +1/2 defect moves against its head direction.</summary>
+    Tailward,
+    /// <summary>The defects stay in place.</summary>
+    None,
+}
 
 /// <summary>Options of the confluent-monolayer scenario; validated on construction.</summary>
 public sealed record MonolayerMovieOptions
 {
+    /// <summary>Number of cells (Voronoi seeds) on the canvas.</summary>
     public int Cells { get; init; } = 600;
+    /// <summary>Number of frames.</summary>
     public int Frames { get; init; } = 60;
     /// <summary>Mean cell area (px^2).</summary>
     public double CellAreaPx2 { get; init; } = 250;
@@ -14,6 +24,7 @@ public sealed record MonolayerMovieOptions
     public double Aspect { get; init; } = 2.0;
     /// <summary>Distance between the +1/2 and the -1/2 defect at frame 0, as a fraction of the canvas width.</summary>
     public double Separation { get; init; } = 0.35;
+    /// <summary>How the +1/2 defect moves: along its head direction, against it, or not at all.</summary>
     public DefectMotion Motion { get; init; } = DefectMotion.Headward;
     /// <summary>Speed of the +1/2 defect (px per frame).</summary>
     public double DefectSpeedPx { get; init; } = 0.4;
@@ -23,6 +34,7 @@ public sealed record MonolayerMovieOptions
     public double FlowAngleDeg { get; init; }
     /// <summary>Canvas width and height; 0 = square, just large enough for the cells.</summary>
     public int Width { get; init; }
+    /// <summary>Canvas height (px); 0 = square, just large enough for the cells (see <see cref="Width"/>).</summary>
     public int Height { get; init; }
     /// <summary>Relative standard deviation of each cell's metric length A (shape noise along the long axis).</summary>
     public double SigmaAlong { get; init; } = 0.12;
@@ -30,10 +42,14 @@ public sealed record MonolayerMovieOptions
     public double SigmaAcross { get; init; } = 0.06;
     /// <summary>Correlation time of the shape noise (frames).</summary>
     public double TauFrames { get; init; } = 5;
+    /// <summary>Pixel size written into the movie's metadata (µm per px).</summary>
     public double PixelSizeUm { get; init; } = 0.5;
+    /// <summary>Frame interval written into the movie's metadata (min).</summary>
     public double FrameIntervalMin { get; init; } = 5;
+    /// <summary>Seed of every random draw of the scenario; the same seed gives the same movie.</summary>
     public int Seed { get; init; } = 11;
 
+    /// <summary>Returns these options unchanged when every value is in range; throws <see cref="ArgumentException"/> naming the option otherwise.</summary>
     public MonolayerMovieOptions Validated()
     {
         if (Cells < 20) throw new ArgumentException($"--cells must be >= 20 (got {Cells})");
@@ -75,9 +91,13 @@ public sealed record MonolayerTruth(double[] PlusX, double[] PlusY, double[] Min
 /// applications", SIAM J. Sci. Comput. 26:737-761.</remarks>
 public sealed class MonolayerMovie
 {
+    /// <summary>The validated options the movie was generated with.</summary>
     public MonolayerMovieOptions Options { get; }
+    /// <summary>Canvas width (px).</summary>
     public int Width { get; }
+    /// <summary>Canvas height (px).</summary>
     public int Height { get; }
+    /// <summary>The prescribed truth of this draw (defect positions per frame, head direction, defect and flow speeds, seed count), for recovery tests.</summary>
     public MonolayerTruth Truth { get; }
     private readonly double _a, _b;
     private double[]? _noiseA, _noiseB;   // per-seed shape noise of the frame being generated (null while seeding)
@@ -88,6 +108,8 @@ public sealed class MonolayerMovie
     private MonolayerMovie(MonolayerMovieOptions o, int w, int h, MonolayerTruth truth, double a, double b)
     { Options = o; Width = w; Height = h; Truth = truth; _a = a; _b = b; }
 
+    /// <summary>Validates <paramref name="o"/>, lays out the defect trajectories and the uniform flow, and seeds the packing
+    /// (dart throwing, then 10 Lloyd steps in the anisotropic metric); frames are rendered on demand.</summary>
     public static MonolayerMovie Generate(MonolayerMovieOptions o)
     {
         o.Validated();

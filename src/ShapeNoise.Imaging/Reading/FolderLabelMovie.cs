@@ -7,11 +7,14 @@ namespace ShapeNoise.Imaging.Reading;
 /// <remarks>PNG files are decoded with OpenCV (imread, IMREAD_UNCHANGED; palette PNGs only with the identity palette); TIFF
 /// files with <see cref="TiffPages"/>. Hidden files (names starting with '.') are skipped.
 /// Pixel size and frame interval come from the first TIFF's metadata when it has any.</remarks>
-public sealed class FolderLabelMovie : ILabelMovie
+internal sealed class FolderLabelMovie : ILabelMovie
 {
+    /// <inheritdoc/>
     public MovieInfo Info { get; }
+    /// <inheritdoc/>
     public IReadOnlyList<string> Files { get; }
 
+    /// <summary>Lists the frames of <paramref name="folder"/> and reads the first for size and metadata; throws <see cref="InputException"/> when the folder holds no frames.</summary>
     public FolderLabelMovie(string folder)
     {
         // Hidden files are not frames: macOS leaves "._name" AppleDouble files beside copies, and ".DS_Store".
@@ -26,6 +29,7 @@ public sealed class FolderLabelMovie : ILabelMovie
             $"folder of {files.Count} {Path.GetExtension(files[0]).TrimStart('.').ToUpperInvariant()} frames, metadata: {scale.Source}");
     }
 
+    /// <inheritdoc/>
     public IEnumerable<LabelFrame> Frames()
     {
         for (int i = 0; i < Files.Count; i++)
@@ -150,5 +154,6 @@ public sealed class FolderLabelMovie : ILabelMovie
         return (a.Length - i).CompareTo(b.Length - j);
     }
 
+    /// <inheritdoc/>
     public void Dispose() { }
 }

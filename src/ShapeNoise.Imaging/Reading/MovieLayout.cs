@@ -11,7 +11,7 @@ namespace ShapeNoise.Imaging.Reading;
 /// <param name="SizeC">Channels.</param>
 /// <param name="Pages">Page index of plane (t, z, c) at <c>(t * SizeZ + z) * SizeC + c</c>; -1 where no page is mapped.</param>
 /// <param name="Scale">Pixel size and frame interval of this series.</param>
-public sealed record SeriesLayout(int SizeT, int SizeZ, int SizeC, int[] Pages, MovieMetadata.Scale Scale)
+internal sealed record SeriesLayout(int SizeT, int SizeZ, int SizeC, int[] Pages, MovieMetadata.Scale Scale)
 {
     /// <summary>Page index of plane (t, z, c), or -1.</summary>
     public int Page(int t, int z, int c) => Pages[(t * SizeZ + z) * SizeC + c];
@@ -26,7 +26,7 @@ public sealed record SeriesLayout(int SizeT, int SizeZ, int SizeC, int[] Pages, 
 /// <c>Pixels/@DimensionOrder</c> (XYZCT: Z fastest) and <c>TiffData</c> IFD/FirstZ/FirstC/FirstT/PlaneCount
 /// (OME-TIFF specification; OME Data Model 2016-06 schema: IFD default 0, PlaneCount default 1 when IFD is given, else
 /// every plane).</remarks>
-public sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series)
+internal sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series)
 {
     /// <summary>Reads the layout of a file's pages.</summary>
     public static MovieLayout Of(string path, IReadOnlyList<TiffPage> pages)
@@ -37,7 +37,7 @@ public sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series
         {
             if (MovieMetadata.OmeDocument(path, d) is { } doc) return Ome(path, doc, pages.Count);
             if (d.StartsWith("ImageJ=", StringComparison.Ordinal)) return ImageJ(path, d, pages);
-            if (d.TrimStart().StartsWith("{", StringComparison.Ordinal) && d.Contains("\"shape\"", StringComparison.Ordinal)) return Shaped(path, pages);
+            if (d.TrimStart().StartsWith('{') && d.Contains("\"shape\"", StringComparison.Ordinal)) return Shaped(path, pages);
         }
         return new MovieLayout("TIFF", [Sequential(pages.Count, 1, 1, MovieMetadata.FromPage(path, p0))]);
     }
@@ -78,7 +78,7 @@ public sealed record MovieLayout(string Kind, IReadOnlyList<SeriesLayout> Series
         while (at < pages.Count)
         {
             var d = pages[at].Description;
-            if (d is null || !d.TrimStart().StartsWith("{", StringComparison.Ordinal))
+            if (d is null || !d.TrimStart().StartsWith('{'))
                 throw new InputException(path, $"tifffile descriptions cover {at} of {pages.Count} pages; page {at + 1} starts no series");
             int[] shape; string? axes = null;
             try

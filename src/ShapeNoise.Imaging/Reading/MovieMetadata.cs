@@ -9,7 +9,7 @@ namespace ShapeNoise.Imaging.Reading;
 /// <remarks>OME Data Model and file formats: Goldberg I.G. et al. (2005), Genome Biology 6:R47; attributes
 /// Pixels/@PhysicalSizeX, @PhysicalSizeY (+Unit, default µm) and Pixels/@TimeIncrement (+Unit, default s) of the
 /// 2016-06 schema. TIFF 6.0 tags XResolution (282), YResolution (283), ResolutionUnit (296: 1 none, 2 inch, 3 cm).</remarks>
-public static class MovieMetadata
+internal static class MovieMetadata
 {
     /// <summary>Parsed scale; nulls where the file says nothing.</summary>
     /// <param name="PixelSizeUm">Pixel width (um/px), or null.</param>

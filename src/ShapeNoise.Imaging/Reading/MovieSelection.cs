@@ -39,11 +39,11 @@ public sealed record MovieSelection
     /// <param name="Pages">Page index of each frame.</param>
     /// <param name="Scale">Scale of the picked series.</param>
     /// <param name="Plane">What was picked, for provenance, or null when the file has a single plane per frame.</param>
-    public readonly record struct Picked(int[] Pages, MovieMetadata.Scale Scale, string? Plane);
+    internal readonly record struct Picked(int[] Pages, MovieMetadata.Scale Scale, string? Plane);
 
     /// <summary>Picks the frames' pages; refuses a file with several series, channels or z planes when no option says
     /// which, and an option outside the file's range.</summary>
-    public Picked Pick(string path, MovieLayout layout, int pageCount)
+    internal Picked Pick(string path, MovieLayout layout, int pageCount)
     {
         string kind = layout.Kind;
         int si = Index(path, "--series", "series", "series", Series, layout.Series.Count, $"{kind} holds");

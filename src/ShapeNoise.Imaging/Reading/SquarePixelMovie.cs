@@ -8,11 +8,13 @@ namespace ShapeNoise.Imaging.Reading;
 /// sy &gt; sx, output row j (centre at (j + 0.5) sx) takes source row floor((j + 0.5) sx / sy); the height becomes
 /// round(H sy / sx). Columns likewise when sx &gt; sy. Labels are copied, never blended.
 /// </summary>
-public sealed class SquarePixelMovie : ILabelMovie
+internal sealed class SquarePixelMovie : ILabelMovie
 {
     private readonly ILabelMovie _inner;
     private readonly int[] _rowOf, _colOf;
+    /// <inheritdoc/>
     public MovieInfo Info { get; }
+    /// <inheritdoc/>
     public IReadOnlyList<string> Files => _inner.Files;
 
     /// <summary>Wraps <paramref name="inner"/>, whose <see cref="MovieInfo.PixelSizeYUm"/> must be set.</summary>
@@ -42,6 +44,7 @@ public sealed class SquarePixelMovie : ILabelMovie
         return m;
     }
 
+    /// <inheritdoc/>
     public IEnumerable<LabelFrame> Frames()
     {
         int w = Info.Width, h = Info.Height, sw = _inner.Info.Width;
@@ -59,14 +62,19 @@ public sealed class SquarePixelMovie : ILabelMovie
         }
     }
 
+    /// <inheritdoc/>
     public void Dispose() => _inner.Dispose();
 }
 
 /// <summary>A movie whose <see cref="MovieInfo"/> is replaced (scale given by options); frames pass through.</summary>
-public sealed class RescaledMovie(ILabelMovie inner, MovieInfo info) : ILabelMovie
+internal sealed class RescaledMovie(ILabelMovie inner, MovieInfo info) : ILabelMovie
 {
+    /// <inheritdoc/>
     public MovieInfo Info { get; } = info;
+    /// <inheritdoc/>
     public IReadOnlyList<string> Files => inner.Files;
+    /// <inheritdoc/>
     public IEnumerable<LabelFrame> Frames() => inner.Frames();
+    /// <inheritdoc/>
     public void Dispose() => inner.Dispose();
 }

@@ -4,11 +4,13 @@ namespace ShapeNoise.Imaging.Reading;
 
 /// <summary>A multi-page TIFF label stack, read page by page: one page a frame, or, for an OME-TIFF, ImageJ hyperstack
 /// or tifffile series, the pages of the plane <see cref="MovieSelection"/> picks (<see cref="MovieLayout"/>).</summary>
-public sealed class TiffLabelMovie : ILabelMovie
+internal sealed class TiffLabelMovie : ILabelMovie
 {
     private readonly TiffPages _tiff;
     private readonly int[] _pages;
+    /// <inheritdoc/>
     public MovieInfo Info { get; }
+    /// <inheritdoc/>
     public IReadOnlyList<string> Files { get; }
 
     /// <summary>Opens a file whose every page is a frame of one plane (no option needed).</summary>
@@ -44,11 +46,13 @@ public sealed class TiffLabelMovie : ILabelMovie
         Files = [path];
     }
 
+    /// <inheritdoc/>
     public IEnumerable<LabelFrame> Frames()
     {
         for (int i = 0; i < _pages.Length; i++)
             yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i]));
     }
 
+    /// <inheritdoc/>
     public void Dispose() => _tiff.Dispose();
 }

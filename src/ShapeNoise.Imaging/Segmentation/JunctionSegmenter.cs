@@ -24,8 +24,10 @@ public sealed record SegmentOptions
     /// <summary>Regions larger than this many expected cell areas are not cells (background, failed splits) and are dropped.</summary>
     public double MaxAreaFactor { get; init; } = 6;
 
+    /// <summary>Expected cell diameter in pixels: CellDiameterUm / PixelSizeUm.</summary>
     public double DiameterPx => CellDiameterUm / PixelSizeUm;
 
+    /// <summary>Returns these options unchanged when every value is in range; throws <see cref="ArgumentException"/> naming the option otherwise.</summary>
     public SegmentOptions Validated()
     {
         if (!(CellDiameterUm > 0)) throw new ArgumentException($"--cell-diameter must be > 0 (got {CellDiameterUm})");
@@ -49,6 +51,7 @@ public sealed record SegmentOptions
 /// OpenCV does the background flattening, smoothing, minimum filter and seed components.</remarks>
 public static class JunctionSegmenter
 {
+    /// <summary>Segments the row-major intensity frame <paramref name="raw"/> (<paramref name="width"/> x <paramref name="height"/>) and returns its labels, row-major, 0 = no cell, cells numbered 1..N.</summary>
     public static int[] Segment(int[] raw, int width, int height, SegmentOptions o)
     {
         double d = o.DiameterPx;

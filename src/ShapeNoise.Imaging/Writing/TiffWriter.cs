@@ -9,7 +9,17 @@ namespace ShapeNoise.Imaging.Writing;
 public static class TiffWriter
 {
     /// <summary>Pixel encodings this writer supports.</summary>
-    public enum PixelType { UInt8, UInt16, UInt32, Float32 }
+    public enum PixelType
+    {
+        /// <summary>8-bit unsigned integer samples (BitsPerSample 8, SampleFormat 1); values outside 0..255 throw.</summary>
+        UInt8,
+        /// <summary>16-bit unsigned integer samples (BitsPerSample 16, SampleFormat 1); values outside 0..65535 throw.</summary>
+        UInt16,
+        /// <summary>32-bit unsigned integer samples (BitsPerSample 32, SampleFormat 1); negative values throw.</summary>
+        UInt32,
+        /// <summary>32-bit IEEE floating-point samples (BitsPerSample 32, SampleFormat 3), holding the integer values.</summary>
+        Float32,
+    }
 
     /// <summary>Writes <paramref name="pages"/> (row-major values, each Width x Height) to <paramref name="path"/>.</summary>
     public static void Write(string path, int width, int height, IEnumerable<int[]> pages, PixelType type = PixelType.UInt16,
