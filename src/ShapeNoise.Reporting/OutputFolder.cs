@@ -51,6 +51,7 @@ public static class OutputFolder
             write(temp);
             File.Delete(Path.Combine(temp, Marker));
             AddManifest(temp);
+            Scratch.ThrowIfAborted();      // an interrupt arrived while we wrote: nothing moves into place
             var again = Resolve(target);   // the target may have changed while we worked
             Swap(temp, full, parent, name, again.Existing || existing, target.Folder);
         }
@@ -224,12 +225,23 @@ public static class OutputFolder
 public static class Scratch
 {
     private static readonly Dictionary<string, string?> Live = new(StringComparer.Ordinal);
+    private static volatile bool _aborted;
+
+    /// <summary>True once <see cref="CleanAll"/> has run: no new temporary folder may be registered, nothing moved into place.</summary>
+    public static bool Aborted => _aborted;
+
+    /// <summary>Throws <see cref="OperationCanceledException"/> after an interrupt (see <see cref="Aborted"/>).</summary>
+    public static void ThrowIfAborted()
+    {
+        if (_aborted) throw new OperationCanceledException("interrupted");
+    }
 
     /// <summary>Registers a folder; disposing the handle unregisters it (it is not deleted by disposing).</summary>
     /// <param name="path">The temporary folder.</param>
     /// <param name="restoreTo">When set, an interrupt moves the folder back here (an earlier output moved aside) instead of deleting it.</param>
     public static IDisposable Register(string path, string? restoreTo = null)
     {
+        ThrowIfAborted();
         lock (Live) Live[path] = restoreTo;
         return new Handle(path);
     }
@@ -247,6 +259,7 @@ public static class Scratch
     /// <returns>How many folders were registered (0: nothing was unfinished).</returns>
     public static int CleanAll()
     {
+        _aborted = true;
         KeyValuePair<string, string?>[] all;
         lock (Live) all = [.. Live];
         for (int round = 0, quiet = 0; round < 40 && quiet < 3; round++)
