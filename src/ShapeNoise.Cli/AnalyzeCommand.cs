@@ -12,17 +12,9 @@ namespace ShapeNoise.Cli;
 
 internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 {
-    public sealed class Settings : CommandSettings
+    public sealed class Settings : MovieInputSettings
     {
         [CommandArgument(0, "<INPUT>"), Description("Label movie: multi-page TIFF (8/16/32-bit integer) or a folder of TIFF/PNG frames.")] public string Input { get; init; } = "";
-        [CommandOption("--out <DIR>"), Description("Output folder; written to a temporary folder first, then renamed.")] public string Out { get; init; } = "";
-        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
-        [CommandOption("--pixel-size <UM>"), Description("Pixel size (um/px); overrides the movie's metadata and makes pixels square.")] public double? PixelSize { get; init; }
-        [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min); overrides the movie's metadata.")] public double? FrameInterval { get; init; }
-        [CommandOption("--series <N>"), Description("Series (OME Image) to read, 0-based; needed when the file holds several.")] public int? Series { get; init; }
-        [CommandOption("--channel <N>"), Description("Channel to read, 0-based; needed when the file has several.")] public int? Channel { get; init; }
-        [CommandOption("-z|--z-plane <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
-        [CommandOption("--z-is-time"), Description("The file's z planes (ImageJ 'slices') are time points.")] public bool ZIsTime { get; init; }
         [CommandOption("--rays <M>"), Description("Rays per outline (multiple of 8).")] public int Rays { get; init; } = 64;
         [CommandOption("--min-area <PX>"), Description("Exclude objects smaller than this (px).")] public int MinArea { get; init; } = 30;
         [CommandOption("--border-margin <PX>"), Description("Exclude objects within this distance of the image edge (px).")] public int BorderMargin { get; init; } = 1;
@@ -46,12 +38,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
         [CommandOption("--json"), Description("Print summary.json to standard output, nothing else.")] public bool Json { get; init; }
 
-        public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
     }
-
-    /// <summary>The plane and scale options as a <see cref="MovieSelection"/>.</summary>
-    public static MovieSelection Selection(int? series, int? channel, int? z, bool zIsTime, double? pixelSize, double? frameInterval)
-        => new MovieSelection { Series = series, Channel = channel, Z = z, ZIsTime = zIsTime, PixelSizeUm = pixelSize, FrameIntervalMin = frameInterval }.Validated();
 
     public static OutlineMethod ParseOutline(string s) => s.ToLowerInvariant() switch
     {
@@ -82,7 +69,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 _ => throw new ArgumentException($"--sim-format must be json or toml (got '{s.SimFormat}')"),
             },
         }.Validated();
-        var sel = Selection(s.Series, s.Channel, s.Z, s.ZIsTime, s.PixelSize, s.FrameInterval);
+        var sel = s.Selection();
         var cmd = Environment.GetCommandLineArgs().Skip(1);
         bool chatty = !s.Quiet && !s.Json;
         AnalysisResult result;

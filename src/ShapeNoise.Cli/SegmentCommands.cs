@@ -8,18 +8,10 @@ namespace ShapeNoise.Cli;
 
 internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
 {
-    public sealed class Settings : CommandSettings
+    public sealed class Settings : MovieInputSettings
     {
         [CommandArgument(0, "<RAW>"), Description("Raw junction/membrane-marker movie: 8- or 16-bit single-channel TIFF stack or folder of frames.")] public string Input { get; init; } = "";
-        [CommandOption("--out <DIR>"), Description("Output folder: labels.tif, QC overlays, run.json.")] public string Out { get; init; } = "";
-        [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--cell-diameter <UM>"), Description("Expected cell diameter (um; px if the pixel size is unknown). Every segmentation length derives from it.")] public double CellDiameter { get; init; } = 10;
-        [CommandOption("--pixel-size <UM>"), Description("Pixel size (um/px); overrides the metadata and makes pixels square.")] public double? PixelSize { get; init; }
-        [CommandOption("--frame-interval <MIN>"), Description("Frame interval (min); overrides the metadata.")] public double? FrameInterval { get; init; }
-        [CommandOption("--series <N>"), Description("Series (OME Image) to read, 0-based; needed when the file holds several.")] public int? Series { get; init; }
-        [CommandOption("--channel <N>"), Description("Channel to read, 0-based; needed when the file has several.")] public int? Channel { get; init; }
-        [CommandOption("-z|--z-plane <N>"), Description("Z plane to read, 0-based; needed when the file has several.")] public int? Z { get; init; }
-        [CommandOption("--z-is-time"), Description("The file's z planes (ImageJ 'slices') are time points.")] public bool ZIsTime { get; init; }
         [CommandOption("--flatten <DIAMETERS>"), Description("Background flattening: divide by a Gaussian blur this many cell diameters wide.")] public double Flatten { get; init; } = 2;
         [CommandOption("--smooth <FRACTION>"), Description("Smoothing sigma for seeds, as a fraction of the cell diameter.")] public double Smooth { get; init; } = 0.1;
         [CommandOption("--seed-window <FRACTION>"), Description("Seeds: minima over a window of this fraction of the cell diameter.")] public double SeedWindow { get; init; } = 0.9;
@@ -27,7 +19,6 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--min-area-fraction <FRACTION>"), Description("Fragments below this fraction of the expected cell area are merged into a neighbour.")] public double MinAreaFraction { get; init; } = 0.15;
         [CommandOption("--max-area-factor <FACTOR>"), Description("Regions above this many expected cell areas are not cells and are dropped.")] public double MaxAreaFactor { get; init; } = 6;
         [CommandOption("--qc-every <N>"), Description("Write a QC overlay every N frames (0 = none).")] public int QcEvery { get; init; } = 10;
-        public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
     }
 
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
@@ -38,7 +29,7 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
             CellDiameterUm = s.CellDiameter, FlattenDiameters = s.Flatten, SmoothFraction = s.Smooth, SeedWindowFraction = s.SeedWindow,
             BoundarySigmaPx = s.BoundarySigma, MinAreaFraction = s.MinAreaFraction, MaxAreaFactor = s.MaxAreaFactor,
         }, s.PixelSize, s.FrameInterval, s.QcEvery, Environment.GetCommandLineArgs().Skip(1), p,
-            AnalyzeCommand.Selection(s.Series, s.Channel, s.Z, s.ZIsTime, s.PixelSize, s.FrameInterval));
+            s.Selection());
         if (Console.IsOutputRedirected) Go(null);
         else AnsiConsole.Progress()
             .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new RemainingTimeColumn())
