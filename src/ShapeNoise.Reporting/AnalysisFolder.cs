@@ -216,6 +216,7 @@ public static class AnalysisFolder
 /// <summary>Reads conditions.csv (columns condition,replicate,path; paths relative to the file).</summary>
 public static class ConditionTable
 {
+    /// <summary>The rows of conditions.csv at <paramref name="path"/> in file order, each path made absolute; throws <see cref="InputException"/> naming the file when it is missing, has an empty condition or path, lists no movies, repeats a condition and replicate, or has fewer than two conditions.</summary>
     public static List<ConditionRow> Read(string path)
     {
         if (!File.Exists(path)) throw new InputException(path, "no such file");

@@ -52,11 +52,14 @@ public static class ComparisonReport
             r.Conditions.Select(m => new[] { m.Condition, m.Measure, UnitOf(m.Measure, r), I(m.Movies), I(m.Units), Csv(m.Value.Value), Csv(m.Value.Low), Csv(m.Value.High) }));
         WriteCsv(Path.Combine(dir, DifferencesCsv), ["measure", "condition_a", "condition_b", "difference", "ci95_low", "ci95_high", "ratio", "ratio_ci95_low", "ratio_ci95_high", "p_value", "movies_a", "movies_b"],
             r.Differences.Select(x => new[] { x.Measure, x.A, x.B, Csv(x.Difference.Value), Csv(x.Difference.Low), Csv(x.Difference.High), Csv(x.Ratio.Value), Csv(x.Ratio.Low), Csv(x.Ratio.High), Csv(x.PValue), I(x.MoviesA), I(x.MoviesB) }));
+        // Each plot is disposed once its PNG bytes are taken (Plot is IDisposable in ScottPlot 5; the bytes are a copy).
+        using var superAnisotropy = SuperPlot(r, Measures.Anisotropy.Name);
+        using var superContour = SuperPlot(r, Measures.AnisotropyContour.Name);
         var figures = new List<Figure>
         {
             new("superplot-anisotropy.png", "Every track (small points, coloured by replicate), every replicate's value (large markers) and each condition's value with its 95% hierarchical-bootstrap interval (black bar), for var_L / var_W on a log scale.",
-                Figures.Png(SuperPlot(r, Measures.Anisotropy.Name), 720, 520)),
-            new("superplot-anisotropy_contour.png", "The same for the floor-corrected contour ratio var_along / var_across.", Figures.Png(SuperPlot(r, Measures.AnisotropyContour.Name), 720, 520)),
+                Figures.Png(superAnisotropy, 720, 520)),
+            new("superplot-anisotropy_contour.png", "The same for the floor-corrected contour ratio var_along / var_across.", Figures.Png(superContour, 720, 520)),
         };
         Figures.Save(figures, dir);
         string narrative = Narrative(r);
@@ -138,14 +141,16 @@ public static class ComparisonReport
     {
         WriteCsv(Path.Combine(dir, PlanCsv), ["movies_per_condition", "cells_per_movie", "power"],
             plan.Designs.Select(d => new[] { I(d.MoviesPerCondition), I(d.CellsPerMovie), d.Power.ToString("R", Ci) }));
+        using var planPlot = PlanPlot(plan);
         var figure = new Figure("plan.png", "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.",
-            Figures.Png(PlanPlot(plan), 720, 480));
+            Figures.Png(planPlot, 720, 480));
         Figures.Save([figure], dir);
         string narrative = PlanNarrative(plan);
         File.WriteAllText(Path.Combine(dir, "plan.md"), narrative);
         File.WriteAllText(Path.Combine(dir, AnalysisFolder.Report), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative, [figure]));
     }
 
+    /// <summary>Power of the two-sided two-sample t test on movie means (alpha 0.05) against movies per condition, one line per cells-per-movie design, with power 0.8 dashed.</summary>
     public static Plot PlanPlot(PlanResult p)
     {
         var plt = new Plot();
@@ -165,6 +170,7 @@ public static class ComparisonReport
         return plt;
     }
 
+    /// <summary>plan.md's Markdown: the pilot's variance components (between, within, ICC, design effect m / (1 + (m - 1) ICC)), the target effect and the smallest design reaching power 0.8.</summary>
     public static string PlanNarrative(PlanResult p)
     {
         var vc = p.Components;

@@ -12,17 +12,29 @@ public static class Figures
     /// <summary>Every figure of an analysis, drawn in memory, in the order the report shows them (file name, caption, PNG bytes).</summary>
     public static List<Figure> All(AnalysisResult r)
     {
+        // Each plot is disposed once its PNG bytes are taken (Plot is IDisposable in ScottPlot 5; the bytes are a copy).
+        using var anisotropy = Anisotropy(r);
+        using var profile = Profile(r);
+        using var spectrum = Spectrum(r);
+        using var headward = Headward(r);
+        using var defectFlow = DefectFlow(r);
         var figures = new List<Figure>
         {
-            new(AnalysisFolder.AnisotropyFigure, "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).", Png(Anisotropy(r), W, H)),
-            new(AnalysisFolder.ProfileFigure, "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.", Png(Profile(r), W, H)),
-            new(AnalysisFolder.SpectrumFigure, "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.", Png(Spectrum(r), W, H)),
+            new(AnalysisFolder.AnisotropyFigure, "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).", Png(anisotropy, W, H)),
+            new(AnalysisFolder.ProfileFigure, "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.", Png(profile, W, H)),
+            new(AnalysisFolder.SpectrumFigure, "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.", Png(spectrum, W, H)),
         };
         if (r.Dynamics.Series.Count > 0)
+        {
+            var panels = Autocorrelation(r);
+            byte[] sheet;
+            try { sheet = Grid(panels, 3, 480, 360); }
+            finally { foreach (var panel in panels) panel.Dispose(); }
             figures.Add(new(AnalysisFolder.AutocorrelationFigure, "Pooled autocorrelation of each quantity with its 95% band (points, shading) and the fitted model (line), whose correlation time is in the panel title. Dips below zero at long lags are the expected bias of subtracting each track's mean, which the model includes.",
-                Grid(Autocorrelation(r), 3, 480, 360)));
-        figures.Add(new(AnalysisFolder.HeadwardFigure, "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).", Png(Headward(r), W, H)));
-        figures.Add(new(AnalysisFolder.DefectFlowFigure, "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.", Png(DefectFlow(r), 640, 640)));
+                sheet));
+        }
+        figures.Add(new(AnalysisFolder.HeadwardFigure, "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).", Png(headward, W, H)));
+        figures.Add(new(AnalysisFolder.DefectFlowFigure, "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.", Png(defectFlow, 640, 640)));
         return figures;
     }
 
@@ -125,29 +137,35 @@ public static class Figures
         {
             var s = d.Series.FirstOrDefault(x => x.Name == name);
             if (s is null) continue;
-            var plt = new Plot();
-            var xs = Enumerable.Range(0, s.Correlation.Length).Select(k => k * dt).ToArray();
-            var okBand = Enumerable.Range(0, xs.Length).Where(k => double.IsFinite(s.Low[k]) && double.IsFinite(s.High[k])).ToArray();
-            if (okBand.Length > 1)
-            {
-                var band = plt.Add.FillY(okBand.Select(k => xs[k]).ToArray(), okBand.Select(k => s.Low[k]).ToArray(), okBand.Select(k => s.High[k]).ToArray());
-                band.FillStyle.Color = Colors.SteelBlue.WithAlpha(0.25); band.LegendText = "95% band";
-            }
-            var data = plt.Add.ScatterPoints(xs, s.Correlation); data.LegendText = "pooled data"; data.Color = Colors.SteelBlue; data.MarkerSize = 5;
-            var model = plt.Add.ScatterLine(xs, s.Model); model.LegendText = "fitted model"; model.Color = Colors.OrangeRed; model.LineWidth = 2;
-            double tau = name switch
-            {
-                "q" => d.TauQFrames.Value,
-                "theta" => d.TauThetaFrames.Value,
-                _ => d.Coordinates.FirstOrDefault(c => c.Name == name)?.TauFrames.Value ?? double.NaN,
-            };
-            plt.Title($"{SeriesTitle[name]}: tau = {tau * dt:G3} {tu}");
-            plt.XLabel($"lag ({tu})");
-            plt.YLabel("correlation");
-            plt.ShowLegend(Alignment.UpperRight);
-            plots.Add(plt);
+            plots.Add(AutocorrelationPanel(s, name, d, dt, tu));
         }
         return plots;
+    }
+
+    /// <summary>One autocorrelation panel: series <paramref name="s"/> with its band, model and fitted time (lags in <paramref name="tu"/>, <paramref name="dt"/> per frame).</summary>
+    private static Plot AutocorrelationPanel(ShapeNoise.Dynamics.SeriesCorrelation s, string name, ShapeNoise.Dynamics.DynamicsResult d, double dt, string tu)
+    {
+        var plt = new Plot();
+        var xs = Enumerable.Range(0, s.Correlation.Length).Select(k => k * dt).ToArray();
+        var okBand = Enumerable.Range(0, xs.Length).Where(k => double.IsFinite(s.Low[k]) && double.IsFinite(s.High[k])).ToArray();
+        if (okBand.Length > 1)
+        {
+            var band = plt.Add.FillY(okBand.Select(k => xs[k]).ToArray(), okBand.Select(k => s.Low[k]).ToArray(), okBand.Select(k => s.High[k]).ToArray());
+            band.FillStyle.Color = Colors.SteelBlue.WithAlpha(0.25); band.LegendText = "95% band";
+        }
+        var data = plt.Add.ScatterPoints(xs, s.Correlation); data.LegendText = "pooled data"; data.Color = Colors.SteelBlue; data.MarkerSize = 5;
+        var model = plt.Add.ScatterLine(xs, s.Model); model.LegendText = "fitted model"; model.Color = Colors.OrangeRed; model.LineWidth = 2;
+        double tau = name switch
+        {
+            "q" => d.TauQFrames.Value,
+            "theta" => d.TauThetaFrames.Value,
+            _ => d.Coordinates.FirstOrDefault(c => c.Name == name)?.TauFrames.Value ?? double.NaN,
+        };
+        plt.Title($"{SeriesTitle[name]}: tau = {tau * dt:G3} {tu}");
+        plt.XLabel($"lag ({tu})");
+        plt.YLabel("correlation");
+        plt.ShowLegend(Alignment.UpperRight);
+        return plt;
     }
 
     /// <summary>Renders plots side by side into one PNG (SkiaSharp canvas, ScottPlot renders each panel).</summary>

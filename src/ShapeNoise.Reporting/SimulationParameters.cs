@@ -14,6 +14,7 @@ namespace ShapeNoise.Reporting;
 /// </summary>
 public static class SimulationParameters
 {
+    /// <summary>The schema_version written into sim-params (docs/sim-params.md, schema "shapenoise.sim-params").</summary>
     public const int SchemaVersion = 1;
 
     /// <summary>The time unit T in the run's time unit, and its name.</summary>
@@ -28,7 +29,7 @@ public static class SimulationParameters
         };
     }
 
-    static JsonNode? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+    static JsonValue? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
     static JsonObject I(Estimate e) => Summary.Interval(e);
 
     /// <summary>The parameter blocks shared by sim-params and summary.json ("dynamics"), so both report the same numbers.</summary>

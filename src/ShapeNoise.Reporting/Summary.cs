@@ -10,9 +10,10 @@ namespace ShapeNoise.Reporting;
 /// <summary>summary.json (docs/measures.md#output-contract) and floor.json (the fixed-cell floor export read by --floor-from).</summary>
 public static class Summary
 {
+    /// <summary>The serializer options of every JSON file written (indented), one shared instance.</summary>
     public static readonly JsonSerializerOptions Indented = new() { WriteIndented = true };
 
-    static JsonNode? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+    static JsonValue? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
 
     /// <summary>{"value": x, "ci95": [lo, hi]}, with nulls where undefined.</summary>
     public static JsonObject Interval(Estimate e) => new() { ["value"] = Num(e.Value), ["ci95"] = new JsonArray(Num(e.Low), Num(e.High)) };

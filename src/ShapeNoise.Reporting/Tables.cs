@@ -142,6 +142,7 @@ public static class Tables
         }
     }
 
+    /// <summary>tracks.csv rows, one per track in track order: duration (time unit), mean area, length and width (area and length units), var_L, var_W minus the floor reference's, and contour variances with their noise floors, corrected = raw - floor (area unit); null where undefined.</summary>
     public static List<TrackRow> Tracks(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units);
@@ -162,12 +163,14 @@ public static class Tables
         return rows;
     }
 
+    /// <summary>The tracks.csv name of a track end: movie_end, lost, border, too_small, division or merge.</summary>
     public static string EndName(TrackEnd e) => e switch
     {
         TrackEnd.MovieEnd => "movie_end", TrackEnd.Lost => "lost", TrackEnd.Border => "border", TrackEnd.Small => "too_small",
         TrackEnd.Division => "division", TrackEnd.Merge => "merge", _ => e.ToString().ToLowerInvariant(),
     };
 
+    /// <summary>spectrum.csv rows for modes n = 2..M/2: pooled mode power p_n, the noise floor per mode and p_n - floor (area unit).</summary>
     public static List<SpectrumRow> Spectrum(AnalysisResult r)
     {
         double s2 = UnitScale.Of(r.Units).AreaFactor;
@@ -178,6 +181,7 @@ public static class Tables
         return rows;
     }
 
+    /// <summary>profile.csv rows, one per bin of the normal's angle from the long axis over 0..90 deg: raw contour variance, floor and raw - floor (area unit).</summary>
     public static List<ProfileRow> Profile(AnalysisResult r)
     {
         double s2 = UnitScale.Of(r.Units).AreaFactor;
@@ -190,6 +194,7 @@ public static class Tables
         return rows;
     }
 
+    /// <summary>autocorrelation.csv rows, one per series and lag k = 0..K: lag in frames and in the time unit (k dt), pooled correlation, pair count, 95% band and fitted model.</summary>
     public static List<CorrelationRow> Correlations(AnalysisResult r)
     {
         double dt = UnitScale.Of(r.Units).TimeFactor;
@@ -202,6 +207,7 @@ public static class Tables
 
     static double? N(double v) => double.IsFinite(v) ? v : null;
 
+    /// <summary>defects.csv rows, one per defect observation: position (length unit and px), charge, head direction, defect velocity, flow velocity and headward speeds (speed unit), order S; null where undefined.</summary>
     public static List<DefectRow> Defects(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units);
@@ -211,6 +217,7 @@ public static class Tables
             N(o.FlowVx * sv), N(o.FlowVy * sv), N(o.FlowHeadwardSpeed * sv), o.Defect.Order)).ToList();
     }
 
+    /// <summary>defect-flow.csv rows: the mean flow (v_par along e_head, v_perp across; speed unit) and mean Qxx, Qxy on the grid about +1/2 defects, position in coarse widths and in the length unit; empty when no defect was sampled.</summary>
     public static List<FlowRow> DefectFlow(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units);
@@ -237,6 +244,7 @@ public static class Tables
         csv.WriteRecords(rows);
     }
 
+    /// <summary>Writes cells, tracks, spectrum, profile, autocorrelation, defects and defect-flow tables into <paramref name="dir"/> in the run's units.</summary>
     public static void WriteAll(AnalysisResult r, string dir)
     {
         var c = AnalysisFolder.Columns(UnitScale.Of(r.Units));

@@ -10,6 +10,9 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>The whole <c>analyze</c> job: open the movie, analyse it, write the output folder with provenance.</summary>
 public static class AnalyzeJob
 {
+    /// <summary>Options serialisation for run.json: enums as their names; one cached instance (CA1869).</summary>
+    private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
+
     /// <param name="input">Movie path (file or folder).</param>
     /// <param name="outDir">Output folder; written atomically.</param>
     /// <param name="options">Analysis options.</param>
@@ -50,7 +53,7 @@ public static class AnalyzeJob
         }
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
         if (extraInputs is not null) files.InsertRange(0, extraInputs);
-        var opts = JsonSerializer.SerializeToNode(options, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
+        var opts = JsonSerializer.SerializeToNode(options, OptionsJson)!;
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
         prov["movie"] = Provenance.Movie(result.Movie, result.Units.PixelSizeUm, result.Units.PixelSizeSource, result.Units.FrameIntervalMin, result.Units.FrameIntervalSource);
         var figs = frameFigures;

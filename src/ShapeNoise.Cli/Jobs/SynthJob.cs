@@ -10,6 +10,9 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>Writes a synthetic scenario as an OME-TIFF label movie with its truth.json and run.json.</summary>
 public static class SynthJob
 {
+    /// <summary>Options serialisation for run.json: enums as their names; one cached instance (CA1869).</summary>
+    private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
+
     /// <summary>Fluctuating ellipses: labels.tif (uint16, Deflate, OME-XML with pixel size and frame interval) and truth.json.</summary>
     public static EllipseMovie Ellipses(EllipseMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
     {
@@ -76,7 +79,7 @@ public static class SynthJob
                 ["defects"] = frames,
             };
             File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
-            var opts = JsonSerializer.SerializeToNode(o, new JsonSerializerOptions { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } })!;
+            var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
             File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("synth monolayer", [], opts, commandLine).ToJsonString(Summary.Indented));
         });
         return movie;

@@ -14,6 +14,7 @@ public sealed record DynamicsResult(int MaxLag, int FitLags, IReadOnlyList<Serie
     Estimate TauQFrames, double TauQUncorrectedFrames, Estimate TauQIntegratedFrames, int SokalWindow, bool SokalWindowReached,
     Estimate TauThetaFrames, double ThetaPlateau, double VarianceQ, IReadOnlyList<OuCoordinate> Coordinates, int Tracks)
 {
+    /// <summary>The result when no track enters the statistics: no lags, no series, every estimate NaN, 0 tracks.</summary>
     public static DynamicsResult Empty => new(0, 0, [], Estimate.NaN, double.NaN, Estimate.NaN, 0, false, Estimate.NaN, double.NaN, double.NaN, [], 0);
 }
 

@@ -9,6 +9,7 @@ public sealed record TrackRecord(int Id, int FirstFrame, int LastFrame, TrackEnd
     double[] CentroidX, double[] CentroidY,
     TrackContour? Contour, double VarLPx2, double VarWPx2, bool Used)
 {
+    /// <summary>Number of frames in the track (length of <see cref="FrameIndex"/>).</summary>
     public int Frames => FrameIndex.Length;
 }
 

@@ -9,14 +9,23 @@ public readonly record struct CellSample(double X, double Y, double Qxx, double 
 /// </summary>
 public sealed class NematicGrid(int nx, int ny, double spacingPx, double[] qxx, double[] qxy, double[] w, double[] vx, double[] vy, double[] wv)
 {
+    /// <summary>Number of nodes along x (i = 0..Nx-1).</summary>
     public int Nx { get; } = nx;
+    /// <summary>Number of nodes along y (j = 0..Ny-1).</summary>
     public int Ny { get; } = ny;
+    /// <summary>Node spacing h (px).</summary>
     public double SpacingPx { get; } = spacingPx;
+    /// <summary>Qxx of the coarse-grained tensor Q = sum_c w Q_c / sum_c w per node k = j Nx + i (dimensionless; 0 where W ~ 0).</summary>
     public double[] Qxx { get; } = qxx;
+    /// <summary>Qxy of the coarse-grained tensor Q = sum_c w Q_c / sum_c w per node k = j Nx + i (dimensionless; 0 where W ~ 0).</summary>
     public double[] Qxy { get; } = qxy;
+    /// <summary>Summed Gaussian weight W = sum_c w(|x - c|) of the cells per node (dimensionless; 0 where no cell is near).</summary>
     public double[] Weight { get; } = w;
+    /// <summary>x velocity V = sum_c w v_c / sum_c w over cells with a known velocity, per node (px/frame; NaN where WV = 0).</summary>
     public double[] Vx { get; } = vx;
+    /// <summary>y velocity V = sum_c w v_c / sum_c w over cells with a known velocity, per node (px/frame; NaN where WV = 0).</summary>
     public double[] Vy { get; } = vy;
+    /// <summary>Summed Gaussian weight WV = sum_c w(|x - c|) of the cells with a known velocity, per node (dimensionless).</summary>
     public double[] VelocityWeight { get; } = wv;
 
     /// <summary>Director angle theta = 0.5 atan2(Qxy, Qxx) at node k.</summary>
@@ -62,6 +71,9 @@ public sealed class NematicGrid(int nx, int ny, double spacingPx, double[] qxx, 
 /// "Emergence of active nematic behavior in monolayers of isotropic cells", Phys. Rev. Lett. 122:048004.</remarks>
 public static class CoarseGraining
 {
+    /// <summary>The coarse-grained fields of <paramref name="cells"/> on a grid covering <paramref name="widthPx"/> x <paramref name="heightPx"/>
+    /// with node spacing <paramref name="spacingPx"/> and Gaussian width <paramref name="sigmaPx"/> (all px):
+    /// Q = sum_c w Q_c / sum_c w and V = sum_c w v_c / sum_c w, w = exp(-|x - c|^2 / (2 sigma^2)).</summary>
     public static NematicGrid Of(ReadOnlySpan<CellSample> cells, int widthPx, int heightPx, double spacingPx, double sigmaPx)
     {
         int nx = (int)Math.Floor(widthPx / spacingPx) + 1, ny = (int)Math.Floor(heightPx / spacingPx) + 1;

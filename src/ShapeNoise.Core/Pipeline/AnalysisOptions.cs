@@ -7,10 +7,22 @@ using ShapeNoise.Tracking;
 namespace ShapeNoise.Pipeline;
 
 /// <summary>Where the cell velocities of the defect analysis come from.</summary>
-public enum VelocitySource { Centroids, Flow }
+public enum VelocitySource
+{
+    /// <summary>Velocity of a cell = displacement of its tracked centroid between frames (px/frame).</summary>
+    Centroids,
+    /// <summary>Velocity from dense optical flow of the raw intensity movie at each cell's centroid (px/frame).</summary>
+    Flow,
+}
 
 /// <summary>File format of the simulation parameters.</summary>
-public enum SimFormat { Json, Toml }
+public enum SimFormat
+{
+    /// <summary>JSON: sim-params.json.</summary>
+    Json,
+    /// <summary>TOML: sim-params.toml (same content; undefined numbers are nan, TOML has no null).</summary>
+    Toml,
+}
 
 /// <summary>Options of <c>analyze</c>, flat as the CLI and run.json see them; <see cref="Validated"/> checks them, and the
 /// <c>For*</c> properties hand each stage its own (self-checking) record. Defaults are the spec's.</summary>

@@ -8,6 +8,7 @@ public sealed class PhaseTimes
     private readonly Dictionary<string, double> _seconds = new();
     private readonly List<string> _order = [];
 
+    /// <summary>Adds <paramref name="seconds"/> (s, wall clock) to <paramref name="phase"/>'s total; a new phase goes last in <see cref="Phases"/>.</summary>
     public void Add(string phase, double seconds)
     {
         lock (_seconds)
@@ -25,6 +26,7 @@ public sealed class PhaseTimes
         finally { Add(phase, Stopwatch.GetElapsedTime(t0).TotalSeconds); }
     }
 
+    /// <summary>Each phase with its total wall-clock seconds (s), in the order first seen; a snapshot.</summary>
     public IReadOnlyList<(string Phase, double Seconds)> Phases
     {
         get { lock (_seconds) return _order.Select(p => (p, _seconds[p])).ToList(); }

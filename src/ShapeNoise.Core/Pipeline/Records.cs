@@ -11,13 +11,19 @@ public sealed record AnalysisCounts(int Frames, int Objects, int Outlines, int E
 /// <summary>Physical scale: pixel size and frame interval, each from metadata, options or unknown.</summary>
 public sealed record Units(double? PixelSizeUm, string PixelSizeSource, double? FrameIntervalMin, string FrameIntervalSource)
 {
+    /// <summary>Pixel size s (um per px), 1 when unknown (lengths then stay in px).</summary>
     public double S => PixelSizeUm ?? 1.0;
+    /// <summary>Frame interval dt (min per frame), 1 when unknown (times then stay in frames).</summary>
     public double Dt => FrameIntervalMin ?? 1.0;
+    /// <summary>Length unit for text: "um", or "px" when the pixel size is unknown.</summary>
     public string Length => PixelSizeUm is null ? "px" : "um";
+    /// <summary>Time unit for text: "min", or "frame" when the frame interval is unknown.</summary>
     public string Time => FrameIntervalMin is null ? "frame" : "min";
-    /// <summary>Column suffixes: _um/_px, _um2/_px2, _min/_frames.</summary>
+    /// <summary>Length column suffix: "um", or "px" when the pixel size is unknown (columns _um/_px, _um2/_px2, _min/_frames).</summary>
     public string L => PixelSizeUm is null ? "px" : "um";
+    /// <summary>Area column suffix: "um2", or "px2" when the pixel size is unknown.</summary>
     public string L2 => PixelSizeUm is null ? "px2" : "um2";
+    /// <summary>Time column suffix: "min", or "frames" when the frame interval is unknown.</summary>
     public string T => FrameIntervalMin is null ? "frames" : "min";
 }
 

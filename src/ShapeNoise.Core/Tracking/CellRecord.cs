@@ -25,4 +25,18 @@ public static class FrameRuns
 }
 
 /// <summary>Why a track ended.</summary>
-public enum TrackEnd { MovieEnd, Lost, Border, Small, Division, Merge }
+public enum TrackEnd
+{
+    /// <summary>The cell was still tracked in the last frame of the movie.</summary>
+    MovieEnd,
+    /// <summary>No outline of the next frame continues the cell (nor, with --max-gap, of the following frames).</summary>
+    Lost,
+    /// <summary>The cell's successor in the next frame touches the image border and is excluded.</summary>
+    Border,
+    /// <summary>The cell's successor in the next frame is below the minimum area and is excluded.</summary>
+    Small,
+    /// <summary>The cell divided into two or more objects.</summary>
+    Division,
+    /// <summary>The cell merged with another object.</summary>
+    Merge,
+}

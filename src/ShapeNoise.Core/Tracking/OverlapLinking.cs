@@ -7,7 +7,9 @@ namespace ShapeNoise.Tracking;
 /// <param name="Successor">For each object of the earlier frame, its only significant successor, or -1 (none, or a division).</param>
 public sealed record FrameLinks(int[] Predecessor, bool[] Divided, bool[] Merged, int[] Successor)
 {
+    /// <summary>Number of objects of the earlier frame that divided (count of true in <see cref="Divided"/>).</summary>
     public int Divisions { get { int n = 0; foreach (var d in Divided) if (d) n++; return n; } }
+    /// <summary>Number of objects of the later frame that formed by merging (count of true in <see cref="Merged"/>).</summary>
     public int Merges { get { int n = 0; foreach (var m in Merged) if (m) n++; return n; } }
 }
 

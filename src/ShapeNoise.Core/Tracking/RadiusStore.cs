@@ -7,13 +7,14 @@ namespace ShapeNoise.Tracking;
 /// memory, so memory stays flat however long the movie: each outline's M doubles are appended once and read back
 /// once, when its track ends. Exact: the doubles are stored bit for bit.
 /// </summary>
-public sealed class RadiusStore : IDisposable
+internal sealed class RadiusStore : IDisposable
 {
     private readonly FileStream _file;
     private readonly int _rays;
     private long _length;
     private bool _dirty;
 
+    /// <summary>Opens an empty store in a new temporary file for outlines of <paramref name="rays"/> radii (px) each.</summary>
     public RadiusStore(int rays)
     {
         _rays = rays;
@@ -39,5 +40,6 @@ public sealed class RadiusStore : IDisposable
         if (got != bytes) throw new IOException("temporary radius file was cut short");
     }
 
+    /// <summary>Closes and so deletes the temporary file.</summary>
     public void Dispose() => _file.Dispose();
 }

@@ -16,19 +16,19 @@ public sealed class DefectOverlays(int frames = 3) : IFrameFigures
     public const string Caption = "Frames with each cell's long axis (short lines), +1/2 defects as red comets (the dot is the head) and −1/2 defects as blue three-armed symbols.";
 
     /// <summary>Draws the chosen frames (first, last, evenly between) and hands them back as defects-frame-NNN.png figures, in frame order.</summary>
-    public IReadOnlyList<Figure> Draw(AnalysisResult r, Func<ILabelMovie> reopen)
+    public IReadOnlyList<Figure> Draw(AnalysisResult result, Func<ILabelMovie> reopen)
     {
         var figures = new List<Figure>();
-        int total = r.Counts.Frames;
+        int total = result.Counts.Frames;
         if (total == 0) return figures;
         var wanted = Enumerable.Range(0, frames).Select(i => frames == 1 ? 0 : (int)Math.Round(i * (total - 1) / (double)(frames - 1))).Distinct().ToHashSet();
-        var cellsByFrame = r.Cells.Where(c => wanted.Contains(c.Frame)).GroupBy(c => c.Frame).ToDictionary(g => g.Key, g => g.ToList());
-        var defectsByFrame = r.Defects.Observations.GroupBy(o => o.Frame).ToDictionary(g => g.Key, g => g.ToList());
+        var cellsByFrame = result.Cells.Where(c => wanted.Contains(c.Frame)).GroupBy(c => c.Frame).ToDictionary(g => g.Key, g => g.ToList());
+        var defectsByFrame = result.Defects.Observations.GroupBy(o => o.Frame).ToDictionary(g => g.Key, g => g.ToList());
         using var movie = reopen();
         foreach (var frame in movie.Frames())
         {
             if (!wanted.Contains(frame.Index)) continue;
-            using var img = Draw(frame, cellsByFrame.GetValueOrDefault(frame.Index) ?? [], defectsByFrame.GetValueOrDefault(frame.Index) ?? [], r.Defects.CoarsePx);
+            using var img = Draw(frame, cellsByFrame.GetValueOrDefault(frame.Index) ?? [], defectsByFrame.GetValueOrDefault(frame.Index) ?? [], result.Defects.CoarsePx);
             figures.Add(new Figure($"defects-frame-{frame.Index:D3}.png", Caption, img.ImEncode(".png")));
             if (frame.Index >= wanted.Max()) break;
         }
