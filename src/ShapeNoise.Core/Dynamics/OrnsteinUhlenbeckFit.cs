@@ -105,6 +105,9 @@ internal static class OrnsteinUhlenbeckFit
     /// Fits the pooled lagged sums of <paramref name="tracks"/> (with bootstrap multiplicities <paramref name="weights"/>,
     /// empty = all 1) over lags 0..<paramref name="fitLags"/>. <paramref name="frames"/> gives each track's frames.
     /// </summary>
+    /// <remarks>About 70 lines on purpose: the least-squares objective (closed-form s2, e2 for each rho) is a local function
+    /// over the track groups it closes on; it runs once per grid point per bootstrap resample, so the groups are built once
+    /// here rather than passed around.</remarks>
     public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags)
     {
         int K = fitLags + 1;
