@@ -1,5 +1,5 @@
 // Decode comparison: the hand-written reader (ShapeNoise.Imaging.Reading.TiffPages) against BitMiracle.LibTiff.NET on the
-// container corpus (tests/ShapeNoise.Tests/Reading/Corpus/container) and on benchmark movies.
+// container corpus (tests/ShapeNoise.Imaging.Tests/Reading/Corpus/container) and on benchmark movies.
 //   dotnet run --project bench/TiffDecodeCompare -c Release -- <movie.tif> [<movie.tif> ...]
 using System.Diagnostics;
 using System.Security.Cryptography;
@@ -9,7 +9,7 @@ using ShapeNoise.Imaging.Reading;
 
 string root = AppContext.BaseDirectory;
 while (!File.Exists(Path.Combine(root, "ShapeNoise.sln"))) root = Path.GetDirectoryName(root)!;
-string corpus = Path.Combine(root, "tests", "ShapeNoise.Tests", "Reading", "Corpus", "container");
+string corpus = Path.Combine(root, "tests", "ShapeNoise.Imaging.Tests", "Reading", "Corpus", "container");
 var expected = JsonNode.Parse(File.ReadAllText(Path.Combine(corpus, "expected.json")))!.AsObject();
 var errors = new CollectingHandler();
 Tiff.SetErrorHandler(errors);

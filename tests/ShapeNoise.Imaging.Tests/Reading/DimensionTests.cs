@@ -16,7 +16,7 @@ public class DimensionTests
     {
         var d = new DirectoryInfo(AppContext.BaseDirectory);
         while (d is not null && !File.Exists(Path.Combine(d.FullName, "ShapeNoise.sln"))) d = d.Parent;
-        return Path.Combine(d!.FullName, "tests", "ShapeNoise.Tests", "Reading", "Corpus", "dimensions");
+        return Path.Combine(d!.FullName, "tests", "ShapeNoise.Imaging.Tests", "Reading", "Corpus", "dimensions");
     }
 
     private static JsonObject Expected() => JsonNode.Parse(File.ReadAllText(Path.Combine(CorpusDir(), "expected.json")))!.AsObject();

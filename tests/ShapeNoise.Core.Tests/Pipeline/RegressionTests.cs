@@ -51,7 +51,7 @@ public class RegressionTests
     public void Analyze_DemoMovie_ReproducesRecordedSummary(string name)
     {
         string root = Root();
-        var expected = JsonNode.Parse(File.ReadAllText(Path.Combine(root, "tests", "ShapeNoise.Tests", "Fixtures", $"demo-{name}-summary.json")))!;
+        var expected = JsonNode.Parse(File.ReadAllText(Path.Combine(root, "tests", "ShapeNoise.Core.Tests", "Fixtures", $"demo-{name}-summary.json")))!;
         using var movie = LabelMovies.Open(Path.Combine(root, "demo-data", name, "labels.tif"));
         var actual = JsonNode.Parse(Summary.Build(MovieAnalyzer.Run(movie, new AnalysisOptions())).ToJsonString())!;
         int n = 0;

@@ -48,12 +48,12 @@ public class AnalysisFolderTests
     [Fact]
     public void Columns_MicronRun_SuffixesMatchTheGoldenHeaders()
     {
-        // The golden header file (tests/ShapeNoise.Tests/Golden/ellipses.csv-headers.txt, the output contract of a run in
+        // The golden header file (tests/ShapeNoise.Reporting.Tests/Golden/ellipses.csv-headers.txt, the output contract of a run in
         // um and min) must hold every unit-suffixed column name that AnalysisColumns gives for um/min.
         var u = UnitScale.Of(new Units(0.5, "option", 2.0, "option"));
         var c = AnalysisFolder.Columns(u);
         string root = new DirectoryInfo(AppContext.BaseDirectory).Parent!.Parent!.Parent!.Parent!.Parent!.FullName;
-        var headers = File.ReadLines(Path.Combine(root, "tests", "ShapeNoise.Tests", "Golden", "ellipses.csv-headers.txt")).Where(l => !l.StartsWith('#'))
+        var headers = File.ReadLines(Path.Combine(root, "tests", "ShapeNoise.Reporting.Tests", "Golden", "ellipses.csv-headers.txt")).Where(l => !l.StartsWith('#'))
             .ToDictionary(l => l[..l.IndexOf(':')], l => l[(l.IndexOf(':') + 2)..].Split(','));
         Assert.Equal(new[] { "frame", c.Time, "label", "track_id", "in_statistics", c.X, c.Y, c.Area, c.Perimeter, c.Length, c.Width, "aspect_ratio",
             "elongation_q", "theta_rad", c.MeanRadius, c.Mode2Amplitude, "star_shaped", "vertices" }, headers[AnalysisFolder.Cells]);

@@ -1,7 +1,7 @@
 #!/usr/bin/python3
 """Label PNG frames written by PIL 9.4 (Debian's /usr/bin/python3), and expected.json with their pixels.
 
-    /usr/bin/python3 tests/ShapeNoise.Tests/Reading/Corpus/png/make_png.py
+    /usr/bin/python3 tests/ShapeNoise.Imaging.Tests/Reading/Corpus/png/make_png.py
 
 - palette_identity_*.png: Image.fromarray(uint8 labels, mode='P'). PIL gives a new 'P' image its default palette,
   which it writes as a 256-entry PLTE with entry i = (i, i, i) (checked below from the written chunk), so the palette

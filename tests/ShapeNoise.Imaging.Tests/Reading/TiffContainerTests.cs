@@ -23,7 +23,7 @@ public class TiffContainerTests
             var d = new DirectoryInfo(AppContext.BaseDirectory);
             while (d is not null && !File.Exists(Path.Combine(d.FullName, "ShapeNoise.sln"))) d = d.Parent;
             if (d is null) throw new InvalidOperationException("ShapeNoise.sln not found above the test assembly");
-            return Path.Combine(d.FullName, "tests", "ShapeNoise.Tests", "Reading", "Corpus", "container");
+            return Path.Combine(d.FullName, "tests", "ShapeNoise.Imaging.Tests", "Reading", "Corpus", "container");
         }
     }
 

@@ -42,7 +42,7 @@ public sealed class GoldenRuns : IDisposable
 /// <summary>
 /// Output contract (docs/measures.md#output-contract): the analyze folder's file list, the header line of every CSV,
 /// and the key schema of summary.json and sim-params.json, compared against the committed golden files in
-/// tests/ShapeNoise.Tests/Golden/ (one set per synth scenario). Only names and value kinds are recorded, never values.
+/// tests/ShapeNoise.Reporting.Tests/Golden/ (one set per synth scenario). Only names and value kinds are recorded, never values.
 /// A mismatch prints a line diff (- golden, + now). When the change is intended, regenerate the golden files with
 /// <c>SHAPENOISE_UPDATE_GOLDEN=1 dotnet test ShapeNoise.sln -c Release --filter "FullyQualifiedName~GoldenSchemaTests"</c>
 /// (the tests then rewrite the files instead of comparing) and commit the diff with the change that caused it.
@@ -66,7 +66,7 @@ public class GoldenSchemaTests(GoldenRuns runs) : IClassFixture<GoldenRuns>
         var d = new DirectoryInfo(AppContext.BaseDirectory);
         while (d is not null && !File.Exists(Path.Combine(d.FullName, "ShapeNoise.sln"))) d = d.Parent;
         Assert.True(d is not null, "ShapeNoise.sln not found above the test assembly");
-        return Path.Combine(d!.FullName, "tests", "ShapeNoise.Tests", "Golden");
+        return Path.Combine(d!.FullName, "tests", "ShapeNoise.Reporting.Tests", "Golden");
     }
 
     // ---- what is recorded ----
@@ -140,7 +140,7 @@ public class GoldenSchemaTests(GoldenRuns runs) : IClassFixture<GoldenRuns>
         {
             Directory.CreateDirectory(GoldenFolder());
             var sb = new StringBuilder();
-            sb.Append($"# {what}. Golden file of tests/ShapeNoise.Tests/Reporting/GoldenSchemaTests.cs; regenerate with {UpdateVariable}=1 (see DEVELOPERS.md).\n");
+            sb.Append($"# {what}. Golden file of tests/ShapeNoise.Reporting.Tests/Reporting/GoldenSchemaTests.cs; regenerate with {UpdateVariable}=1 (see DEVELOPERS.md).\n");
             foreach (var l in actual) sb.Append(l).Append('\n');
             File.WriteAllText(path, sb.ToString());
             return;
@@ -150,7 +150,7 @@ public class GoldenSchemaTests(GoldenRuns runs) : IClassFixture<GoldenRuns>
         foreach (var l in File.ReadAllLines(path)) if (l.Length > 0 && !l.StartsWith('#')) expected.Add(l);
         if (expected.SequenceEqual(actual, StringComparer.Ordinal)) return;
         Assert.Fail($"{what} differs from golden file {name} (- golden, + now):\n{Diff(expected, actual)}\n" +
-                    $"If the change is intended, regenerate with {UpdateVariable}=1 dotnet test ShapeNoise.sln -c Release --filter \"FullyQualifiedName~GoldenSchemaTests\" and commit tests/ShapeNoise.Tests/Golden/.");
+                    $"If the change is intended, regenerate with {UpdateVariable}=1 dotnet test ShapeNoise.sln -c Release --filter \"FullyQualifiedName~GoldenSchemaTests\" and commit tests/ShapeNoise.Reporting.Tests/Golden/.");
     }
 
     /// <summary>Line diff by longest common subsequence: changed lines with "-"/"+", unchanged ones left out; CSV

@@ -2,7 +2,7 @@
 """Writes the TIFF container conformance corpus and expected.json (run with Debian's /usr/bin/python3:
 tifffile 2023.2.3, numpy; libtiff-tools 4.5 for tiffcp).
 
-    /usr/bin/python3 tests/ShapeNoise.Tests/Reading/Corpus/container/make_corpus.py
+    /usr/bin/python3 tests/ShapeNoise.Imaging.Tests/Reading/Corpus/container/make_corpus.py
 
 Valid files are written by tifffile (TiffWriter.write / imwrite; layouts as documented in tifffile's docstrings:
 `compression`, `predictor`, `tile`, `bigtiff`, `byteorder`, `rowsperstrip`, `planarconfig`) or converted by libtiff's
