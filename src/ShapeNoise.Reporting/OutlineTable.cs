@@ -112,7 +112,7 @@ public sealed class OutlineTable
             for (int f = frames[k - 1].Item1 + 1; f < frames[k].Item1; f++) missing.Add(f);
         if (missing.Count > 0)
             warnings.Add($"{System.IO.Path.GetFileName(path)}: frame{(missing.Count > 1 ? "s" : "")} {string.Join(", ", missing.Take(10))}{(missing.Count > 10 ? ", …" : "")} "
-                         + $"({missing.Count} in all) missing between frames {frames[0].Item1} and {frames[^1].Item1}: tracks are not linked across a missing frame");
+                         + $"({missing.Count} in all) missing between frames {frames[0].Item1} and {frames[^1].Item1}: tracks end there (Lost) unless --max-gap bridges the gap");
         var info = new MovieInfo(path, (int)Math.Ceiling(maxX) + 1, (int)Math.Ceiling(maxY) + 1, frames.Count, pixelSizeUm, frameIntervalMin, "outline table (CSV)");
         return new OutlineTable(path, frames, skipped, info, warnings);
     }

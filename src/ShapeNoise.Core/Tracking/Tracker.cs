@@ -26,6 +26,7 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
     private readonly List<(int Slot, int LastFrame, double X, double Y, double RadiusPx)> _dormant = [];
     private int[]? _prevSlot;               // open-track slot of each outline of the previous frame, or -1
     private OutlineShape?[]? _prevShapes;
+    private int _prevFrame;
 
     /// <summary>
     /// Places the outlines of frame <paramref name="frameIndex"/>. <paramref name="shapes"/>[i] must be set for every
@@ -35,6 +36,14 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
     public Placement[] Step(int frameIndex, IReadOnlyList<Outline> outlines, IReadOnlyList<OutlineShape?> shapes, FrameLinks? links)
     {
         if (shapes.Count != outlines.Count) throw new ArgumentException("one shape per outline expected", nameof(shapes));
+        if (links is null && _prevSlot is not null)
+        {
+            // A frame without links after an earlier one (a frame missing from an outline table): nothing continues, so
+            // the earlier tracks end Lost, or wait as dormant tracks that --max-gap may resume in this very frame, instead
+            // of running on to the movie's end.
+            EndNotContinued(frameIndex, outlines, NoLinks(_prevSlot.Length, outlines.Count), new bool[_prevSlot.Length]);
+            _prevSlot = null;
+        }
         var resume = Resume(frameIndex, outlines, shapes, links);
         var placed = new Placement[outlines.Count];
         var slot = new int[outlines.Count];
@@ -52,7 +61,7 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
             placed[i] = new Placement(_builder.IdOf(s), theta, modes);
         }
         if (links is not null) EndNotContinued(frameIndex, outlines, links, continued!);
-        _prevSlot = slot; _prevShapes = [.. shapes];
+        _prevSlot = slot; _prevShapes = [.. shapes]; _prevFrame = frameIndex;
         return placed;
     }
 
@@ -103,10 +112,17 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
             if (why == TrackEnd.Lost && options.MaxGapFrames > 0)
             {
                 var s = _prevShapes![a]!.Shape;
-                _dormant.Add((_prevSlot[a], frameIndex - 1, s.CentroidX, s.CentroidY, Math.Sqrt(s.AreaPx2 / Math.PI)));
+                _dormant.Add((_prevSlot[a], _prevFrame, s.CentroidX, s.CentroidY, Math.Sqrt(s.AreaPx2 / Math.PI)));
             }
             else _builder.End(_prevSlot[a], why);
         }
+    }
+
+    private static FrameLinks NoLinks(int earlier, int later)
+    {
+        var pred = new int[later]; Array.Fill(pred, -1);
+        var succ = new int[earlier]; Array.Fill(succ, -1);
+        return new FrameLinks(pred, new bool[earlier], new bool[later], succ);
     }
 
     /// <summary>After the last frame: dormant tracks end Lost, every other open track MovieEnd.</summary>

@@ -105,6 +105,41 @@ public class TrackerTests
     }
 
     [Fact]
+    public void Step_FrameMissingFromTheMovie_EndsTheEarlierTracksLost()
+    {
+        // Frames 0, 1, then 3 (frame 2 absent, as in an outline table that skips it): no links into frame 3, so the
+        // tracks of frames 0-1 end Lost (docs/measures.md#track-definitions: a gap longer than --max-gap 0 ends a track),
+        // not MovieEnd, and frame 3's cell starts a new track.
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 0, minTrackFrames: 3));
+        var done = new List<FinishedTrack>();
+        Step(tracker, 0, [Ellipse(1, 30, 30)], null);
+        Step(tracker, 1, [Ellipse(1, 30, 30)], OneToOne(1, 0));
+        Step(tracker, 3, [Ellipse(1, 30, 30)], null);
+        done.AddRange(tracker.TakeFinished());
+        tracker.Finish();
+        done.AddRange(tracker.TakeFinished());
+        Assert.Equal(2, done.Count);
+        Assert.Equal([0, 1], done[0].FrameIndex);
+        Assert.Equal(TrackEnd.Lost, done[0].End);
+        Assert.Equal([3], done[1].FrameIndex);
+        Assert.Equal(TrackEnd.MovieEnd, done[1].End);
+    }
+
+    [Fact]
+    public void Step_FrameMissingWithinMaxGap_ResumesAcrossIt()
+    {
+        // With --max-gap 1 the same missing frame is bridged: one track over frames 0, 1, 3.
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 1, minTrackFrames: 3));
+        Step(tracker, 0, [Ellipse(1, 30, 30)], null);
+        Step(tracker, 1, [Ellipse(1, 30, 30)], OneToOne(1, 0));
+        Step(tracker, 3, [Ellipse(1, 31, 30)], null);
+        tracker.Finish();
+        var done = tracker.TakeFinished().ToList();
+        Assert.Single(done);
+        Assert.Equal([0, 1, 3], done[0].FrameIndex);
+    }
+
+    [Fact]
     public void Step_Division_EndsTheMotherTrackWithDivision()
     {
         using var tracker = new Tracker(Rays, new TrackingOptions());
