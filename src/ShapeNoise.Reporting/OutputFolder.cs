@@ -71,11 +71,11 @@ public static class OutputFolder
         if (full == Path.GetPathRoot(full)) throw new OutputException(target.Folder, "is the root folder; choose a new folder for the output");
         string parent = Path.GetDirectoryName(full)!, name = Path.GetFileName(full);
         if (File.Exists(full)) throw new OutputException(target.Folder, "exists and is a file, not a folder; choose a new folder for the output");
-        string real = Canonical(full);
+        string real = FilePaths.Real(full);
         foreach (var input in target.Inputs ?? [])
         {
             if (string.IsNullOrWhiteSpace(input) || (!File.Exists(input) && !Directory.Exists(input))) continue;
-            string inReal = Canonical(Path.GetFullPath(input));
+            string inReal = FilePaths.Real(input);
             string holder = File.Exists(inReal) ? Path.GetDirectoryName(inReal)! : inReal;
             if (Within(inReal, real) || holder == real)
                 throw new OutputException(target.Folder, $"holds the input {input}; the output must go to a new folder, not the input's own folder");
@@ -201,23 +201,6 @@ public static class OutputFolder
     private static bool Within(string path, string folder)
         => path.Length > folder.Length && path.StartsWith(folder, StringComparison.Ordinal) && path[folder.Length] == Path.DirectorySeparatorChar;
 
-    /// <summary>The absolute path with every symbolic link among its existing components resolved.</summary>
-    private static string Canonical(string full)
-    {
-        string root = Path.GetPathRoot(full)!, current = root;
-        foreach (var part in full[root.Length..].Split(Path.DirectorySeparatorChar, StringSplitOptions.RemoveEmptyEntries))
-        {
-            string next = Path.Combine(current, part);
-            FileSystemInfo info = Directory.Exists(next) ? new DirectoryInfo(next) : new FileInfo(next);
-            if (info.Exists && info.LinkTarget is not null)
-            {
-                var final = info.ResolveLinkTarget(returnFinalTarget: true);
-                next = final is null ? next : Canonical(Path.GetFullPath(final.FullName));
-            }
-            current = next;
-        }
-        return current;
-    }
 }
 
 /// <summary>Temporary folders of this process, removed on every exit path: by their owner's <c>Dispose</c> on success or

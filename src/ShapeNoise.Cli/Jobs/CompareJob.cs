@@ -63,7 +63,7 @@ public static class CompareJob
         var byHash = new Dictionary<string, (ConditionRow Row, string Name)>(StringComparer.Ordinal);
         foreach (var r in rows)
         {
-            string real = RealPath(r.Path);
+            string real = FilePaths.Real(r.Path);
             if (byPath.TryGetValue(real, out var first))
                 throw new InputException(conditionsCsv, $"{first.Describe()} and {r.Describe()} are the same {(AnalysisFolder.IsAnalysisFolder(real) ? "analysis folder" : "movie")} ({real}); list each movie once");
             byPath[real] = r;
@@ -100,23 +100,6 @@ public static class CompareJob
             var files = Directory.GetFiles(path); Array.Sort(files, StringComparer.Ordinal);
             foreach (var f in files) yield return ($"{Path.GetFileName(path)}/{Path.GetFileName(f)}", Provenance.Sha256(f));
         }
-    }
-
-    /// <summary>The absolute path with every symbolic link along it resolved (as realpath(3) does).</summary>
-    public static string RealPath(string path)
-    {
-        string full = Path.GetFullPath(path);
-        string root = Path.GetPathRoot(full)!;
-        string current = root;
-        var parts = full[root.Length..].Split(Path.DirectorySeparatorChar, StringSplitOptions.RemoveEmptyEntries);
-        for (int i = 0; i < parts.Length; i++)
-        {
-            current = Path.Combine(current, parts[i]);
-            FileSystemInfo info = Directory.Exists(current) ? new DirectoryInfo(current) : new FileInfo(current);
-            if (info.LinkTarget is not null && info.ResolveLinkTarget(returnFinalTarget: true) is { } target)
-                current = RealPath(target.FullName);   // a link's target may itself pass through links
-        }
-        return Path.TrimEndingDirectorySeparator(current);
     }
 
     private static string Safe(string s) => string.Concat(s.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '_'));
