@@ -139,11 +139,7 @@ public sealed class OutlineTable
                 }
                 else
                 {
-                    var cost = new double[prev.Length, outlines.Length];
-                    for (int a = 0; a < prev.Length; a++)
-                        for (int b = 0; b < outlines.Length; b++)
-                            cost[a, b] = Math.Sqrt((prevC![a].X - cen[b].X) * (prevC[a].X - cen[b].X) + (prevC[a].Y - cen[b].Y) * (prevC[a].Y - cen[b].Y));
-                    var match = Assignment.Solve(cost, gate);
+                    var match = Assignment.ByDistance(prevC, cen, gate);
                     for (int a = 0; a < prev.Length; a++) if (match[a] >= 0) { pred[match[a]] = a; succ[a] = match[a]; }
                 }
                 links = new FrameLinks(pred, new bool[prev.Length], new bool[outlines.Length], succ);
