@@ -15,8 +15,38 @@ public static class Summary
 
     static JsonValue? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
 
-    /// <summary>{"value": x, "ci95": [lo, hi]}, with nulls where undefined.</summary>
-    public static JsonObject Interval(Estimate e) => new() { ["value"] = Num(e.Value), ["ci95"] = new JsonArray(Num(e.Low), Num(e.High)) };
+    /// <summary>The estimate object of docs/statistics.md#estimate-status: {"value", "ci95", "n", "status"}; value and ci95
+    /// are null unless the status is ok; an at_bound estimate adds "bound" and "bound_value"; a fit adds
+    /// "fraction_at_bound"; a reason in words is added when there is one, and the kind of unit as "unit".</summary>
+    public static JsonObject Interval(Estimate e)
+    {
+        bool ok = e.IsOk;
+        var o = new JsonObject
+        {
+            ["value"] = ok ? Num(e.Value) : null,
+            ["ci95"] = ok ? new JsonArray(Num(e.Low), Num(e.High)) : null,
+            ["n"] = e.N,
+            ["status"] = StatusName(e.Status),
+        };
+        if (e.UnitName is { } un) o["unit"] = un;
+        if (e.Status == EstimateStatus.AtBound)
+        {
+            o["bound"] = e.Bound == BoundSide.Lower ? "lower" : "upper";
+            o["bound_value"] = Num(e.BoundValue);
+        }
+        if (double.IsFinite(e.FractionAtBound)) o["fraction_at_bound"] = e.FractionAtBound;
+        if (!ok && e.Reason is { } why) o["reason"] = why;
+        return o;
+    }
+
+    /// <summary>The status as written in JSON and tables: ok, too_few, at_bound, not_applicable.</summary>
+    public static string StatusName(EstimateStatus s) => s switch
+    {
+        EstimateStatus.Ok => "ok",
+        EstimateStatus.TooFew => "too_few",
+        EstimateStatus.AtBound => "at_bound",
+        _ => "not_applicable",
+    };
 
     /// <summary>summary.json of one analysis (docs/measures.md#output-contract).</summary>
     /// <remarks>Longer than 60 lines on purpose: one JSON literal that reads like the schema it writes.</remarks>

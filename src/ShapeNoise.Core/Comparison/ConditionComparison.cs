@@ -114,7 +114,7 @@ public static class ConditionComparison
             {
                 double value = Statistic(k, list, ones, null);
                 var perMovie = list.Select(m => Statistic(k, [m], [1], null)).ToArray();
-                measures.Add(new ConditionMeasure(c, k, list.Count, list.Sum(m => UnitCount(k, m)), Bootstrap.Interval(value, boot[c][k]), perMovie,
+                measures.Add(new ConditionMeasure(c, k, list.Count, list.Sum(m => UnitCount(k, m)), Bootstrap.Interval(value, boot[c][k], list.Count, "movies"), perMovie,
                     list.Select(m => m.Replicate).ToArray()));
             }
         }
@@ -129,8 +129,9 @@ public static class ConditionComparison
                     var ma = measures.First(x => x.Condition == a && x.Measure == k); var mb = measures.First(x => x.Condition == b && x.Measure == k);
                     var d = Enumerable.Range(0, resamples).Select(r => boot[a][k][r] - boot[b][k][r]);
                     var q = Enumerable.Range(0, resamples).Select(r => boot[a][k][r] / boot[b][k][r]);
-                    diffs.Add(new MeasureDifference(k, a, b, Bootstrap.Interval(ma.Value.Value - mb.Value.Value, d),
-                        Bootstrap.Interval(ma.Value.Value / mb.Value.Value, q), Welch(ma.MovieValues, mb.MovieValues), ma.Movies, mb.Movies));
+                    int nm = Math.Min(ma.Movies, mb.Movies);
+                    diffs.Add(new MeasureDifference(k, a, b, Bootstrap.Interval(ma.Value.Value - mb.Value.Value, d, nm, "movies"),
+                        Bootstrap.Interval(ma.Value.Value / mb.Value.Value, q, nm, "movies"), Welch(ma.MovieValues, mb.MovieValues), ma.Movies, mb.Movies));
                 }
                 order.Add(OrderStatement(diffs.First(x => x.A == a && x.B == b && x.Measure == "anisotropy"),
                     diffs.First(x => x.A == a && x.B == b && x.Measure == "defect_headward_speed")));

@@ -44,30 +44,33 @@ public static class DynamicsAnalysis
     /// <summary>Correlation curves, Ornstein-Uhlenbeck fits per coordinate, the Sokal integrated time of q and the
     /// orientation correlation time over the used tracks (docs/dynamics.md), each with a bootstrap over tracks
     /// (<paramref name="options"/>: longest lag, resamples, seed).</summary>
-    public static DynamicsResult Run(IReadOnlyList<TrackRecord> allTracks, DynamicsOptions options)
+    public static DynamicsResult Run(IReadOnlyList<TrackRecord> allTracks, DynamicsOptions options, ResamplingPlan? plan = null)
     {
         var tracks = allTracks.Where(t => t.Used && t.Contour is not null).ToList();
         if (tracks.Count == 0) return DynamicsResult.Empty;
         var inp = Prepare(tracks, options.MaxLagFrames);
         var point = PointEstimates(inp);
-        var boot = Resample(inp, options.BootstrapResamples, options.Seed);
+        plan ??= ResamplingPlan.OverTracks(inp.Tracks, options.BootstrapResamples, options.Seed);
+        if (plan.Items != inp.Tracks) throw new ArgumentException($"{nameof(plan)} covers {plan.Items} tracks, {inp.Tracks} are used");
+        var boot = Resample(inp, plan);
         int K = inp.K;
         var coords = new List<OuCoordinate>();
         for (int s = 1; s < Names.Length; s++)
         {
             var f = point.Fits[s];
-            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Est(f.TauFrames, boot.Tau, s, boot.B), Est(f.SignalVariance, boot.Var, s, boot.B),
-                Est(f.SignalVariance / f.TauFrames, boot.D, s, boot.B), f.NoiseVariance, f.UncorrectedTauFrames));
+            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Est(f.TauFrames, boot.Tau, s, plan), Est(f.SignalVariance, boot.Var, s, plan),
+                Est(f.SignalVariance / f.TauFrames, boot.D, s, plan), f.NoiseVariance, f.UncorrectedTauFrames));
         }
         var series = Curves(inp, point, boot);
-        var theta = Bootstrap.Interval(point.ThetaFit.TauFrames, boot.Theta);
-        var tauInt = Bootstrap.Interval(point.Sokal.TauInt, boot.TauInt);
+        var theta = Bootstrap.Interval(point.ThetaFit.TauFrames, boot.Theta, plan.Units, plan.UnitName);
+        var tauInt = Bootstrap.Interval(point.Sokal.TauInt, boot.TauInt, plan.Units, plan.UnitName);
         var q = point.Fits[0];
-        return new DynamicsResult(K, inp.FitLags, series, Est(q.TauFrames, boot.Tau, 0, boot.B), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
+        return new DynamicsResult(K, inp.FitLags, series, Est(q.TauFrames, boot.Tau, 0, plan), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
             theta, point.ThetaFit.Plateau, q.SignalVariance, coords, inp.Tracks);
     }
 
-    private static Estimate Est(double value, double[,] boot, int row, int b) => Bootstrap.Interval(value, Enumerable.Range(0, b).Select(i => boot[row, i]));
+    private static Estimate Est(double value, double[,] boot, int row, ResamplingPlan plan)
+        => Bootstrap.Interval(value, Enumerable.Range(0, boot.GetLength(1)).Select(i => boot[row, i]), plan.Units, plan.UnitName);
 
     private static Inputs Prepare(List<TrackRecord> tracks, int maxLagFrames)
     {
@@ -96,11 +99,12 @@ public static class DynamicsAnalysis
         return new Point(fits, cTheta, thetaPairs, thetaFit, (sokal.TauInt, sokal.Window, sokal.Reached));
     }
 
-    /// <summary>Bootstrap over tracks: the resamples are drawn in order from one seeded stream, then evaluated in parallel.</summary>
-    private static Resamples Resample(Inputs inp, int B, int seed)
+    /// <summary>Bootstrap over the plan's units: the resamples were drawn in order from one seeded stream; evaluated in parallel.</summary>
+    private static Resamples Resample(Inputs inp, ResamplingPlan plan)
     {
         int K = inp.K, m = Names.Length;
-        var draws = Bootstrap.Draws(inp.Tracks, B, seed);
+        var draws = plan.Draws;
+        int B = draws.Length;
         var r = new Resamples(B, new double[m, B], new double[m, B], new double[m, B], new double[m + 1][,], new double[B], new double[B]);
         for (int s = 0; s <= m; s++) r.Curve[s] = new double[B, K + 1];
         Parallel.For(0, B, b =>
@@ -144,8 +148,7 @@ public static class DynamicsAnalysis
             var lo = new double[K + 1]; var hi = new double[K + 1];
             for (int k = 0; k <= K; k++)
             {
-                var e = Bootstrap.Interval(corr[k], Enumerable.Range(0, boot.B).Select(b => boot.Curve[s][b, k]));
-                lo[k] = e.Low; hi[k] = e.High;
+                (lo[k], hi[k]) = Bootstrap.PercentileBounds(Enumerable.Range(0, boot.B).Select(b => boot.Curve[s][b, k]));
             }
             series.Add(new SeriesCorrelation(SeriesNames[s], corr, pairs, lo, hi, model));
         }

@@ -6,9 +6,9 @@ namespace ShapeNoise.Fluctuations;
 public static class Pooling
 {
     /// <summary>Frame-weighted pooling over the used tracks with percentile bootstrap intervals over tracks
-    /// (docs/measures.md#movie-pooling): a pooled mean is sum_i N_i v_i / sum_i N_i (N_i = frames of track i); the
+    /// (docs/measures.md#movie-pooling; resampled by <paramref name="plan"/>, default the bootstrap over the used tracks): a pooled mean is sum_i N_i v_i / sum_i N_i (N_i = frames of track i); the
     /// anisotropies are ratios of such means; contour variances are floor-corrected by <see cref="NoiseFloor"/>.</summary>
-    public static PooledFluctuations Of(IReadOnlyList<TrackRecord> allTracks, int m, PoolingOptions options, NoiseFloorReference? r)
+    public static PooledFluctuations Of(IReadOnlyList<TrackRecord> allTracks, int m, PoolingOptions options, NoiseFloorReference? r, ResamplingPlan? plan = null)
     {
         var t = new List<TrackRecord>();
         foreach (var x in allTracks) if (x.Used && x.Contour is not null) t.Add(x);
@@ -26,14 +26,15 @@ public static class Pooling
         }
         double Mean(double[] v, int[] k) { double s = 0, w = 0; for (int i = 0; i < n; i++) { s += k[i] * N[i] * v[i]; w += k[i] * N[i]; } return w > 0 ? s / w : double.NaN; }
         double Diff(double[] a, double[] b, int[] k) => Mean(a, k) - Mean(b, k);
-        int B = options.BootstrapResamples, seed = options.Seed;
-        var anis = Bootstrap.Percentile(n, k => Mean(vL, k) / Mean(vW, k), B, seed);
-        var anisC = Bootstrap.Percentile(n, k => Diff(aR, aF, k) / Diff(cR, cF, k), B, seed);
-        var anisCRaw = Bootstrap.Percentile(n, k => Mean(aR, k) / Mean(cR, k), B, seed);
-        var varL = Bootstrap.Percentile(n, k => Mean(vL, k), B, seed);
-        var varW = Bootstrap.Percentile(n, k => Mean(vW, k), B, seed);
-        var along = Bootstrap.Percentile(n, k => Diff(aR, aF, k), B, seed);
-        var across = Bootstrap.Percentile(n, k => Diff(cR, cF, k), B, seed);
+        plan ??= ResamplingPlan.OverTracks(n, options.BootstrapResamples, options.Seed);
+        if (plan.Items != n) throw new ArgumentException($"{nameof(plan)} covers {plan.Items} tracks, {n} are used");
+        var anis = Bootstrap.Percentile(plan, k => Mean(vL, k) / Mean(vW, k));
+        var anisC = Bootstrap.Percentile(plan, k => Diff(aR, aF, k) / Diff(cR, cF, k));
+        var anisCRaw = Bootstrap.Percentile(plan, k => Mean(aR, k) / Mean(cR, k));
+        var varL = Bootstrap.Percentile(plan, k => Mean(vL, k));
+        var varW = Bootstrap.Percentile(plan, k => Mean(vW, k));
+        var along = Bootstrap.Percentile(plan, k => Diff(aR, aF, k));
+        var across = Bootstrap.Percentile(plan, k => Diff(cR, cF, k));
         var ones = new int[n]; Array.Fill(ones, 1);
 
         var (spec, floorMode, centres, profRaw, profCorr, profFloor) = SpectrumAndProfile(t, m, r);

@@ -52,7 +52,7 @@ public static class HeadwardStatistics
     }
 
     /// <summary>Pools the +1/2 tracks' headward speeds: mean over tracks with a percentile bootstrap over tracks
-    /// (<see cref="Bootstrap.Percentile"/>, <see cref="Descriptive.WeightedMean"/>).</summary>
+    /// (<see cref="Bootstrap.Percentile(int, Func{int[], double}, int, int, string)"/>, <see cref="Descriptive.WeightedMean"/>).</summary>
     public static HeadwardSummary Summarise(IReadOnlyList<DefectTrack> tracks, int resamples, int seed)
     {
         var speeds = new List<double>(); var flows = new List<double>();

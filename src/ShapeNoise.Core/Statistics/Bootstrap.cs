@@ -1,12 +1,129 @@
 namespace ShapeNoise.Statistics;
 
-/// <summary>A value with its 95% interval.</summary>
+/// <summary>What stands behind an estimate (docs/statistics.md#estimate-status).</summary>
+public enum EstimateStatus
+{
+    /// <summary>Enough independent units and a finite interval of non-zero width: value and interval are reported.</summary>
+    Ok,
+    /// <summary>Fewer independent units than the documented minimum (<see cref="Estimate.MinUnits"/>), or an interval that cannot be formed.</summary>
+    TooFew,
+    /// <summary>The fit (or more than <see cref="Estimate.MaxFractionAtBound"/> of its bootstrap resamples) ran to a search bound.</summary>
+    AtBound,
+    /// <summary>The estimate does not apply to these data (e.g. defects in a tissue that is not confluent).</summary>
+    NotApplicable,
+}
+
+/// <summary>Which search bound an <see cref="EstimateStatus.AtBound"/> estimate reached.</summary>
+public enum BoundSide
+{
+    /// <summary>No bound reached.</summary>
+    None,
+    /// <summary>The lower end of the search range.</summary>
+    Lower,
+    /// <summary>The upper end of the search range.</summary>
+    Upper,
+}
+
+/// <summary>
+/// A value with its 95% interval, the number of independent units <see cref="N"/> behind it and its <see cref="Status"/>
+/// (docs/statistics.md#estimate-status). The value and bounds are kept internally whatever the status; writers show them
+/// only when the status is <see cref="EstimateStatus.Ok"/>.
+/// </summary>
 public readonly record struct Estimate(double Value, double Low, double High)
 {
-    /// <summary>No value: value and both bounds NaN (too few units to estimate).</summary>
-    public static Estimate NaN => new(double.NaN, double.NaN, double.NaN);
-    /// <summary>The estimate times <paramref name="f"/> (a unit conversion); a negative factor swaps the bounds so Low &lt;= High stays true.</summary>
-    public Estimate Scale(double f) => f >= 0 ? new(Value * f, Low * f, High * f) : new(Value * f, High * f, Low * f);
+    /// <summary>Fewest independent units from which an interval is formed (docs/statistics.md#minimum-units).</summary>
+    public const int MinUnits = 5;
+    /// <summary>Largest fraction of bootstrap resamples allowed at a search bound before the estimate is <see cref="EstimateStatus.AtBound"/>.</summary>
+    public const double MaxFractionAtBound = 0.1;
+
+    /// <summary>Independent units behind the estimate (tracks, spatial blocks, defect tracks, time blocks, movies).</summary>
+    public int N { get; init; }
+    /// <summary>What the estimate may claim.</summary>
+    public EstimateStatus Status { get; init; }
+    /// <summary>For <see cref="EstimateStatus.AtBound"/>: which bound.</summary>
+    public BoundSide Bound { get; init; }
+    /// <summary>For <see cref="EstimateStatus.AtBound"/>: the bound's value (in the estimate's unit; scaled with it).</summary>
+    public double BoundValue { get; init; }
+    /// <summary>Fraction of bootstrap resamples that ran to a search bound (NaN when not a fit).</summary>
+    public double FractionAtBound { get; init; } = double.NaN;
+    /// <summary>Why the estimate is not applicable (or too few), in words, e.g. "cells cover 14 % of the field"; null otherwise.</summary>
+    public string? Reason { get; init; }
+    /// <summary>What the units are ("tracks", "spatial blocks", "defect tracks", "time blocks", "movies"); null when unset.</summary>
+    public string? UnitName { get; init; }
+
+    /// <summary>True when value and interval may be reported.</summary>
+    public bool IsOk => Status == EstimateStatus.Ok;
+
+    /// <summary>No value: value and both bounds NaN, no units, status <see cref="EstimateStatus.TooFew"/>.</summary>
+    public static Estimate NaN => new(double.NaN, double.NaN, double.NaN) { Status = EstimateStatus.TooFew };
+
+    /// <summary>An estimate with no number: too few units (<paramref name="n"/> of them).</summary>
+    public static Estimate TooFewUnits(int n, string? unitName = null, string? reason = null)
+        => NaN with { N = n, UnitName = unitName, Reason = reason };
+
+    /// <summary>An estimate that does not apply, with the reason in words.</summary>
+    public static Estimate NotApplicableBecause(string reason, int n = 0, string? unitName = null)
+        => NaN with { N = n, Status = EstimateStatus.NotApplicable, Reason = reason, UnitName = unitName };
+
+    /// <summary>
+    /// Value and interval from <paramref name="n"/> independent units, judged: <see cref="EstimateStatus.TooFew"/> when
+    /// n &lt; <paramref name="minUnits"/>, the value or a bound is not finite, or the interval has zero width; else Ok.
+    /// </summary>
+    public static Estimate Judged(double value, double low, double high, int n, string? unitName = null, int minUnits = MinUnits)
+    {
+        var e = new Estimate(value, low, high) { N = n, UnitName = unitName };
+        if (n < minUnits) return e with { Status = EstimateStatus.TooFew, Reason = $"n = {n} {unitName ?? "units"}, fewer than {minUnits}" };
+        if (!double.IsFinite(value) || !double.IsFinite(low) || !double.IsFinite(high)) return e with { Status = EstimateStatus.TooFew, Reason = "no finite interval" };
+        if (!(high > low)) return e with { Status = EstimateStatus.TooFew, Reason = "interval of zero width (the units do not vary)" };
+        return e with { Status = EstimateStatus.Ok };
+    }
+
+    /// <summary>This estimate re-judged with <paramref name="n"/> units of kind <paramref name="unitName"/> (see <see cref="Judged"/>);
+    /// an estimate already <see cref="EstimateStatus.NotApplicable"/> or <see cref="EstimateStatus.AtBound"/> keeps its status.</summary>
+    public Estimate WithUnits(int n, string unitName, int minUnits = MinUnits)
+        => Status is EstimateStatus.NotApplicable or EstimateStatus.AtBound ? this with { N = n, UnitName = unitName }
+            : Judged(Value, Low, High, n, unitName, minUnits) with { FractionAtBound = FractionAtBound };
+
+    /// <summary>
+    /// A fitted parameter searched in [<paramref name="lowerBound"/>, <paramref name="upperBound"/>]: judged as
+    /// <see cref="Judged"/>, then <see cref="EstimateStatus.AtBound"/> when the point fit lies within a relative
+    /// <paramref name="tolerance"/> of a bound or more than <see cref="MaxFractionAtBound"/> of the finite resamples do
+    /// (the side the most resamples reached). <paramref name="resampled"/> are the resampled fits.
+    /// </summary>
+    public static Estimate Fitted(double value, IReadOnlyList<double> resampled, int n, string unitName, double lowerBound, double upperBound, double tolerance = 0.01)
+    {
+        var e = Bootstrap.Interval(value, resampled, n, unitName);
+        bool AtLo(double v) => v <= lowerBound * (1 + tolerance);
+        bool AtHi(double v) => v >= upperBound * (1 - tolerance);
+        int lo = 0, hi = 0, finite = 0;
+        foreach (var v in resampled)
+        {
+            if (!double.IsFinite(v)) continue;
+            finite++;
+            if (AtLo(v)) lo++; else if (AtHi(v)) hi++;
+        }
+        double fraction = finite > 0 ? (lo + hi) / (double)finite : double.NaN;
+        e = e with { FractionAtBound = fraction };
+        BoundSide side = double.IsFinite(value) && AtHi(value) ? BoundSide.Upper : double.IsFinite(value) && AtLo(value) ? BoundSide.Lower
+            : fraction > MaxFractionAtBound ? (hi >= lo ? BoundSide.Upper : BoundSide.Lower) : BoundSide.None;
+        if (side == BoundSide.None || e.Status == EstimateStatus.TooFew && n < MinUnits) return e;
+        double bound = side == BoundSide.Upper ? upperBound : lowerBound;
+        return e with
+        {
+            Status = EstimateStatus.AtBound, Bound = side, BoundValue = bound,
+            Reason = side == BoundSide.Upper ? $"{100 * fraction:0}% of resamples at the upper search bound" : $"{100 * fraction:0}% of resamples at the lower search bound",
+        };
+    }
+
+    /// <summary>The estimate times <paramref name="f"/> (a unit conversion); a negative factor swaps the bounds so Low &lt;= High
+    /// stays true. Units, status and reason are kept; the bound value is scaled too.</summary>
+    public Estimate Scale(double f) => (f >= 0 ? new Estimate(Value * f, Low * f, High * f) : new Estimate(Value * f, High * f, Low * f)) with
+    {
+        N = N, Status = Status, Bound = Bound, BoundValue = BoundValue * f, FractionAtBound = FractionAtBound, Reason = Reason, UnitName = UnitName,
+    };
+
+    /// <summary>True when the interval is reported and excludes <paramref name="x"/> (0 for a difference, 1 for a ratio).</summary>
+    public bool Excludes(double x) => IsOk && (Low > x || High < x);
 }
 
 /// <summary>Seeded non-parametric bootstrap over independent units (tracks), with percentile intervals.</summary>
@@ -17,21 +134,37 @@ public static class Bootstrap
     /// <summary>
     /// Evaluates <paramref name="statistic"/> on the data (all multiplicities 1) and on <paramref name="resamples"/> resamples
     /// of <paramref name="units"/> units drawn with replacement (the statistic receives each unit's multiplicity), and returns
-    /// the point value with the 2.5% and 97.5% percentiles of the finite resampled values.
+    /// the point value with the 2.5% and 97.5% percentiles of the finite resampled values, judged with n = units
+    /// (<see cref="Estimate.Judged"/>).
     /// </summary>
-    public static Estimate Percentile(int units, Func<int[], double> statistic, int resamples, int seed)
+    public static Estimate Percentile(int units, Func<int[], double> statistic, int resamples, int seed, string unitName = "tracks")
     {
         var ones = new int[units];
         Array.Fill(ones, 1);
         double value = statistic(ones);
-        if (units == 0 || resamples <= 0) return new Estimate(value, double.NaN, double.NaN);
+        if (units == 0 || resamples <= 0) return Estimate.Judged(value, double.NaN, double.NaN, units, unitName);
         var stats = new List<double>(resamples);
         foreach (var counts in Draws(units, resamples, seed))
         {
             double s = statistic(counts);
             if (double.IsFinite(s)) stats.Add(s);
         }
-        return Interval(value, stats);
+        return Interval(value, stats, units, unitName);
+    }
+
+    /// <summary>The same over the draws of a <see cref="ResamplingPlan"/> (items resampled by their unit: track or spatial block).</summary>
+    public static Estimate Percentile(ResamplingPlan plan, Func<int[], double> statistic)
+    {
+        var ones = new int[plan.Items];
+        Array.Fill(ones, 1);
+        double value = statistic(ones);
+        var stats = new List<double>(plan.Draws.Length);
+        foreach (var counts in plan.Draws)
+        {
+            double s = statistic(counts);
+            if (double.IsFinite(s)) stats.Add(s);
+        }
+        return Interval(value, stats, plan.Units, plan.UnitName);
     }
 
     /// <summary>The resamples themselves: for each, every unit's multiplicity (units drawn with replacement from one
@@ -48,12 +181,20 @@ public static class Bootstrap
         return draws;
     }
 
-    /// <summary>Point value with the 2.5% and 97.5% percentiles of the finite resampled values (NaN when fewer than 2).</summary>
-    public static Estimate Interval(double value, IEnumerable<double> resampled)
+    /// <summary>Point value with the 2.5% and 97.5% percentiles of the finite resampled values (NaN when fewer than 2), judged
+    /// with <paramref name="n"/> independent units (<see cref="Estimate.Judged"/>).</summary>
+    public static Estimate Interval(double value, IEnumerable<double> resampled, int n, string unitName)
+    {
+        var (lo, hi) = PercentileBounds(resampled);
+        return Estimate.Judged(value, lo, hi, n, unitName);
+    }
+
+    /// <summary>The 2.5% and 97.5% percentiles (type 7) of the finite values; NaN when fewer than 2.</summary>
+    public static (double Low, double High) PercentileBounds(IEnumerable<double> resampled)
     {
         var sorted = resampled.Where(double.IsFinite).ToArray();
-        if (sorted.Length < 2) return new Estimate(value, double.NaN, double.NaN);
+        if (sorted.Length < 2) return (double.NaN, double.NaN);
         Array.Sort(sorted);
-        return new Estimate(value, Descriptive.QuantileSorted(sorted, 0.025), Descriptive.QuantileSorted(sorted, 0.975));
+        return (Descriptive.QuantileSorted(sorted, 0.025), Descriptive.QuantileSorted(sorted, 0.975));
     }
 }

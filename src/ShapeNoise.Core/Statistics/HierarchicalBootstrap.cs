@@ -42,6 +42,6 @@ internal static class HierarchicalBootstrap
         var rng = new Random(seed);
         var stats = new List<double>(resamples);
         for (int b = 0; b < resamples; b++) stats.Add(statistic(Draw([unitsPerMovie], unitsPerMovie.Count, rng).Units[0]));
-        return Bootstrap.Interval(value, stats);
+        return Bootstrap.Interval(value, stats, unitsPerMovie.Count, "movies");
     }
 }

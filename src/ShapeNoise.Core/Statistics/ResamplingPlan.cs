@@ -1,0 +1,42 @@
+namespace ShapeNoise.Statistics;
+
+/// <summary>
+/// One set of bootstrap resamples shared by every within-movie estimate of a run (docs/statistics.md#within-movie-intervals):
+/// <see cref="Items"/> items (the used tracks, in order) belong to <see cref="Units"/> independent units (the tracks
+/// themselves for isolated cells, square spatial blocks for a confluent tissue); each resample draws units with
+/// replacement and every item inherits its unit's multiplicity.
+/// </summary>
+/// <param name="UnitName">"tracks" or "spatial blocks".</param>
+/// <param name="Units">Number of independent units.</param>
+/// <param name="UnitOfItem">Per item, its unit (0 .. Units - 1).</param>
+/// <param name="Draws">Per resample, per item, its multiplicity.</param>
+/// <param name="BlockSizePx">Side of the spatial blocks (px); NaN for the track bootstrap.</param>
+public sealed record ResamplingPlan(string UnitName, int Units, int[] UnitOfItem, int[][] Draws, double BlockSizePx)
+{
+    /// <summary>Number of items (used tracks).</summary>
+    public int Items => UnitOfItem.Length;
+
+    /// <summary>The bootstrap over items, each its own unit ("tracks").</summary>
+    public static ResamplingPlan OverTracks(int tracks, int resamples, int seed)
+    {
+        var unit = new int[tracks];
+        for (int i = 0; i < tracks; i++) unit[i] = i;
+        return new ResamplingPlan("tracks", tracks, unit, tracks == 0 ? [] : Bootstrap.Draws(tracks, resamples, seed), double.NaN);
+    }
+
+    /// <summary>
+    /// The bootstrap over groups of items: <paramref name="unitOfItem"/> gives each item's group (0 .. units - 1); units are
+    /// drawn with replacement from one seeded stream and every item gets its group's multiplicity.
+    /// </summary>
+    public static ResamplingPlan OverGroups(string unitName, int[] unitOfItem, int units, int resamples, int seed, double blockSizePx)
+    {
+        var unitDraws = units == 0 ? [] : Bootstrap.Draws(units, resamples, seed);
+        var draws = new int[unitDraws.Length][];
+        for (int b = 0; b < unitDraws.Length; b++)
+        {
+            draws[b] = new int[unitOfItem.Length];
+            for (int i = 0; i < unitOfItem.Length; i++) draws[b][i] = unitDraws[b][unitOfItem[i]];
+        }
+        return new ResamplingPlan(unitName, units, unitOfItem, draws, blockSizePx);
+    }
+}
