@@ -107,9 +107,10 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         var u = r.Units; var us = ShapeNoise.Reporting.UnitScale.Of(u);
         if (r.Movie.Plane is { } plane) AnsiConsole.MarkupLineInterpolated($"plane: {plane}");
         AnsiConsole.MarkupLineInterpolated($"pixel size: {(u.PixelSizeUm is { } ps ? $"{ps:G6} um/px" : "unknown (px)")} ({u.PixelSizeSource}); frame interval: {(u.FrameIntervalMin is { } fi ? $"{fi:G6} min" : "unknown (frames)")} ({u.FrameIntervalSource})");
-        var t = new Table().AddColumn("measure").AddColumn("value").AddColumn("95% CI");
+        var t = new Table().AddColumn("measure").AddColumn("value").AddColumn("95% CI").AddColumn("n").AddColumn("status");
         void Row(Measure m, Estimate e) =>
-            t.AddRow(m.Label(us).EscapeMarkup(), $"{e.Value:G4}", double.IsFinite(e.Low) ? $"{e.Low:G4} - {e.High:G4}" : "-");
+            t.AddRow(m.Label(us).EscapeMarkup(), (e.IsOk ? $"{e.Value:G4}" : EstimateText.Phrase(e, "")).EscapeMarkup(), e.IsOk ? $"{e.Low:G4} - {e.High:G4}" : "-",
+                EstimateText.Units(e)[4..].EscapeMarkup(), Summary.StatusName(e.Status));
         Row(Measures.Anisotropy, r.Pooled.Anisotropy);
         Row(Measures.AnisotropyContour, r.Pooled.AnisotropyContour);
         Row(Measures.VarL, us.Area(r.Pooled.VarL));

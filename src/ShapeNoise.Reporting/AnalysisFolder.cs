@@ -113,6 +113,8 @@ public static class AnalysisFolder
     public const string Autocorrelation = "autocorrelation.csv";
     /// <summary>defects.csv: one row per defect per frame.</summary>
     public const string Defects = "defects.csv";
+    /// <summary>estimates.csv: every estimate object of summary.json as one row with its n and status.</summary>
+    public const string Estimates = "estimates.csv";
     /// <summary>defect-flow.csv: mean flow and director around +1/2 defects.</summary>
     public const string DefectFlow = "defect-flow.csv";
     /// <summary>sim-params.json (--sim-format json).</summary>

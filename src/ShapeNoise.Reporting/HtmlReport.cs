@@ -23,23 +23,24 @@ public static class HtmlReport
 
     static string E(string s) => WebUtility.HtmlEncode(s);
 
-    /// <summary>Plain-language headline sentences, each with its interval.</summary>
+    /// <summary>Plain-language headline sentences, each generated from its estimate's status and interval (<see cref="EstimateText"/>).</summary>
     public static List<string> Headlines(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units); var p = r.Pooled; var d = r.Dynamics; var df = r.Defects;
-        string ci(Estimate e) => double.IsFinite(e.Low) ? $"95% CI {Round(e.Low)}–{Round(e.High)}" : "no interval";
         var h = new List<string>
         {
-            $"Length fluctuates {Round(p.Anisotropy.Value)}× more than width ({ci(p.Anisotropy)}, {r.Counts.TracksUsed} tracks).",
-            $"After removing the noise floor, the outline fluctuates {Round(p.AnisotropyContour.Value)}× more at the poles than at the flanks ({ci(p.AnisotropyContour)}).",
-            $"Elongation stays correlated for τ_q = {Round(u.Time(d.TauQFrames.Value))} {u.TimeName} ({ci(u.Time(d.TauQFrames))}); orientation for τ_θ = {Round(u.Time(d.TauThetaFrames.Value))} {u.TimeName} ({ci(u.Time(d.TauThetaFrames))}).",
+            EstimateText.Ratio(p.Anisotropy, "Length fluctuates more than width", "Length fluctuates less than width", "Length vs width fluctuation") + ".",
+            EstimateText.Ratio(p.AnisotropyContour, "After removing the noise floor, the outline fluctuates more at the poles than at the flanks",
+                "After removing the noise floor, the outline fluctuates less at the poles than at the flanks", "Pole vs flank fluctuation of the outline") + ".",
+            $"Elongation stays correlated for τ_q: {Timed(u.Time(d.TauQFrames), u)}; orientation for τ_θ: {Timed(u.Time(d.TauThetaFrames), u)}.",
         };
         var hs = u.Speed(df.HeadwardSpeed);
-        if (df.PlusTracksUsed > 0)
-            h.Add($"+1/2 defects ({Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed) move {(hs.Value > 0 ? "toward their head (extensile-like)" : "toward their tail (contractile-like)")} at {Round(hs.Value)} {u.SpeedLabel} ({ci(hs)}).");
-        else h.Add($"No +1/2 defect was followed long enough to measure its motion ({Round(df.PlusPerFrame)} +1/2 and {Round(df.MinusPerFrame)} −1/2 defects per frame).");
+        h.Add(EstimateText.Direction(hs, u.SpeedLabel, "move toward their head (extensile-like)", "move toward their tail (contractile-like)",
+            $"+1/2 defects ({(hs.Status == EstimateStatus.NotApplicable ? "not analysed" : $"{Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed")})") + ".");
         return h;
     }
+
+    static string Timed(Estimate e, UnitScale u) => e.IsOk ? $"{Round(e.Value)} {u.TimeName} ({EstimateText.Interval(e)})" : EstimateText.Phrase(e, u.TimeName);
 
     /// <summary>A self-contained page from a short Markdown summary (headings, bullets, paragraphs, **bold**) and PNG figures with captions.</summary>
     public static string FromMarkdown(string title, string markdown, IEnumerable<Figure> figures)

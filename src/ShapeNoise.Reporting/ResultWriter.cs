@@ -19,7 +19,9 @@ public static class ResultWriter
         {
             string In(string name) => Path.Combine(dir, name);
             Tables.WriteAll(r, dir);
-            File.WriteAllText(In(AnalysisFolder.Summary), Summary.Build(r).ToJsonString(Summary.Indented));
+            var summary = Summary.Build(r);
+            File.WriteAllText(In(AnalysisFolder.Summary), summary.ToJsonString(Summary.Indented));
+            Tables.Write(In(AnalysisFolder.Estimates), Tables.Estimates(summary), new EstimateMap());
             File.WriteAllText(In(AnalysisFolder.Floor), Summary.Floor(r).ToJsonString(Summary.Indented));
             File.WriteAllText(In(AnalysisFolder.Run), provenance.ToJsonString(Summary.Indented));
             var sim = SimulationParameters.Build(r, provenance);

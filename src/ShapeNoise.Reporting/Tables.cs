@@ -23,6 +23,20 @@ public sealed record SpectrumRow(int Mode, double PowerRaw, double Floor, double
 /// <summary>profile.csv: pooled contour variance against the normal's angle from the long axis.</summary>
 public sealed record ProfileRow(double AngleLowDeg, double AngleHighDeg, double AngleDeg, double VarianceRaw, double Floor, double VarianceCorrected);
 
+/// <summary>One estimate of summary.json: its path, value and interval (empty unless ok), units, status, bound and reason.</summary>
+public sealed record EstimateRow(string Estimate, double? Value, double? Low, double? High, int N, string? Unit, string Status, double? BoundValue, string? Reason);
+
+/// <summary>Column names of estimates.csv.</summary>
+public sealed class EstimateMap : ClassMap<EstimateRow>
+{
+    /// <summary>estimate, value, ci95_low, ci95_high, n, unit, status, bound_value, reason.</summary>
+    public EstimateMap()
+    {
+        Map(r => r.Estimate).Name("estimate"); Map(r => r.Value).Name("value"); Map(r => r.Low).Name("ci95_low"); Map(r => r.High).Name("ci95_high");
+        Map(r => r.N).Name("n"); Map(r => r.Unit).Name("unit"); Map(r => r.Status).Name("status"); Map(r => r.BoundValue).Name("bound_value"); Map(r => r.Reason).Name("reason");
+    }
+}
+
 /// <summary>autocorrelation.csv: one row per series and lag (tidy, long format).</summary>
 public sealed record CorrelationRow(string Series, int LagFrames, double Lag, double Correlation, long Pairs, double Low, double High, double Model);
 
@@ -232,6 +246,32 @@ public static class Tables
                 rows.Add(new FlowRow(a * f.StepCoarse, b * f.StepCoarse, a * f.StepCoarse * c * s, b * f.StepCoarse * c * s,
                     N(f.Vpar[k] * sv), N(f.Vperp[k] * sv), N(f.Qxx[k]), N(f.Qxy[k]), f.Samples[k]));
             }
+        return rows;
+    }
+
+    /// <summary>estimates.csv rows: every estimate object of <paramref name="summary"/> (an object with "n" and "status"),
+    /// named by its path ("dynamics.tau_q"), in document order; value and interval empty unless the status is ok.</summary>
+    public static List<EstimateRow> Estimates(System.Text.Json.Nodes.JsonObject summary)
+    {
+        var rows = new List<EstimateRow>();
+        void Walk(System.Text.Json.Nodes.JsonNode? n, string path)
+        {
+            if (n is System.Text.Json.Nodes.JsonObject o)
+            {
+                if (o.ContainsKey("status") && o.ContainsKey("n"))
+                {
+                    double? D(System.Text.Json.Nodes.JsonNode? x) => x?.GetValue<double>();
+                    var ci = o["ci95"] as System.Text.Json.Nodes.JsonArray;
+                    rows.Add(new EstimateRow(path, D(o["value"]), D(ci?[0]), D(ci?[1]), o["n"]!.GetValue<int>(), o["unit"]?.GetValue<string>(),
+                        o["status"]!.GetValue<string>(), D(o["bound_value"]), o["reason"]?.GetValue<string>()));
+                    return;
+                }
+                foreach (var kv in o) Walk(kv.Value, path.Length == 0 ? kv.Key : $"{path}.{kv.Key}");
+            }
+            else if (n is System.Text.Json.Nodes.JsonArray a)
+                for (int i = 0; i < a.Count; i++) Walk(a[i], $"{path}[{i}]");
+        }
+        Walk(summary, "");
         return rows;
     }
 
