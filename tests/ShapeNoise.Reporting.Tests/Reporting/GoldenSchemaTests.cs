@@ -201,7 +201,7 @@ public class GoldenSchemaTests(GoldenRuns runs) : IClassFixture<GoldenRuns>
     {
         var headers = CsvHeaders(runs.Folder(scenario));
         // The CSVs the output contract promises must be among them, whatever the golden file says.
-        foreach (var f in new[] { "cells.csv", "tracks.csv", "spectrum.csv", "profile.csv", "autocorrelation.csv", "defects.csv", "defect-flow.csv" })
+        foreach (var f in new[] { "cells.csv", "tracks.csv", "spectrum.csv", "profile.csv", "autocorrelation.csv", "defects.csv", "defect-flow.csv", "estimates.csv" })
             Assert.Contains(headers, h => h.StartsWith(f + ": ", StringComparison.Ordinal));
         AssertGolden($"{scenario}.csv-headers.txt", headers, $"CSV header lines ({scenario} scenario)");
     }
@@ -238,7 +238,9 @@ public class GoldenSchemaTests(GoldenRuns runs) : IClassFixture<GoldenRuns>
         foreach (var k in new[] { "anisotropy", "anisotropy_contour", "var_L", "var_W", "var_along", "var_across", "tau_q", "tau_theta",
                                   "defect_headward_speed", "flow_headward_speed" })
         {
-            Has($"$.{k} object"); Has($"$.{k}.value number|null"); Has($"$.{k}.ci95 array"); Has($"$.{k}.ci95[] number|null");
+            // The estimate object of docs/statistics.md#estimate-status: ci95 is [lo, hi] when ok, else null.
+            Has($"$.{k} object"); Has($"$.{k}.value number|null"); Has($"$.{k}.n number|null"); Has($"$.{k}.status string");
+            Assert.True(schema.Contains($"$.{k}.ci95 array") || schema.Contains($"$.{k}.ci95 number|null"), $"summary.json lacks $.{k}.ci95");
         }
         Has("$.hypothesis object");
         foreach (var k in new[] { "spearman_rho", "p_value", "n_defect_tracks" }) Has($"$.hypothesis.{k} number|null");

@@ -32,7 +32,7 @@ public class HtmlReportTests
         foreach (var key in new[] { "anisotropy", "anisotropy_contour", "tau_q", "tau_theta", "defect_headward_speed" })
         {
             var v = s[key]!;
-            foreach (var x in new[] { v["value"], v["ci95"]![0], v["ci95"]![1] })
+            foreach (var x in new[] { v["value"], v["ci95"]?[0], v["ci95"]?[1] })
                 if (x is not null) Assert.Contains(HtmlReport.Round(x.GetValue<double>()), html);
         }
         Assert.Contains(HtmlReport.Round(s["plus_half_defects"]!.GetValue<double>()), html);
