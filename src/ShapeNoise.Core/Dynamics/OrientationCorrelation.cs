@@ -1,18 +1,39 @@
 namespace ShapeNoise.Dynamics;
 
-/// <summary>Fit of C_theta(k) = p + A exp(-k / tau) over lags k &gt;= 1.</summary>
+/// <summary>Which model of C_theta(k) was chosen (docs/dynamics.md#orientation-tau_theta-by-model-selection).</summary>
+public enum ThetaModel
+{
+    /// <summary>C = A exp(-k/tau): the orientation decorrelates fully.</summary>
+    NoPlateau,
+    /// <summary>C = p + A exp(-k/tau): part of the alignment never decorrelates within the tracks.</summary>
+    Plateau,
+}
+
+/// <summary>Fit of C_theta(k) over lags k &gt;= 1 with the chosen model.</summary>
 /// <param name="TauFrames">Decay time of the decorrelating part (frames).</param>
-/// <param name="Plateau">p: the part of the alignment that never decorrelates within the tracks.</param>
+/// <param name="Plateau">p: the part of the alignment that never decorrelates within the tracks (0 for <see cref="ThetaModel.NoPlateau"/>).</param>
 /// <param name="Amplitude">A (A + p &lt; 1 when fast measurement noise removes some correlation already at lag 1).</param>
-internal readonly record struct PlateauFit(double TauFrames, double Plateau, double Amplitude);
+/// <param name="Model">The model chosen by AIC.</param>
+/// <param name="AicNoPlateau">AIC of the no-plateau fit (2 parameters).</param>
+/// <param name="AicPlateau">AIC of the plateau fit (3 parameters).</param>
+internal readonly record struct PlateauFit(double TauFrames, double Plateau, double Amplitude, ThetaModel Model = ThetaModel.Plateau,
+    double AicNoPlateau = double.NaN, double AicPlateau = double.NaN);
 
 /// <summary>Orientation autocorrelation C_theta(k) = mean cos 2(theta(t+k) - theta(t)) pooled over tracks, and its fit.</summary>
 /// <remarks>The nematic (cos 2 delta-theta) orientation correlation of elongated cells; a plateau allows for locally
 /// aligned regions that never decorrelate (e.g. Duclos G. et al. (2017), "Topological defects in confined populations of
-/// spindle-shaped cells", Nature Physics 13:58-62). Fitted by weighted least squares: p and A in closed form for each tau
-/// (p constrained to [0, 1], A &gt;= 0), tau by a grid over log tau refined by golden section.</remarks>
+/// spindle-shaped cells", Nature Physics 13:58-62). For pure rotational diffusion (a Wiener process on the circle with
+/// coefficient D) E cos 2 dtheta = exp(-2 Var dtheta) = exp(-4 D k) exactly, with no per-track-mean bias (Berg H.C. (1993),
+/// Random Walks in Biology, Princeton University Press, ch. 1 and 6). Two models are fitted by weighted least squares
+/// (weights = pair counts): C = A exp(-k/tau) and C = p + A exp(-k/tau) (p in [0, 1], A &gt;= 0; the linear parameters in
+/// closed form for each tau, tau by a grid over log tau refined by golden section), and the one with the smaller Akaike
+/// information criterion AIC = n ln(SSE_w / W) + 2 m is kept (Akaike H. (1974), "A new look at the statistical model
+/// identification", IEEE Trans. Autom. Control 19:716-723), with n the effective sample size (docs/dynamics.md).</remarks>
 internal static class OrientationCorrelation
 {
+    /// <summary>Shortest tau (frames) of the search range.</summary>
+    public const double MinTauFrames = 0.05;
+
     /// <summary>Per-track sums of cos 2(theta(t+k) - theta(t)) over present pairs, lags 0..K.</summary>
     public static LagSums Of(TrackSeries theta, int maxLag)
     {
@@ -38,40 +59,60 @@ internal static class OrientationCorrelation
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs)
         => PooledAutocovariance.Pool(tracks, weights, out pairs);
 
-    /// <summary>Fits p + A exp(-k/tau) to C(k), k = 1..<paramref name="fitLags"/>, weighted by pair counts.</summary>
-    public static PlateauFit Fit(ReadOnlySpan<double> c, ReadOnlySpan<long> pairs, int fitLags, double maxTauFrames)
+    /// <summary>Fits both models to C(k), k = 1..<paramref name="fitLags"/>, weighted by pair counts, tau in
+    /// [<see cref="MinTauFrames"/>, <paramref name="maxTauFrames"/>], and keeps the one with the smaller AIC computed with
+    /// <paramref name="effectiveN"/> independent observations (0 = the number of fitted lags).</summary>
+    public static PlateauFit Fit(ReadOnlySpan<double> c, ReadOnlySpan<long> pairs, int fitLags, double maxTauFrames, double effectiveN = 0)
     {
         int K = Math.Min(fitLags, c.Length - 1);
         if (K < 2) return new PlateauFit(double.NaN, double.NaN, double.NaN);
         var y = c[1..(K + 1)].ToArray(); var w = new double[K];
-        for (int k = 0; k < K; k++) w[k] = double.IsFinite(y[k]) ? pairs[k + 1] : 0;
-        double Sse(double tau, out double p, out double a)
+        int used = 0;
+        for (int k = 0; k < K; k++) { w[k] = double.IsFinite(y[k]) ? pairs[k + 1] : 0; if (w[k] > 0) used++; }
+        double W = w.Sum();
+        if (used < 2 || !(W > 0)) return new PlateauFit(double.NaN, double.NaN, double.NaN);
+        double hi = Math.Log(Math.Max(1, maxTauFrames)), lo = Math.Log(MinTauFrames);
+        double tau0 = Math.Exp(Statistics.Minimize.GridThenGolden(lt => Sse(y, w, Math.Exp(lt), false, out _, out _), lo, hi));
+        double sse0 = Sse(y, w, tau0, false, out _, out var a0);
+        double tau1 = Math.Exp(Statistics.Minimize.GridThenGolden(lt => Sse(y, w, Math.Exp(lt), true, out _, out _), lo, hi));
+        double sse1 = Sse(y, w, tau1, true, out var p1, out var a1);
+        double n = effectiveN > 0 ? effectiveN : used;
+        double Aic(double sse, int m) => n * Math.Log(Math.Max(sse, 1e-300) / W) + 2 * m;
+        double aic0 = Aic(sse0, 2), aic1 = Aic(sse1, 3);
+        return aic1 < aic0 && p1 > 0
+            ? new PlateauFit(tau1, p1, a1, ThetaModel.Plateau, aic0, aic1)
+            : new PlateauFit(tau0, 0, a0, ThetaModel.NoPlateau, aic0, aic1);
+    }
+
+    /// <summary>Weighted SSE of the model at this tau with the linear parameters (p, A) in closed form; p fixed at 0 unless
+    /// <paramref name="plateau"/>.</summary>
+    private static double Sse(double[] y, double[] w, double tau, bool plateau, out double p, out double a)
+    {
+        int K = y.Length;
+        double s1 = 0, se = 0, see = 0, sy = 0, sye = 0;
+        for (int k = 0; k < K; k++)
         {
-            // Weighted linear least squares for (p, A) with basis 1 and e_k = exp(-k/tau).
-            double s1 = 0, se = 0, see = 0, sy = 0, sye = 0;
-            for (int k = 0; k < K; k++)
-            {
-                if (w[k] <= 0) continue;
-                double e = Math.Exp(-(k + 1) / tau);
-                s1 += w[k]; se += w[k] * e; see += w[k] * e * e; sy += w[k] * y[k]; sye += w[k] * y[k] * e;
-            }
+            if (w[k] <= 0) continue;
+            double e = Math.Exp(-(k + 1) / tau);
+            s1 += w[k]; se += w[k] * e; see += w[k] * e * e; sy += w[k] * y[k]; sye += w[k] * y[k] * e;
+        }
+        if (!plateau) { p = 0; a = see > 0 ? Math.Max(0, sye / see) : 0; }
+        else
+        {
             double det = s1 * see - se * se;
             p = det != 0 ? (sy * see - sye * se) / det : 0;
             a = det != 0 ? (sye * s1 - sy * se) / det : 0;
             if (p < 0) { p = 0; a = see > 0 ? sye / see : 0; }
             else if (p > 1) { p = 1; a = see > 0 ? (sye - se) / see : 0; }
             if (a < 0) { a = 0; p = Math.Clamp(s1 > 0 ? sy / s1 : 0, 0, 1); }
-            double sse = 0;
-            for (int k = 0; k < K; k++)
-            {
-                if (w[k] <= 0) continue;
-                double r = y[k] - p - a * Math.Exp(-(k + 1) / tau);
-                sse += w[k] * r * r;
-            }
-            return sse;
         }
-        double tau = Math.Exp(Statistics.Minimize.GridThenGolden(lt => Sse(Math.Exp(lt), out _, out _), Math.Log(0.05), Math.Log(Math.Max(1, maxTauFrames))));
-        Sse(tau, out var pp, out var aa);
-        return new PlateauFit(tau, pp, aa);
+        double sse = 0;
+        for (int k = 0; k < K; k++)
+        {
+            if (w[k] <= 0) continue;
+            double r = y[k] - p - a * Math.Exp(-(k + 1) / tau);
+            sse += w[k] * r * r;
+        }
+        return sse;
     }
 }
