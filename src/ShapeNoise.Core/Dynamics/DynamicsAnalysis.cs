@@ -116,23 +116,33 @@ public static class DynamicsAnalysis
         return tracks.Sum(t => t.Elongation.Count(q => Math.Abs(q) < limit));
     }
 
+    /// <summary>Half-width (frames) of the window of the local director (docs/dynamics.md#signed-elongation).</summary>
+    public const int DirectorHalfWindowFrames = 8;
+
     /// <summary>
-    /// Signed elongation of one track: the cell nematic tensor q (cos 2 theta, sin 2 theta) projected on the track's mean
-    /// director, q_s(t) = q(t) cos 2(theta(t) - theta_mean), theta_mean = 0.5 atan2(mean q sin 2 theta, mean q cos 2 theta)
-    /// (docs/dynamics.md#signed-elongation). Unlike q &gt;= 0 it changes sign when a nearly round cell's long axis flips.
+    /// Signed elongation of one track: the cell nematic tensor q (cos 2 theta, sin 2 theta) projected on the local director,
+    /// q_s(t) = q(t) cos 2(theta(t) - theta_ref(t)), theta_ref(t) = 0.5 atan2(sum q sin 2 theta, sum q cos 2 theta) over the
+    /// other frames within <paramref name="halfWindow"/> of t (frame t itself left out so its own noise does not pull the
+    /// reference; int.MaxValue = the track's mean director; docs/dynamics.md#signed-elongation).
+    /// Unlike q &gt;= 0 it changes sign when a nearly round cell's long axis flips; a window short against tau_theta keeps
+    /// the cell's rotation out of q_s.
     /// </summary>
-    internal static double[] SignedElongation(double[] q, double[] thetaRad)
+    internal static double[] SignedElongation(double[] q, double[] thetaRad, int halfWindow = int.MaxValue)
     {
-        double sx = 0, sy = 0;
-        for (int i = 0; i < q.Length; i++) { sx += q[i] * Math.Cos(2 * thetaRad[i]); sy += q[i] * Math.Sin(2 * thetaRad[i]); }
-        double mean = 0.5 * Math.Atan2(sy, sx);
-        var r = new double[q.Length];
-        for (int i = 0; i < q.Length; i++) r[i] = q[i] * Math.Cos(2 * (thetaRad[i] - mean));
+        int n = q.Length;
+        var cx = new double[n + 1]; var cy = new double[n + 1];
+        for (int i = 0; i < n; i++) { cx[i + 1] = cx[i] + q[i] * Math.Cos(2 * thetaRad[i]); cy[i + 1] = cy[i] + q[i] * Math.Sin(2 * thetaRad[i]); }
+        var r = new double[n];
+        for (int i = 0; i < n; i++)
+        {
+            int lo = halfWindow >= n ? 0 : Math.Max(0, i - halfWindow), hi = halfWindow >= n ? n : Math.Min(n, i + halfWindow + 1);
+            double sx = cx[hi] - cx[lo], sy = cy[hi] - cy[lo];
+            if (hi - lo > 1) { sx -= q[i] * Math.Cos(2 * thetaRad[i]); sy -= q[i] * Math.Sin(2 * thetaRad[i]); }
+            double reference = 0.5 * Math.Atan2(sy, sx);
+            r[i] = q[i] * Math.Cos(2 * (thetaRad[i] - reference));
+        }
         return r;
     }
-
-    /// <summary>Effective sample size of the AIC of the orientation fit (docs/dynamics.md#orientation-tau_theta-by-model-selection).</summary>
-    private static double ThetaEffectiveN(Inputs inp) => inp.Tracks;
 
     private static Estimate Est(double value, double[,] boot, int row, ResamplingPlan plan)
         => Bootstrap.Interval(value, Enumerable.Range(0, boot.GetLength(1)).Select(i => boot[row, i]), plan.Units, plan.UnitName);
@@ -145,7 +155,7 @@ public static class DynamicsAnalysis
         int K = Math.Min(maxLagFrames, maxLen - 1);
         int fitLags = Math.Min(K, Math.Max(4, medianLen / 3));
         var frames = tracks.Select(t => t.FrameIndex).ToArray();
-        var qs = tracks.Select(t => SignedElongation(t.Elongation, t.ThetaRad)).ToArray();
+        var qs = tracks.Select(t => SignedElongation(t.Elongation, t.ThetaRad, DirectorHalfWindowFrames)).ToArray();
         var values = new Func<TrackRecord, double[]>[] { t => qs[tracks.IndexOf(t)], t => t.LengthPx, t => t.WidthPx, t => t.Contour!.AlongSeries, t => t.Contour!.AcrossSeries };
         var sums = new List<LagSums>[Names.Length];
         for (int s = 0; s < Names.Length; s++)
@@ -159,7 +169,7 @@ public static class DynamicsAnalysis
         var fits = new OuFit[Names.Length];
         for (int s = 0; s < Names.Length; s++) fits[s] = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, [], inp.FitLags, inp.MaxTau);
         var cTheta = OrientationCorrelation.Pool(inp.ThetaSums, [], out var thetaPairs);
-        var thetaFit = OrientationCorrelation.Fit(cTheta, thetaPairs, inp.K, inp.MaxTau, ThetaEffectiveN(inp));
+        var thetaFit = OrientationCorrelation.FitTracks(inp.ThetaSums, [], inp.K, inp.MaxTau);
         var cq = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[0], [], out _));
         var sokal = IntegratedTime.Sokal(cq);
         return new Point(fits, cTheta, thetaPairs, thetaFit, (sokal.TauInt, sokal.Window, sokal.Reached));
@@ -186,7 +196,7 @@ public static class DynamicsAnalysis
             }
             var ct = OrientationCorrelation.Pool(inp.ThetaSums, w, out var tp);
             for (int k = 0; k <= K; k++) r.Curve[m][b, k] = ct[k];
-            var tf = OrientationCorrelation.Fit(ct, tp, K, inp.MaxTau, ThetaEffectiveN(inp));
+            var tf = OrientationCorrelation.FitTracks(inp.ThetaSums, w, K, inp.MaxTau);
             r.Theta[b] = tf.TauFrames; r.Plateau[b] = tf.Plateau;
         });
         return r;

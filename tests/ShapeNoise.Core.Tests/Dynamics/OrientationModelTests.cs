@@ -39,8 +39,7 @@ public class OrientationModelTests(ITestOutputHelper log)
     private static PlateauFit FitTheta(double[][] theta, int maxLag = 30)
     {
         var sums = theta.Select(v => OrientationCorrelation.Of(new TrackSeries(Enumerable.Range(0, v.Length).ToArray(), v), maxLag)).ToList();
-        var c = OrientationCorrelation.Pool(sums, [], out var pairs);
-        return OrientationCorrelation.Fit(c, pairs, maxLag, 20.0 * theta[0].Length, theta.Length);
+        return OrientationCorrelation.FitTracks(sums, [], maxLag, 20.0 * theta[0].Length);
     }
 
     [Theory]
@@ -122,7 +121,7 @@ public class OrientationModelTests(ITestOutputHelper log)
     [Fact]
     public void Run_FreeRotationalDiffusion_NoPlateauChosenAndPlateauZero()
     {
-        var theta = SimulateTheta(60, 80, 20, 11);
+        var theta = SimulateTheta(200, 80, 20, 11);
         var q = theta.Select(t => t.Select(_ => 0.2).ToArray()).ToArray();
         var d = DynamicsAnalysis.Run(Tracks(q, theta, 12), new DynamicsOptions(bootstrapResamples: 40));
         log.WriteLine($"model {d.ThetaModel}, tau {d.TauThetaFrames.Value:F2} [{d.TauThetaFrames.Low:F2}, {d.TauThetaFrames.High:F2}] {d.TauThetaFrames.Status}, plateau {d.ThetaPlateau.Value:F3} [{d.ThetaPlateau.Low:F3}, {d.ThetaPlateau.High:F3}] {d.ThetaPlateau.Status}");
@@ -136,7 +135,7 @@ public class OrientationModelTests(ITestOutputHelper log)
     public void SignedElongation_AxisFlipsAcross_ChangesSign()
     {
         // Hand case: q = 0.1 along 0 rad for three frames, then 0.1 along pi/2 (the long axis flipped): q_s = +0.1, -0.1.
-        var qs = DynamicsAnalysis.SignedElongation([0.1, 0.1, 0.1, 0.1], [0, 0, 0, Math.PI / 2]);
+        var qs = DynamicsAnalysis.SignedElongation([0.1, 0.1, 0.1, 0.1], [0, 0, 0, Math.PI / 2], 8);
         Assert.Equal(0.1, qs[0], 12);
         Assert.Equal(-0.1, qs[3], 12);
     }
