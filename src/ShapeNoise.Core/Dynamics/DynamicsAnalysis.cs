@@ -202,7 +202,7 @@ public static class DynamicsAnalysis
         return r;
     }
 
-    /// <summary>Every pooled curve with its bootstrap band and fitted model (the OU model; for theta the plateau model).</summary>
+    /// <summary>Every pooled curve with its bootstrap band and fitted model (the OU model; for theta the chosen model, plateau 0 when none).</summary>
     private static List<SeriesCorrelation> Curves(Inputs inp, Point point, Resamples boot)
     {
         int K = inp.K, m = Names.Length;
