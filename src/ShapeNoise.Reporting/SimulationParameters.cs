@@ -68,12 +68,14 @@ public static class SimulationParameters
                 [$"tau_integrated_{Tn}"] = I(d.TauQIntegratedFrames.Scale(dt)),
                 ["sokal_window_frames"] = d.SokalWindow,
                 ["variance"] = Num(d.VarianceQ),
+                ["nearly_round_outlines"] = d.NearlyRoundOutlines,
                 ["dimensionless"] = new JsonObject { ["tau_over_T"] = I(d.TauQFrames.Scale(dt / T)) },
             },
             ["orientation"] = new JsonObject
             {
                 [$"tau_theta_{Tn}"] = I(d.TauThetaFrames.Scale(dt)),
-                ["plateau"] = Num(d.ThetaPlateau),
+                ["model"] = d.ThetaModel,
+                ["plateau"] = I(d.ThetaPlateau),
                 ["dimensionless"] = new JsonObject { ["tau_over_T"] = I(d.TauThetaFrames.Scale(dt / T)) },
             },
             ["scales"] = new JsonObject

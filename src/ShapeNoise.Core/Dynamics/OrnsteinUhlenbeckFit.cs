@@ -29,6 +29,9 @@ internal readonly record struct OuFit(double Rho, double TauFrames, double Signa
 /// </remarks>
 internal static class OrnsteinUhlenbeckFit
 {
+    /// <summary>Shortest tau (frames) of the search range.</summary>
+    public const double MinTauFrames = 0.05;
+
     /// <summary>
     /// Expected lagged sums per unit sigma^2 (<paramref name="signal"/>) and per unit eta^2 (<paramref name="noise"/>) of a
     /// contiguous track of n samples, lags 0..K, for the OU signal with lag-1 correlation rho. Closed form.
@@ -103,12 +106,13 @@ internal static class OrnsteinUhlenbeckFit
 
     /// <summary>
     /// Fits the pooled lagged sums of <paramref name="tracks"/> (with bootstrap multiplicities <paramref name="weights"/>,
-    /// empty = all 1) over lags 0..<paramref name="fitLags"/>. <paramref name="frames"/> gives each track's frames.
+    /// empty = all 1) over lags 0..<paramref name="fitLags"/>. <paramref name="frames"/> gives each track's frames; tau is
+    /// searched in [<see cref="MinTauFrames"/>, <paramref name="maxTauFrames"/>] (0 = 20 x the longest weighted track).
     /// </summary>
     /// <remarks>About 70 lines on purpose: the least-squares objective (closed-form s2, e2 for each rho) is a local function
     /// over the track groups it closes on; it runs once per grid point per bootstrap resample, so the groups are built once
     /// here rather than passed around.</remarks>
-    public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags)
+    public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames = 0)
     {
         int K = fitLags + 1;
         var c = PooledAutocovariance.Pool(tracks, weights, out var pairs);
@@ -171,8 +175,9 @@ internal static class OrnsteinUhlenbeckFit
             return sse;
         }
 
-        // Grid over log tau from 0.05 frame to 20 x the longest track, then golden-section refinement.
-        double logTau = Statistics.Minimize.GridThenGolden(lt => Objective(Math.Exp(-1 / Math.Exp(lt)), out _, out _), Math.Log(0.05), Math.Log(20.0 * maxLen));
+        // Grid over log tau from 0.05 frame to 20 x the longest track (or the caller's bound), then golden-section refinement.
+        double upper = maxTauFrames > 0 ? maxTauFrames : 20.0 * maxLen;
+        double logTau = Statistics.Minimize.GridThenGolden(lt => Objective(Math.Exp(-1 / Math.Exp(lt)), out _, out _), Math.Log(MinTauFrames), Math.Log(upper));
         double tau = Math.Exp(logTau), rho = Math.Exp(-1 / tau);
         Objective(rho, out var sig2, out var eta2);
         return new OuFit(rho, tau, sig2, eta2, uncorrected);

@@ -167,8 +167,7 @@ public sealed class EllipseMovie
         // Realised correlation times: the same estimators on the noise-free continuous shapes.
         double tauQ = Dynamics.OrnsteinUhlenbeckFit.Fit(qSums, frames, [], fitLags).TauFrames;
         double tauL = Dynamics.OrnsteinUhlenbeckFit.Fit(lSums, frames, [], fitLags).TauFrames;
-        var cTh = Dynamics.OrientationCorrelation.Pool(thSums, [], out var thPairs);
-        double tauTh = Dynamics.OrientationCorrelation.Fit(cTh, thPairs, maxLag, 20.0 * T).TauFrames;
+        double tauTh = Dynamics.OrientationCorrelation.FitTracks(thSums, [], maxLag, 20.0 * T).TauFrames;
         // Every track has T frames, so the frame-weighted pooled mean is the plain mean over cells.
         return new EllipseTruth(sL / sW, sAl / sAc, sL / n, sW / n, sAl / n, sAc / n, o.TauFrames, o.SigmaAlongPx, o.SigmaAcrossPx,
             Math.Sqrt(sArea / (n * T) / Math.PI), tauQ, tauL, o.TauThetaFrames, tauTh, cx, cy, a, b, th, labels);
