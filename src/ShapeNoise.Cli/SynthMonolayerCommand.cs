@@ -25,6 +25,8 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
         [CommandOption("--sigma-along <REL>"), Description("Relative shape noise along the long axis.")] public double SigmaAlong { get; init; } = 0.12;
         [CommandOption("--sigma-across <REL>"), Description("Relative shape noise across the long axis.")] public double SigmaAcross { get; init; } = 0.06;
         [CommandOption("--tau <FRAMES>"), Description("Correlation time of the shape noise (frames).")] public double Tau { get; init; } = 5;
+        /// <summary>Spatial correlation length of the shape noise (px); 0 = independent cells.</summary>
+        [CommandOption("--noise-correlation <PX>"), Description("Spatial correlation length of the shape noise (px); 0 = independent cells.")] public double NoiseCorrelation { get; init; }
         [CommandOption("--width <PX>"), Description("Canvas width (0 = square, fit the cells).")] public int Width { get; init; }
         [CommandOption("--height <PX>"), Description("Canvas height (0 = square, fit the cells).")] public int Height { get; init; }
         [CommandOption("--pixel-size <UM>"), Description("Pixel size written to the OME-XML (um/px).")] public double PixelSize { get; init; } = 0.5;
@@ -45,7 +47,7 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
         {
             Cells = s.Cells, Frames = s.Frames, CellAreaPx2 = s.CellArea, Aspect = s.Aspect, Separation = s.Separation, Motion = motion,
             DefectSpeedPx = s.DefectSpeed, FlowSpeedPx = s.FlowSpeed, FlowAngleDeg = s.FlowAngle, SigmaAlong = s.SigmaAlong,
-            SigmaAcross = s.SigmaAcross, TauFrames = s.Tau, Width = s.Width, Height = s.Height, PixelSizeUm = s.PixelSize,
+            SigmaAcross = s.SigmaAcross, TauFrames = s.Tau, NoiseCorrelationPx = s.NoiseCorrelation, Width = s.Width, Height = s.Height, PixelSizeUm = s.PixelSize,
             FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         }.Validated();
         var m = SynthJob.Monolayer(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));

@@ -91,6 +91,9 @@ public static class Summary
             ["floor_per_mode"] = Num(p.FloorPerMode * s2),
             ["floor_source"] = r.FloorReference is null ? "high modes" : "--floor-from",
             ["mean_cell_radius"] = Num(r.MeanCellRadiusPx * s),
+            ["resampling_unit"] = r.ResamplingUnit,   // docs/statistics.md#within-movie-intervals
+            ["block_size"] = Num(r.BlockSizePx * s),
+            ["shape_correlation_length"] = Num(r.ShapeCorrelationLengthPx * s),
             ["tau_q"] = Interval(us.Time(r.Dynamics.TauQFrames)),
             ["tau_theta"] = Interval(us.Time(r.Dynamics.TauThetaFrames)),
             ["plus_half_defects"] = Num(r.Defects.PlusPerFrame),

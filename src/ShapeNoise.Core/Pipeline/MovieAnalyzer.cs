@@ -82,15 +82,17 @@ public static class MovieAnalyzer
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
 
         progress?.Report(new Progress(0, 3, "fluctuation statistics"));
-        var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference));
+        double coverage = tally.Frames > 0 && info.Width > 0 ? tally.AreaSumPx2 / ((double)info.Width * info.Height) / tally.Frames : double.NaN;
+        // Confluent tissue: spatial block bootstrap; isolated cells: over tracks (docs/statistics.md#within-movie-intervals).
+        var spatial = times.Time("fluctuations", () => SpatialBlocks.For(tracks, coverage, options.BootstrapResamples, options.Seed));
+        var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
         int used = 0;
         foreach (var t in tracks) if (t.Used) used++;
         var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference));
         var cells = tally.Cells;
         double r0 = tally.MeanCellRadiusPx();
         progress?.Report(new Progress(1, 3, "correlation times"));
-        var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options.ForDynamics));
-        double coverage = tally.Frames > 0 && info.Width > 0 ? tally.AreaSumPx2 / ((double)info.Width * info.Height) / tally.Frames : double.NaN;
+        var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options.ForDynamics, spatial.Plan));
         progress?.Report(new Progress(2, 3, "nematic field and defects"));
         var defectOptions = options.ToDefectOptions();
         var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, defectOptions, velocities));
@@ -98,7 +100,10 @@ public static class MovieAnalyzer
         warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
             coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks)));
         progress?.Report(new Progress(3, 3, "done"));
-        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis);
+        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
+        {
+            ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
+        };
     }
 
     /// <summary>Refuses a movie of fewer than 2 frames and a noise-floor reference measured with another ray count.</summary>

@@ -31,5 +31,13 @@ public sealed record Units(double? PixelSizeUm, string PixelSizeSource, double? 
 public sealed record AnalysisResult(Reading.MovieInfo Movie, AnalysisOptions Options, Units Units, AnalysisCounts Counts,
     IReadOnlyList<CellRecord> Cells, IReadOnlyList<TrackRecord> Tracks, PooledFluctuations Pooled, double MeanCellRadiusPx,
     NoiseFloorReference? FloorReference, IReadOnlyList<string> Warnings, Dynamics.DynamicsResult Dynamics,
-    Nematic.DefectResult Defects, Nematic.HypothesisResult Hypothesis);
+    Nematic.DefectResult Defects, Nematic.HypothesisResult Hypothesis)
+{
+    /// <summary>Unit of the within-movie bootstrap: "tracks" or "spatial blocks" (docs/statistics.md#within-movie-intervals).</summary>
+    public string ResamplingUnit { get; init; } = "tracks";
+    /// <summary>Side of the spatial blocks (px); NaN for the track bootstrap.</summary>
+    public double BlockSizePx { get; init; } = double.NaN;
+    /// <summary>Estimated correlation length xi of the shape fluctuations (px); NaN for the track bootstrap.</summary>
+    public double ShapeCorrelationLengthPx { get; init; } = double.NaN;
+}
 

@@ -42,6 +42,9 @@ public sealed record MonolayerMovieOptions
     public double SigmaAcross { get; init; } = 0.06;
     /// <summary>Correlation time of the shape noise (frames).</summary>
     public double TauFrames { get; init; } = 5;
+    /// <summary>Spatial correlation length of the shape noise (px): each seed's innovation is the Gaussian-kernel
+    /// (exp(-d^2 / 2 l^2)) weighted sum of iid innovations of all seeds, normalised to unit variance; 0 = independent seeds.</summary>
+    public double NoiseCorrelationPx { get; init; }
     /// <summary>Pixel size written into the movie's metadata (µm per px).</summary>
     public double PixelSizeUm { get; init; } = 0.5;
     /// <summary>Frame interval written into the movie's metadata (min).</summary>
@@ -59,6 +62,7 @@ public sealed record MonolayerMovieOptions
         if (!(Separation > 0.1 && Separation < 0.7)) throw new ArgumentException($"--separation must be in (0.1, 0.7) (got {Separation})");
         if (SigmaAlong < 0 || SigmaAcross < 0 || SigmaAlong > 0.3 || SigmaAcross > 0.3) throw new ArgumentException("--sigma-along and --sigma-across must be in [0, 0.3] (relative)");
         if (!(TauFrames > 0)) throw new ArgumentException("--tau must be > 0 frames");
+        if (!(NoiseCorrelationPx >= 0)) throw new ArgumentException($"--noise-correlation must be >= 0 px (got {NoiseCorrelationPx})");
         if (DefectSpeedPx < 0 || FlowSpeedPx < 0) throw new ArgumentException("--defect-speed and --flow-speed must be >= 0");
         if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
         return this;
@@ -151,10 +155,19 @@ public sealed class MonolayerMovie
         double rho = Math.Exp(-1 / o.TauFrames), innov = Math.Sqrt(1 - rho * rho);
         _noiseA = new double[seeds.Count]; _noiseB = new double[seeds.Count];
         for (int i = 0; i < seeds.Count; i++) { _noiseA[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); _noiseB[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); }
+        if (o.NoiseCorrelationPx > 0) { Smooth(seeds, _noiseA, o.NoiseCorrelationPx); Smooth(seeds, _noiseB, o.NoiseCorrelationPx); }
         for (int t = 0; t < o.Frames; t++)
         {
             if (t > 0)
             {
+                if (o.NoiseCorrelationPx > 0)
+                {
+                    var ea = new double[seeds.Count]; var eb = new double[seeds.Count];
+                    for (int i = 0; i < seeds.Count; i++) { ea[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); eb[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); }
+                    Smooth(seeds, ea, o.NoiseCorrelationPx); Smooth(seeds, eb, o.NoiseCorrelationPx);
+                    for (int i = 0; i < seeds.Count; i++) { _noiseA[i] = rho * _noiseA[i] + innov * ea[i]; _noiseB[i] = rho * _noiseB[i] + innov * eb[i]; }
+                }
+                else
                 for (int i = 0; i < seeds.Count; i++)
                 {
                     _noiseA[i] = rho * _noiseA[i] + innov * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
@@ -175,6 +188,29 @@ public sealed class MonolayerMovie
             var img = new int[owner.Length];
             for (int p = 0; p < owner.Length; p++) img[p] = ids[owner[p]];
             yield return img;
+        }
+    }
+
+    /// <summary>Replaces iid unit normals e by e'_i = sum_j w_ij e_j / sqrt(sum_j w_ij^2), w_ij = exp(-d_ij^2 / 2 l^2)
+    /// (d on the periodic canvas): unit variance, correlation between seeds decaying as a Gaussian of width sqrt(2) l.</summary>
+    private void Smooth(List<(double X, double Y)> seeds, double[] e, double l)
+    {
+        int n = seeds.Count;
+        var src = (double[])e.Clone();
+        double cut2 = 16 * l * l;
+        for (int i = 0; i < n; i++)
+        {
+            double s = 0, w2 = 0;
+            for (int j = 0; j < n; j++)
+            {
+                double dx = Math.Abs(seeds[i].X - seeds[j].X), dy = Math.Abs(seeds[i].Y - seeds[j].Y);
+                dx = Math.Min(dx, Width - dx); dy = Math.Min(dy, Height - dy);
+                double d2 = dx * dx + dy * dy;
+                if (d2 > cut2) continue;
+                double w = Math.Exp(-d2 / (2 * l * l));
+                s += w * src[j]; w2 += w * w;
+            }
+            e[i] = s / Math.Sqrt(w2);
         }
     }
 
