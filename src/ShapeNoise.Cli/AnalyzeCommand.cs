@@ -120,7 +120,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         Row(Measures.TauQ, us.Time(r.Dynamics.TauQFrames));
         Row(Measures.TauTheta, us.Time(r.Dynamics.TauThetaFrames));
         var df = r.Defects;
-        t.AddRow("+1/2 / -1/2 defects per frame", $"{df.PlusPerFrame:G3} / {df.MinusPerFrame:G3}", "");
+        t.AddRow("+1/2 / -1/2 defects per frame", df.NotApplicableReason is { } why ? $"not applicable: {why}".EscapeMarkup() : $"{df.PlusPerFrame:G3} / {df.MinusPerFrame:G3}", "", "", df.NotApplicableReason is null ? "" : "not_applicable");
         Row(Measures.DefectHeadwardSpeed, us.Speed(df.HeadwardSpeed));
         Row(Measures.FlowHeadwardSpeed, us.Speed(df.FlowHeadwardSpeed));
         t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");

@@ -19,6 +19,19 @@ public sealed record DefectResult(double CoarsePx, double GridPx, IReadOnlyList<
     double PlusPerFrame, double MinusPerFrame, Estimate HeadwardSpeed, Estimate FlowHeadwardSpeed, double FractionHeadward,
     int PlusTracksUsed, int Births, int Deaths, EnsembleFlow Flow)
 {
+    /// <summary>Why the defect stage does not apply (the tissue is not confluent), or null when it does.</summary>
+    public string? NotApplicableReason { get; init; }
+
+    /// <summary>This result marked not applicable (docs/defects.md#where-defects-apply): both headward speeds become
+    /// <see cref="EstimateStatus.NotApplicable"/> with <paramref name="reason"/>; the per-frame lists are kept for the tables.</summary>
+    public DefectResult NotApplicable(string reason) => this with
+    {
+        NotApplicableReason = reason,
+        HeadwardSpeed = Estimate.NotApplicableBecause(reason, HeadwardSpeed.N, "defect tracks"),
+        FlowHeadwardSpeed = Estimate.NotApplicableBecause(reason, FlowHeadwardSpeed.N, "defect tracks"),
+        FractionHeadward = double.NaN,
+    };
+
     /// <summary>The result of a run with no cells or no finite mean radius.</summary>
     public static DefectResult Empty => new(double.NaN, double.NaN, [], [], 0, 0, Estimate.NaN, Estimate.NaN, double.NaN, 0, 0, 0,
         new EnsembleFlow(0.5, 6, [], [], [], [], []));

@@ -63,8 +63,8 @@ public static class HeadwardStatistics
             if (double.IsFinite(t.FlowHeadwardSpeed)) flows.Add(t.FlowHeadwardSpeed);
         }
         double[] s = speeds.ToArray(), fl = flows.ToArray();
-        var headward = Bootstrap.Percentile(s.Length, k => Descriptive.WeightedMean(s, k), resamples, seed);
-        var flowHeadward = Bootstrap.Percentile(fl.Length, k => Descriptive.WeightedMean(fl, k), resamples, seed);
+        var headward = Bootstrap.Percentile(s.Length, k => Descriptive.WeightedMean(s, k), resamples, seed, "defect tracks");
+        var flowHeadward = Bootstrap.Percentile(fl.Length, k => Descriptive.WeightedMean(fl, k), resamples, seed, "defect tracks");
         int positive = 0;
         foreach (var v in s) if (v > 0) positive++;
         double fraction = s.Length > 0 ? positive / (double)s.Length : double.NaN;

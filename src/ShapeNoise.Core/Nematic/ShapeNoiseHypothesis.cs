@@ -13,6 +13,9 @@ namespace ShapeNoise.Nematic;
 /// <param name="HeadwardSpeed">Per defect track: its headward speed (px/frame).</param>
 public sealed record HypothesisResult(double SpearmanRho, double PValue, Estimate Rho95, int DefectTracks, double[] LocalAnisotropy, double[] HeadwardSpeed)
 {
+    /// <summary>ok with at least <see cref="ShapeNoiseHypothesis.MinDefectTracks"/> defect tracks, else too_few; not_applicable when the defect stage is.</summary>
+    public EstimateStatus Status { get; init; } = DefectTracks >= ShapeNoiseHypothesis.MinDefectTracks ? EstimateStatus.Ok : EstimateStatus.TooFew;
+
     /// <summary>No +1/2 defect track to test.</summary>
     public static HypothesisResult Empty => new(double.NaN, double.NaN, Estimate.NaN, 0, [], []);
 }
@@ -26,6 +29,10 @@ public sealed record HypothesisResult(double SpearmanRho, double PValue, Estimat
 /// stresses into headward motion; docs/measures.md#shape-noise-hypothesis. Statistics: <see cref="RankCorrelation"/>, <see cref="Bootstrap"/>.</remarks>
 public static class ShapeNoiseHypothesis
 {
+    /// <summary>Fewest +1/2 defect tracks for the test (docs/statistics.md#minimum-units): with 4, the smallest two-sided
+    /// permutation p-value of a perfect rank correlation is 2/4! = 0.083, so p &lt; 0.05 is impossible below 5 (2/5! = 0.017).</summary>
+    public const int MinDefectTracks = 5;
+
     /// <summary>Runs the test on the defect stage's result <paramref name="defects"/> for the analysed <paramref name="cells"/>
     /// and <paramref name="tracks"/>; seeds and resamples from <paramref name="o"/>. Uses no cell velocities.</summary>
     public static HypothesisResult Test(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks, DefectResult defects, DefectOptions o)
@@ -55,7 +62,7 @@ public static class ShapeNoiseHypothesis
             if (sl > 0 && sw > 0) { local.Add(sl / sw); speed.Add(dt.HeadwardSpeed); }
         }
         int n = local.Count;
-        if (n < 3) return new HypothesisResult(double.NaN, double.NaN, Estimate.NaN, n, local.ToArray(), speed.ToArray());
+        if (n < MinDefectTracks) return new HypothesisResult(double.NaN, double.NaN, Estimate.NaN, n, local.ToArray(), speed.ToArray());
         var logA = local.Select(a => Math.Log(a)).ToArray(); var v = speed.ToArray();
         var (rho, p) = RankCorrelation.PermutationTest(logA, v, 9999, o.Seed);
         var ci = Bootstrap.Percentile(n, k =>

@@ -97,6 +97,13 @@ public static class MovieAnalyzer
         var defectOptions = options.ToDefectOptions();
         var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, defectOptions, velocities));
         var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, defectOptions));
+        // Defects only where the tissue is confluent (docs/defects.md#where-defects-apply).
+        if (!(coverage >= SpatialBlocks.ConfluentCoverage))
+        {
+            string why = $"cells cover {100 * coverage:0} % of the field (defects need a confluent tissue, at least {100 * SpatialBlocks.ConfluentCoverage:0} %)";
+            defects = defects.NotApplicable(why);
+            hypothesis = hypothesis with { Status = EstimateStatus.NotApplicable };
+        }
         warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
             coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks)));
         progress?.Report(new Progress(3, 3, "done"));
