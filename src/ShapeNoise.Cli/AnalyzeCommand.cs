@@ -127,7 +127,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         t.AddRow("frames", $"{r.Counts.Frames}", "");
         AnsiConsole.Write(t);
         AnsiConsole.MarkupLineInterpolated($"results in [bold]{outDir}[/] (units: {us.LengthName}, {us.TimeName})");
-        foreach (var h in HtmlReport.Headlines(r).Take(3)) AnsiConsole.WriteLine(h);
+        foreach (var h in HtmlReport.Headlines(r)) AnsiConsole.WriteLine(h);
         AnsiConsole.MarkupLineInterpolated($"report: [bold]{Path.Combine(outDir, AnalysisFolder.Report)}[/]");
     }
 

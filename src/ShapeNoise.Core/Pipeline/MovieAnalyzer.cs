@@ -82,7 +82,9 @@ public static class MovieAnalyzer
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
 
         progress?.Report(new Progress(0, 3, "fluctuation statistics"));
-        double coverage = tally.Frames > 0 && info.Width > 0 ? tally.AreaSumPx2 / ((double)info.Width * info.Height) / tally.Frames : double.NaN;
+        // Field coverage: every labelled pixel (analysed cells and the ones excluded at the border or as too small) over
+        // the field, per frame (docs/defects.md#where-defects-apply).
+        double coverage = tally.Frames > 0 && info.Width > 0 ? tally.LabelledAreaSumPx2 / ((double)info.Width * info.Height) / tally.Frames : double.NaN;
         // Confluent tissue: spatial block bootstrap; isolated cells: over tracks (docs/statistics.md#within-movie-intervals).
         var spatial = times.Time("fluctuations", () => SpatialBlocks.For(tracks, coverage, options.BootstrapResamples, options.Seed));
         var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
@@ -140,6 +142,7 @@ public static class MovieAnalyzer
         public int Frames { get; private set; }
         public List<CellRecord> Cells { get; } = [];
         public double AreaSumPx2 { get; private set; }
+        public double LabelledAreaSumPx2 { get; private set; }
 
         public void Add(FrameOutlines fo, OutlineShape?[] shapes, Placement[] placed)
         {
@@ -147,13 +150,14 @@ public static class MovieAnalyzer
             for (int i = 0; i < fo.Outlines.Length; i++)
             {
                 var o = fo.Outlines[i];
-                if (o.Status == OutlineStatus.Border) { _border++; continue; }
-                if (o.Status == OutlineStatus.Small) { _small++; continue; }
+                if (o.Status == OutlineStatus.Border) { _border++; LabelledAreaSumPx2 += o.ComponentPixels; continue; }
+                if (o.Status == OutlineStatus.Small) { _small++; LabelledAreaSumPx2 += o.ComponentPixels; continue; }
                 var sh = shapes[i]!; var p = placed[i];
                 if (!sh.StarShaped) _nonStar++;
                 Cells.Add(new CellRecord(fo.Index, o.Label, p.TrackId, sh.Shape, p.ThetaContinuousRad, sh.StarShaped,
                     p.Modes![0].Real, 2 * p.Modes[2].Magnitude, o.Vertices.Length));
                 AreaSumPx2 += sh.Shape.AreaPx2;
+                LabelledAreaSumPx2 += sh.Shape.AreaPx2;
             }
             if (fo.Links is not null) { _divisions += fo.Divisions; _merges += fo.Merges; }
             Frames++;

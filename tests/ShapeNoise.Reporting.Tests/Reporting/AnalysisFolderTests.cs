@@ -85,7 +85,7 @@ public class AnalysisFolderTests
         Assert.Equal(summary["units"]!["length"]!.GetValue<string>(), movie.LengthUnit);
         Assert.Equal(summary["units"]!["time"]!.GetValue<string>(), movie.TimeUnit);
         Assert.Equal(u.LengthName, movie.LengthUnit);
-        Assert.Equal(summary["tau_q"]!["value"]!.GetValue<double>(), movie.TauQ);
+        Assert.Equal(summary["tau_q"]!["value"]?.GetValue<double>() ?? double.NaN, movie.TauQ);
 
         // tracks.csv read independently (CsvHelper, by the header the writer wrote): the same tracks and numbers.
         var (header, rows) = ReadCsv(Path.Combine(d["run"], AnalysisFolder.Tracks));

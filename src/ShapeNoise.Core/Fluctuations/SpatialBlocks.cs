@@ -1,6 +1,6 @@
-using ShapeNoise.Fluctuations;
+using ShapeNoise.Statistics;
 
-namespace ShapeNoise.Statistics;
+namespace ShapeNoise.Fluctuations;
 
 /// <summary>The resampling plan of a run and what chose it (docs/statistics.md#within-movie-intervals).</summary>
 /// <param name="Plan">The shared resampling plan.</param>
