@@ -37,6 +37,7 @@ internal sealed class CompareCommand : Command<CompareCommand.Settings>
                 {
                     ["measure"] = d.Measure, ["condition_a"] = d.A, ["condition_b"] = d.B, ["difference"] = N(d.Difference.Value),
                     ["ci95"] = new System.Text.Json.Nodes.JsonArray(N(d.Difference.Low), N(d.Difference.High)), ["ratio"] = N(d.Ratio.Value), ["p_value"] = N(d.PValue),
+                    ["status"] = d.Status == ShapeNoise.Statistics.EstimateStatus.Ok ? "ok" : "too_few", ["p_holm"] = N(d.HolmPValue), ["primary"] = d.IsPrimary,
                 });
             Console.WriteLine(arr.ToJsonString(new System.Text.Json.JsonSerializerOptions { WriteIndented = true }));
             return 0;
@@ -47,6 +48,7 @@ internal sealed class CompareCommand : Command<CompareCommand.Settings>
         foreach (var d in r.Differences)
             t.AddRow((units is null ? d.Measure : ShapeNoise.Reporting.Measures.Get(d.Measure).Label(units)).EscapeMarkup(), $"{d.A} - {d.B}".EscapeMarkup(), $"{d.Difference.Value:G4}", double.IsFinite(d.Difference.Low) ? $"{d.Difference.Low:G4} - {d.Difference.High:G4}" : "-", double.IsFinite(d.PValue) ? $"{d.PValue:G3}" : "-");
         AnsiConsole.Write(t);
+        foreach (var d in r.Differences) AnsiConsole.WriteLine($"{d.Measure}: {ShapeNoise.Reporting.ComparisonReport.Sentence(d)}");
         foreach (var o in r.OrderStatements) AnsiConsole.WriteLine(o);
         AnsiConsole.MarkupLineInterpolated($"results in [bold]{s.Out}[/] (comparison.md, comparison.csv, differences.csv, superplots)");
         return 0;

@@ -50,8 +50,10 @@ public static class ComparisonReport
     {
         WriteCsv(Path.Combine(dir, ComparisonCsv), ["condition", "measure", "unit", "movies", "units", "value", "ci95_low", "ci95_high"],
             r.Conditions.Select(m => new[] { m.Condition, m.Measure, UnitOf(m.Measure, r), I(m.Movies), I(m.Units), Csv(m.Value.Value), Csv(m.Value.Low), Csv(m.Value.High) }));
-        WriteCsv(Path.Combine(dir, DifferencesCsv), ["measure", "condition_a", "condition_b", "difference", "ci95_low", "ci95_high", "ratio", "ratio_ci95_low", "ratio_ci95_high", "p_value", "movies_a", "movies_b"],
-            r.Differences.Select(x => new[] { x.Measure, x.A, x.B, Csv(x.Difference.Value), Csv(x.Difference.Low), Csv(x.Difference.High), Csv(x.Ratio.Value), Csv(x.Ratio.Low), Csv(x.Ratio.High), Csv(x.PValue), I(x.MoviesA), I(x.MoviesB) }));
+        WriteCsv(Path.Combine(dir, DifferencesCsv), ["measure", "condition_a", "condition_b", "difference", "ci95_low", "ci95_high", "ratio", "ratio_ci95_low", "ratio_ci95_high", "p_value", "movies_a", "movies_b", "status", "movie_effect", "movie_effect_ci95_low", "movie_effect_ci95_high", "scale", "p_holm", "primary"],
+            r.Differences.Select(x => new[] { x.Measure, x.A, x.B, Csv(x.Difference.Value), Csv(x.Difference.Low), Csv(x.Difference.High), Csv(x.Ratio.Value), Csv(x.Ratio.Low), Csv(x.Ratio.High), Csv(x.PValue), I(x.MoviesA), I(x.MoviesB),
+                x.Status == EstimateStatus.Ok ? "ok" : "too_few", x.Effect.IsOk ? Csv(x.Effect.Value) : "", x.Effect.IsOk ? Csv(x.Effect.Low) : "", x.Effect.IsOk ? Csv(x.Effect.High) : "",
+                x.LogScale ? "ratio" : "difference", Csv(x.HolmPValue), x.IsPrimary ? "true" : "false" }));
         // Each plot is disposed once its PNG bytes are taken (Plot is IDisposable in ScottPlot 5; the bytes are a copy).
         using var superAnisotropy = SuperPlot(r, Measures.Anisotropy.Name);
         using var superContour = SuperPlot(r, Measures.AnisotropyContour.Name);
@@ -112,28 +114,35 @@ public static class ComparisonReport
         var sb = new StringBuilder("# Comparison of conditions\n\n");
         var conditions = r.Conditions.Select(x => x.Condition).Distinct().ToList();
         sb.Append(Ci, $"Movies: {string.Join(", ", conditions.Select(c => $"{c} {r.Conditions.First(x => x.Condition == c).Movies}"))}. ");
-        sb.Append("Every interval is a 95% hierarchical-bootstrap interval (movies, then tracks within movies), so movies, not cells, are the replicates; p-values are from Welch's t test on the movie-level values.\n\n");
-        int fewest = r.Conditions.Min(c => c.Movies);
-        if (fewest < 5)
-            sb.Append(Ci, $"With {fewest} movies in a condition, bootstrap intervals are too narrow (a resample can only recombine those few movies); where an interval excludes 0 but the movie-level test does not reach p < 0.05, the difference is not confirmed.\n\n");
+        sb.Append(Ci, $"Movies, not cells, are the replicates: each movie gives one value per measure (ln of its pooled variance ratio, ln tau_q, or its mean speed) and conditions are compared by Student's two-sample t test on those values, with at least {ConditionComparison.MinMovies} movies per condition. The primary measure is **{ConditionComparison.Primary}** (p unadjusted); the other measures carry Holm-adjusted p-values (Holm 1979).\n\n");
         foreach (var x in r.Differences)
         {
             var a = r.Conditions.First(c => c.Condition == x.A && c.Measure == x.Measure); var b = r.Conditions.First(c => c.Condition == x.B && c.Measure == x.Measure);
             string unit = Measures.Get(x.Measure).Kind == UnitKind.Ratio ? "" : $" {UnitOf(x.Measure, r)}";
-            sb.Append(Ci, $"- **{x.Measure}**: {x.A} {F(a.Value.Value)}{unit} (95% CI {F(a.Value.Low)} to {F(a.Value.High)}) vs {x.B} {F(b.Value.Value)}{unit} ({F(b.Value.Low)} to {F(b.Value.High)}). ");
-            if (!double.IsFinite(x.Difference.Value)) { sb.Append("Not defined in at least one condition.\n"); continue; }
-            sb.Append(Ci, $"Difference {x.A} − {x.B} = {F(x.Difference.Value)}{unit} (95% CI {F(x.Difference.Low)} to {F(x.Difference.High)})");
-            if (double.IsFinite(x.PValue)) sb.Append(Ci, $", Welch p = {F(x.PValue)}");
-            bool excl = x.Difference.Low > 0 || x.Difference.High < 0;
-            bool testAgrees = !double.IsFinite(x.PValue) || x.PValue < 0.05;
-            sb.Append(!excl ? ". The interval includes 0: these data do not show a difference (which is not evidence that there is none).\n"
-                : testAgrees ? ". The interval excludes 0: the data show a difference in this measure.\n"
-                : ". The bootstrap interval excludes 0 but the movie-level test does not reach p < 0.05: the difference is not confirmed with this many movies.\n");
+            sb.Append(Ci, $"- **{x.Measure}**{(x.IsPrimary ? " (primary)" : "")}: {x.A} {F(a.Value.Value)}{unit} vs {x.B} {F(b.Value.Value)}{unit}. ");
+            sb.Append(Sentence(x, unit)).Append('\n');
         }
         sb.Append("\n## Anisotropy and defect motion\n\n");
         foreach (var s in r.OrderStatements) sb.Append("- ").Append(s).Append('\n');
         sb.Append("\nThis is a research comparison; it depends on segmentation quality and on the movies being comparable.\n");
         return sb.ToString();
+    }
+
+    /// <summary>The plain-language sentence for one difference, generated from its status and movie-level interval only: a direction ("more"/"less") only when the interval excludes no effect (1 for ratios, 0 for differences).</summary>
+    public static string Sentence(MeasureDifference x, string unit = "")
+    {
+        if (x.Status != EstimateStatus.Ok) return $"{x.A} vs {x.B}: {x.Effect.Reason ?? "no movie-level test"}; described only, no p-value and no interval on the difference.";
+        var e = x.Effect;
+        string p = x.IsPrimary || !double.IsFinite(x.HolmPValue) ? $"p = {F(x.PValue)}" : $"p = {F(x.PValue)}, Holm-adjusted p = {F(x.HolmPValue)}";
+        string size = x.LogScale ? $"×{F(e.Value)}, 95% CI {F(e.Low)}–{F(e.High)}" : $"difference {F(e.Value)}{unit}, 95% CI {F(e.Low)} to {F(e.High)}{unit}";
+        bool clear = e.Excludes(x.LogScale ? 1 : 0);
+        if (!clear) return $"{x.A} vs {x.B}: no difference shown (which is not evidence of none) ({size}; {p}).";
+        bool less = x.LogScale ? e.Value < 1 : e.Value < 0;
+        string word = less ? "less" : "more";
+        string claim = x.Measure.StartsWith("anisotropy", StringComparison.Ordinal)
+            ? $"{x.A} is {word} anisotropic than {x.B}{(x.Measure == "anisotropy_contour" ? " by the contour ratio" : "")}"
+            : $"{x.A}'s {x.Measure} is {(less ? "less" : "more")} than {x.B}'s";
+        return $"{claim} ({size}; {p}).";
     }
 
     /// <summary>Writes plan.csv, plan.png, plan.md and report.html into <paramref name="dir"/>.</summary>

@@ -7,7 +7,19 @@ namespace ShapeNoise.Comparison;
 public sealed record ConditionMeasure(string Condition, string Measure, int Movies, int Units, Estimate Value, double[] MovieValues, string[] MovieNames);
 
 /// <summary>One measure for a pair of conditions: a - b and a / b with intervals, and a Welch t test on movie-level values.</summary>
-public sealed record MeasureDifference(string Measure, string A, string B, Estimate Difference, Estimate Ratio, double PValue, int MoviesA, int MoviesB);
+public sealed record MeasureDifference(string Measure, string A, string B, Estimate Difference, Estimate Ratio, double PValue, int MoviesA, int MoviesB)
+{
+    /// <summary>Movie-level effect from the Student t test on y_m (<see cref="ConditionComparison.MovieQuantity"/>): the ratio exp(mean_a - mean_b) for log-scale measures, the difference mean_a - mean_b otherwise, with its t interval; too_few below <see cref="ConditionComparison.MinMovies"/> movies in either condition.</summary>
+    public Estimate Effect { get; init; } = Estimate.NaN;
+    /// <summary>Whether <see cref="Effect"/> is a ratio (log-scale measure; no effect is 1) or a difference (no effect is 0).</summary>
+    public bool LogScale { get; init; }
+    /// <summary>Holm-adjusted p-value among the non-primary measures of this pair (NaN for the primary measure or without a test).</summary>
+    public double HolmPValue { get; init; } = double.NaN;
+    /// <summary>Whether this is the primary measure (<see cref="ConditionComparison.Primary"/>), reported without adjustment.</summary>
+    public bool IsPrimary => Measure == ConditionComparison.Primary;
+    /// <summary>Status of the movie-level comparison (ok or too_few).</summary>
+    public EstimateStatus Status => Effect.Status;
+}
 
 /// <summary>Everything the comparison computed.</summary>
 public sealed record ComparisonResult(IReadOnlyList<ConditionMeasure> Conditions, IReadOnlyList<MeasureDifference> Differences,
@@ -24,6 +36,63 @@ public static class ConditionComparison
 {
     /// <summary>The measures compared, in report order.</summary>
     public static readonly string[] Measures = ["anisotropy", "anisotropy_contour", "tau_q", "defect_headward_speed", "flow_headward_speed"];
+
+    /// <summary>The primary measure: its p-value is reported unadjusted, the others Holm-adjusted (docs/statistics.md, "Comparing conditions").</summary>
+    public const string Primary = "anisotropy";
+
+    /// <summary>Fewest movies per condition for a test and an interval on a difference; below it the comparison is descriptive only (status too_few).</summary>
+    public const int MinMovies = 3;
+
+    /// <summary>Whether <paramref name="measure"/> is compared on a log scale (ratios and tau_q) rather than linearly (speeds).</summary>
+    public static bool IsLogScale(string measure) => measure is "anisotropy" or "anisotropy_contour" or "tau_q";
+
+    /// <summary>
+    /// The one movie-level quantity y_m per measure, used by compare and by plan alike: ln of the movie's frame-weighted
+    /// pooled variance ratio sum(F var_L) / sum(F var_W) (or along/across) for the anisotropies, ln(tau_q) for tau_q, and
+    /// the movie's mean speed (linear, speeds can be negative) for the headward speeds. NaN when undefined.
+    /// </summary>
+    public static double MovieQuantity(string measure, MovieData movie)
+    {
+        double v = Statistic(measure, [movie], [1], null);
+        return IsLogScale(measure) ? (v > 0 ? Math.Log(v) : double.NaN) : v;
+    }
+
+    /// <summary>
+    /// Two-sided Student two-sample t test with pooled variance on movie-level values: s_p^2 = ((n_a - 1) s_a^2 + (n_b - 1) s_b^2) / (n_a + n_b - 2),
+    /// t = (mean_a - mean_b) / (s_p sqrt(1/n_a + 1/n_b)), df = n_a + n_b - 2; the 95% interval is the difference +- t_{0.975,df} SE.
+    /// Null (no p, no interval) with fewer than <see cref="MinMovies"/> finite values in either sample.
+    /// </summary>
+    /// <remarks>Student (1908), Biometrika 6:1-25. Pooled rather than Welch so that the noncentral-t power used by plan
+    /// (<see cref="Power.TwoSampleT"/>) is exact for this test (docs/statistics.md, "Comparing conditions").</remarks>
+    public static (double Difference, double Low, double High, double PValue)? MovieTest(double[] a, double[] b, double level = 0.95)
+    {
+        var x = a.Where(double.IsFinite).ToArray(); var y = b.Where(double.IsFinite).ToArray();
+        if (x.Length < MinMovies || y.Length < MinMovies) return null;
+        double df = x.Length + y.Length - 2;
+        double sp2 = ((x.Length - 1) * Descriptive.SampleVariance(x) + (y.Length - 1) * Descriptive.SampleVariance(y)) / df;
+        double diff = Descriptive.Mean(x) - Descriptive.Mean(y), se = Math.Sqrt(sp2 * (1.0 / x.Length + 1.0 / y.Length));
+        if (!(se > 0)) return null;
+        double crit = StudentT.InvCDF(0, 1, df, 1 - (1 - level) / 2);
+        return (diff, diff - crit * se, diff + crit * se, 2 * (1 - StudentT.CDF(0, 1, df, Math.Abs(diff / se))));
+    }
+
+    /// <summary>
+    /// Holm's step-down adjusted p-values: with the k finite p-values sorted p_(1) &lt;= ... &lt;= p_(k),
+    /// adj_(i) = max_{j &lt;= i} min(1, (k - j + 1) p_(j)); NaN entries stay NaN and do not count in k.
+    /// </summary>
+    /// <remarks>Holm S. (1979), "A simple sequentially rejective multiple test procedure", Scand. J. Statist. 6:65-70.</remarks>
+    public static double[] Holm(IReadOnlyList<double> p)
+    {
+        var adj = Enumerable.Repeat(double.NaN, p.Count).ToArray();
+        var idx = Enumerable.Range(0, p.Count).Where(i => double.IsFinite(p[i])).OrderBy(i => p[i]).ToArray();
+        double running = 0;
+        for (int j = 0; j < idx.Length; j++)
+        {
+            running = Math.Max(running, Math.Min(1, (idx.Length - j) * p[idx[j]]));
+            adj[idx[j]] = running;
+        }
+        return adj;
+    }
 
     /// <summary>
     /// Value of <paramref name="measure"/> for the movies <paramref name="movies"/> drawn <paramref name="count"/> times each,
@@ -130,27 +199,43 @@ public static class ConditionComparison
                     var d = Enumerable.Range(0, resamples).Select(r => boot[a][k][r] - boot[b][k][r]);
                     var q = Enumerable.Range(0, resamples).Select(r => boot[a][k][r] / boot[b][k][r]);
                     int nm = Math.Min(ma.Movies, mb.Movies);
-                    diffs.Add(new MeasureDifference(k, a, b, Bootstrap.Interval(ma.Value.Value - mb.Value.Value, d, nm, "movies"),
-                        Bootstrap.Interval(ma.Value.Value / mb.Value.Value, q, nm, "movies"), Welch(ma.MovieValues, mb.MovieValues), ma.Movies, mb.Movies));
+                    bool log = IsLogScale(k);
+                    var test = MovieTest(byCondition[a].Select(m => MovieQuantity(k, m)).ToArray(), byCondition[b].Select(m => MovieQuantity(k, m)).ToArray());
+                    string few = $"not enough movies (n = {ma.Movies} and {mb.Movies}; at least {MinMovies} per condition)";
+                    Estimate effect = test is { } t
+                        ? (log ? Estimate.Judged(Math.Exp(t.Difference), Math.Exp(t.Low), Math.Exp(t.High), nm, "movies", MinMovies)
+                               : Estimate.Judged(t.Difference, t.Low, t.High, nm, "movies", MinMovies))
+                        : Estimate.TooFewUnits(nm, "movies", nm < MinMovies ? few : "no finite movie-level values to test");
+                    // The bootstrap intervals are descriptive; below MinMovies there is no interval on a difference at all.
+                    Estimate Boot(double v, IEnumerable<double> r) => nm < MinMovies ? new Estimate(v, double.NaN, double.NaN) { N = nm, UnitName = "movies", Status = EstimateStatus.TooFew, Reason = few }
+                        : Bootstrap.Interval(v, r, nm, "movies");
+                    diffs.Add(new MeasureDifference(k, a, b, Boot(ma.Value.Value - mb.Value.Value, d), Boot(ma.Value.Value / mb.Value.Value, q),
+                        test?.PValue ?? double.NaN, ma.Movies, mb.Movies) { Effect = effect, LogScale = log });
                 }
+                // Holm over the non-primary measures of this pair.
+                var rest = diffs.Where(x => x.A == a && x.B == b && !x.IsPrimary).ToList();
+                var holm = Holm(rest.Select(x => x.PValue).ToArray());
+                for (int h = 0; h < rest.Count; h++) diffs[diffs.IndexOf(rest[h])] = rest[h] with { HolmPValue = holm[h] };
                 order.Add(OrderStatement(diffs.First(x => x.A == a && x.B == b && x.Measure == "anisotropy"),
                     diffs.First(x => x.A == a && x.B == b && x.Measure == "defect_headward_speed")));
             }
         return new ComparisonResult(measures, diffs, movies, units[0].LengthUnit, units[0].TimeUnit, order);
     }
 
-    /// <summary>Whether the two conditions' order in anisotropy matches their order in headward speed, said no stronger than the intervals allow.</summary>
+    /// <summary>Whether the two conditions' order in anisotropy matches their order in headward speed, said only as far as the movie-level intervals allow (a direction only when an interval excludes no effect).</summary>
     public static string OrderStatement(MeasureDifference anis, MeasureDifference head)
     {
-        bool anisClear = anis.Difference.Low > 0 || anis.Difference.High < 0;
-        bool headClear = head.Difference.Low > 0 || head.Difference.High < 0;
         string pair = $"{anis.A} vs {anis.B}";
-        if (!double.IsFinite(head.Difference.Value)) return $"{pair}: headward speed is undefined in at least one condition (no +1/2 defect followed long enough), so the orders cannot be compared.";
-        bool same = Math.Sign(anis.Difference.Value) == Math.Sign(head.Difference.Value);
-        string verdict = same ? "the condition with the higher anisotropy also has the higher headward speed, as the shape-noise hypothesis predicts"
-                              : "the condition with the higher anisotropy has the lower headward speed, against the shape-noise hypothesis";
-        if (anisClear && headClear) return $"{pair}: {verdict}; both differences have 95% intervals that exclude 0.";
-        return $"{pair}: the point estimates say {verdict}, but {(anisClear ? "the headward-speed" : headClear ? "the anisotropy" : "both")} difference interval(s) include 0, so the order is not established.";
+        if (anis.MoviesA < MinMovies || anis.MoviesB < MinMovies)
+            return $"{pair}: not enough movies (n = {anis.MoviesA} and {anis.MoviesB}; at least {MinMovies} per condition), so the orders are not compared.";
+        if (!head.Effect.IsOk) return $"{pair}: headward speed has no movie-level test in at least one condition (no +1/2 defect followed long enough in enough movies), so the orders cannot be compared.";
+        if (!anis.Effect.IsOk) return $"{pair}: anisotropy has no movie-level interval, so the orders cannot be compared.";
+        bool anisClear = anis.Effect.Excludes(1), headClear = head.Effect.Excludes(0);
+        if (!(anisClear && headClear))
+            return $"{pair}: no order shown — {(anisClear ? "the headward-speed" : headClear ? "the anisotropy" : "both")} interval(s) include no difference (which is not evidence of none).";
+        bool same = (anis.Effect.Value > 1) == (head.Effect.Value > 0);
+        return $"{pair}: " + (same ? "the condition with the higher anisotropy also has the higher headward speed, as the shape-noise hypothesis predicts"
+                                   : "the condition with the higher anisotropy has the lower headward speed, against the shape-noise hypothesis") + "; both movie-level 95% intervals exclude no difference.";
     }
 
     /// <summary>Two-sided Welch t test p-value on two samples (NaN with fewer than 2 finite values in either).</summary>

@@ -38,10 +38,38 @@ public class ComparisonCsvTests
         Assert.Equal("um/min", rows.First(x => x[1] == "defect_headward_speed")[2]);
 
         var (dh, drows) = AnalysisFolderTests.ReadCsv(d["cmp/differences.csv"]);
-        Assert.Equal("measure,condition_a,condition_b,difference,ci95_low,ci95_high,ratio,ratio_ci95_low,ratio_ci95_high,p_value,movies_a,movies_b", string.Join(",", dh));
+        Assert.Equal("measure,condition_a,condition_b,difference,ci95_low,ci95_high,ratio,ratio_ci95_low,ratio_ci95_high,p_value,movies_a,movies_b,status,movie_effect,movie_effect_ci95_low,movie_effect_ci95_high,scale,p_holm,primary", string.Join(",", dh));
         Assert.All(drows, row => Assert.Equal(odd, row[1]));
         Assert.All(drows, row => Assert.Equal("mutant", row[2]));
         // RFC 4180 §2.6–2.7: the field is quoted and its quotes doubled.
         Assert.Contains("\"wt, \"\"fast\"\" batch\"", File.ReadAllText(d["cmp/comparison.csv"]));
+    }
+
+    // Spec rule (docs/statistics.md, "Comparing conditions"): fewer than 3 movies in a condition is descriptive only.
+    [Fact]
+    public void Run_OneMoviePerCondition_TooFewNoPValueNoInterval()
+    {
+        var r = ConditionComparison.Run([Movies("a", 3, 1).First(), Movies("b", 1, 2).First()], 50, 1);
+        Assert.All(r.Differences, x =>
+        {
+            Assert.Equal(ShapeNoise.Statistics.EstimateStatus.TooFew, x.Status);
+            Assert.True(double.IsNaN(x.PValue));
+            Assert.True(double.IsNaN(x.Difference.Low) && double.IsNaN(x.Effect.Low));
+            Assert.Contains("not enough movies (n = 1 and 1; at least 3 per condition)", ComparisonReport.Sentence(x));
+        });
+        string md = ComparisonReport.Narrative(r);
+        Assert.DoesNotContain("difference shown", md.Replace("no difference shown", ""));
+        Assert.DoesNotContain("more anisotropic", md);
+        Assert.DoesNotContain("less anisotropic", md);
+    }
+
+    // Holm (1979), Scand. J. Statist. 6:65-70, step-down rule worked by hand: p = (0.01, 0.04, 0.03, 0.005), k = 4;
+    // sorted 0.005, 0.01, 0.03, 0.04 -> 4*0.005 = 0.02, 3*0.01 = 0.03, 2*0.03 = 0.06, max(0.06, 1*0.04) = 0.06.
+    [Fact]
+    public void Holm_HandWorkedExample_StepDownValues()
+    {
+        var adj = ConditionComparison.Holm([0.01, 0.04, 0.03, 0.005, double.NaN]);
+        Assert.Equal(0.03, adj[0], 12); Assert.Equal(0.06, adj[1], 12); Assert.Equal(0.06, adj[2], 12); Assert.Equal(0.02, adj[3], 12);
+        Assert.True(double.IsNaN(adj[4]));
     }
 }

@@ -45,7 +45,7 @@ public class ComparisonTests(ITestOutputHelper log)
         foreach (var f in new[] { "comparison.csv", "differences.csv", "comparison.md", "superplot-anisotropy.png", "superplot-anisotropy_contour.png", "run.json", "report.html" })
             Assert.True(new FileInfo(d[$"cmp/{f}"]).Length > 0, f);
         Assert.StartsWith("measure,condition_a,condition_b,difference,ci95_low,ci95_high,ratio,ratio_ci95_low,ratio_ci95_high,p_value", File.ReadLines(d["cmp/differences.csv"]).First());
-        Assert.Contains("excludes 0", File.ReadAllText(d["cmp/comparison.md"]));
+        Assert.Contains("aniso is more anisotropic than iso", File.ReadAllText(d["cmp/comparison.md"]));
         Assert.True(Directory.Exists(d["cmp/movies/aniso-3"]), "raw movies are analysed inside the comparison folder");
 
         var plan = CompareJob.Plan([d["pilot-aniso"], d["pilot-iso"]], 0.2, "anisotropy", d["plan"]);
@@ -55,8 +55,8 @@ public class ComparisonTests(ITestOutputHelper log)
         Assert.True(File.Exists(d["plan/plan.csv"]) && File.Exists(d["plan/plan.png"]) && File.Exists(d["plan/plan.md"]) && File.Exists(d["plan/report.html"]));
         var page = File.ReadAllText(d["cmp/report.html"]);
         System.Xml.Linq.XDocument.Parse(page[page.IndexOf("<html", StringComparison.Ordinal)..]);   // well-formed
-        Assert.Contains(diff.Difference.Value.ToString("G4", System.Globalization.CultureInfo.InvariantCulture), page);   // the narrative's rounding
-        Assert.Contains("excludes 0", page);
+        Assert.Contains(diff.Effect.Value.ToString("G4", System.Globalization.CultureInfo.InvariantCulture), page);   // the narrative's rounding
+        Assert.Contains("more anisotropic", page);
         Assert.Equal(29 * ExperimentPlan.CellsChoices.Length + 1, File.ReadLines(d["plan/plan.csv"]).Count());
     }
 
