@@ -69,7 +69,7 @@ public static class SpatialBlocks
         for (int i = 0; i < n; i++)
         {
             var L = tracks[i].LengthPx;
-            double m = L.Average(), sd = Math.Sqrt(L.Sum(v => (v - m) * (v - m)) / L.Length);
+            double m = Descriptive.Mean(L), sd = Math.Sqrt(Descriptive.PopulationVariance(L));
             z[i] = [];
             if (sd > 0) for (int k = 0; k < L.Length; k++) z[i][tracks[i].FrameIndex[k]] = (L[k] - m) / sd;
         }

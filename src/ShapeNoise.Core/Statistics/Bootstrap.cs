@@ -138,19 +138,7 @@ public static class Bootstrap
     /// (<see cref="Estimate.Judged"/>).
     /// </summary>
     public static Estimate Percentile(int units, Func<int[], double> statistic, int resamples, int seed, string unitName = "tracks")
-    {
-        var ones = new int[units];
-        Array.Fill(ones, 1);
-        double value = statistic(ones);
-        if (units == 0 || resamples <= 0) return Estimate.Judged(value, double.NaN, double.NaN, units, unitName);
-        var stats = new List<double>(resamples);
-        foreach (var counts in Draws(units, resamples, seed))
-        {
-            double s = statistic(counts);
-            if (double.IsFinite(s)) stats.Add(s);
-        }
-        return Interval(value, stats, units, unitName);
-    }
+        => Percentile(ResamplingPlan.OverTracks(units, Math.Max(0, resamples), seed) with { UnitName = unitName }, statistic);
 
     /// <summary>The same over the draws of a <see cref="ResamplingPlan"/> (items resampled by their unit: track or spatial block).</summary>
     public static Estimate Percentile(ResamplingPlan plan, Func<int[], double> statistic)
