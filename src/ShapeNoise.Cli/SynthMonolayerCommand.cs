@@ -31,6 +31,9 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
         [CommandOption("--height <PX>"), Description("Canvas height (0 = square, fit the cells).")] public int Height { get; init; }
         [CommandOption("--pixel-size <UM>"), Description("Pixel size written to the OME-XML (um/px).")] public double PixelSize { get; init; } = 0.5;
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval written to the OME-XML (min).")] public double FrameInterval { get; init; } = 5;
+        [CommandOption("--pairs <N>"), Description("Number of +1/2 / -1/2 defect pairs (more than 1: a many-defect tissue whose regions differ in shape-noise anisotropy).")] public int Pairs { get; init; } = 1;
+        [CommandOption("--hypothesis <BOOL>"), Description("With --pairs > 1: true = each +1/2 moves headward or tailward at a speed following its region's anisotropy; false = speeds independent of anisotropy.")] public string Hypothesis { get; init; } = "true";
+        [CommandOption("--anisotropy-spread <G>"), Description("With --pairs > 1: regions multiply var_L/var_W by G^(2z), z in [-1, 1].")] public double AnisotropySpread { get; init; } = 1.6;
         [CommandOption("--seed <N>"), Description("Random seed: the same seed gives the same bytes.")] public int Seed { get; init; } = 11;
 
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
@@ -43,15 +46,20 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
             "headward" => DefectMotion.Headward, "tailward" => DefectMotion.Tailward, "none" => DefectMotion.None,
             _ => throw new ArgumentException($"--motion must be headward, tailward or none (got '{s.Motion}')"),
         };
+        bool follows = s.Hypothesis.ToLowerInvariant() switch
+        {
+            "true" => true, "false" => false,
+            _ => throw new ArgumentException($"--hypothesis must be true or false (got '{s.Hypothesis}')"),
+        };
         var o = new MonolayerMovieOptions
         {
             Cells = s.Cells, Frames = s.Frames, CellAreaPx2 = s.CellArea, Aspect = s.Aspect, Separation = s.Separation, Motion = motion,
             DefectSpeedPx = s.DefectSpeed, FlowSpeedPx = s.FlowSpeed, FlowAngleDeg = s.FlowAngle, SigmaAlong = s.SigmaAlong,
             SigmaAcross = s.SigmaAcross, TauFrames = s.Tau, NoiseCorrelationPx = s.NoiseCorrelation, Width = s.Width, Height = s.Height, PixelSizeUm = s.PixelSize,
-            FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
+            FrameIntervalMin = s.FrameInterval, Seed = s.Seed, Pairs = s.Pairs, SpeedFollowsAnisotropy = follows, AnisotropySpread = s.AnisotropySpread,
         }.Validated();
         var m = SynthJob.Monolayer(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
-        AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {m.Truth.Cells} cells, +1/2 moving {o.Motion.ToString().ToLowerInvariant()}) and truth.json");
+        AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {m.Truth.Cells} cells, {(o.Pairs > 1 ? $"{o.Pairs} defect pairs, speeds {(o.SpeedFollowsAnisotropy ? "following" : "independent of")} anisotropy" : $"+1/2 moving {o.Motion.ToString().ToLowerInvariant()}")}) and truth.json");
         return 0;
     }
 }

@@ -156,8 +156,9 @@ public static class AnalysisFolder
         var scale = UnitScale.FromNames(lu, tu) ?? throw new InputException(summaryPath, $"has units '{lu}'/'{tu}' (expected um or px, min or frame)");
         var col = Columns(scale);
         double tau = summary[Measures.TauQ.Name]?["value"]?.GetValue<double?>() ?? double.NaN;
-        var (headward, flow) = ReadPlusHalfSpeeds(defectsPath, col);
-        return new MovieData(condition, replicate, folder, scale.LengthName, scale.TimeName, ReadTracks(tracksPath, col), tau, headward, flow);
+        var (headward, flow, headFrames, flowFrames) = ReadPlusHalfSpeeds(defectsPath, col);
+        return new MovieData(condition, replicate, folder, scale.LengthName, scale.TimeName, ReadTracks(tracksPath, col), tau, headward, flow)
+        { DefectHeadwardFrames = headFrames, FlowHeadwardFrames = flowFrames };
     }
 
     private static TrackUnit[] ReadTracks(string tracksPath, AnalysisColumns col)
@@ -172,8 +173,8 @@ public static class AnalysisFolder
         return tracks.ToArray();
     }
 
-    /// <summary>Per +1/2 defect track (in id order), the mean headward speed and the mean headward cell flow.</summary>
-    private static (double[] Headward, double[] Flow) ReadPlusHalfSpeeds(string defectsPath, AnalysisColumns col)
+    /// <summary>Per +1/2 defect track (in id order), the mean headward speed and the mean headward cell flow, each with its number of frames.</summary>
+    private static (double[] Headward, double[] Flow, int[] HeadwardFrames, int[] FlowFrames) ReadPlusHalfSpeeds(string defectsPath, AnalysisColumns col)
     {
         var head = new Dictionary<int, List<double>>(); var flow = new Dictionary<int, List<double>>();
         ReadRows(defectsPath, ["defect_track_id", "charge", col.HeadwardSpeed, col.FlowHeadwardSpeed], row =>
@@ -184,7 +185,8 @@ public static class AnalysisFolder
             if (double.IsFinite(h)) { if (!head.TryGetValue(id, out var l)) head[id] = l = []; l.Add(h); }
             if (double.IsFinite(f)) { if (!flow.TryGetValue(id, out var l)) flow[id] = l = []; l.Add(f); }
         });
-        return (head.OrderBy(k => k.Key).Select(k => k.Value.Average()).ToArray(), flow.OrderBy(k => k.Key).Select(k => k.Value.Average()).ToArray());
+        var h = head.OrderBy(k => k.Key).ToList(); var f = flow.OrderBy(k => k.Key).ToList();
+        return (h.Select(k => k.Value.Average()).ToArray(), f.Select(k => k.Value.Average()).ToArray(), h.Select(k => k.Value.Count).ToArray(), f.Select(k => k.Value.Count).ToArray());
     }
 
     private static double Num(string s, string file, string column)

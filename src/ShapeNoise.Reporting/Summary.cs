@@ -35,7 +35,7 @@ public static class Summary
             o["bound_value"] = Num(e.BoundValue);
         }
         if (double.IsFinite(e.FractionAtBound)) o["fraction_at_bound"] = e.FractionAtBound;
-        if (!ok && e.Reason is { } why) o["reason"] = why;
+        if (e.Reason is { } why) o["reason"] = why;
         return o;
     }
 
@@ -114,9 +114,13 @@ public static class Summary
                 ["spearman_rho"] = r.Hypothesis.Status == EstimateStatus.Ok ? Num(r.Hypothesis.SpearmanRho) : null,
                 ["spearman_rho_ci95"] = r.Hypothesis.Status == EstimateStatus.Ok && r.Hypothesis.Rho95.IsOk ? new JsonArray(Num(r.Hypothesis.Rho95.Low), Num(r.Hypothesis.Rho95.High)) : new JsonArray(null, null),
                 ["p_value"] = r.Hypothesis.Status == EstimateStatus.Ok ? Num(r.Hypothesis.PValue) : null,
+                ["random_position_p_value"] = r.Hypothesis.Status == EstimateStatus.Ok ? Num(r.Hypothesis.RandomPositionP) : null,
+                ["random_position_rho_range95"] = r.Hypothesis.Status == EstimateStatus.Ok && double.IsFinite(r.Hypothesis.RandomPositionRho95.Low)
+                    ? new JsonArray(Num(r.Hypothesis.RandomPositionRho95.Low), Num(r.Hypothesis.RandomPositionRho95.High)) : new JsonArray(null, null),
                 ["n_defect_tracks"] = r.Hypothesis.DefectTracks,
+                ["short_defect_tracks_left_out"] = r.Hypothesis.ShortTracksLeftOut,
                 ["status"] = StatusName(r.Hypothesis.Status),
-                ["test"] = "Spearman correlation of log local anisotropy (var_L/var_W of cells within 2 coarse widths of the core) with headward speed over +1/2 defect tracks; two-sided permutation p-value (9999 seeded permutations)",
+                ["test"] = $"Spearman correlation of log local anisotropy (var_L/var_W of cells within 2 coarse widths of the core) with headward speed over +1/2 defect tracks followed for at least {Nematic.ShapeNoiseHypothesis.MinSpeedSamples} frames with a speed; two-sided permutation p-value (9999 seeded permutations) and a random-position null ({Nematic.ShapeNoiseHypothesis.RandomPositionDraws} draws with each track's anisotropy taken about a random place of the tissue)",
             },
             ["dynamics"] = SimulationParameters.Dynamics(r),
             ["rays"] = r.Options.Rays,

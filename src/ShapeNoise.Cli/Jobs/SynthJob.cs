@@ -77,12 +77,36 @@ public static class SynthJob
                 ["shape_noise_sigma_along"] = o.SigmaAlong, ["shape_noise_sigma_across"] = o.SigmaAcross, ["shape_noise_tau_min"] = o.TauFrames * o.FrameIntervalMin,
                 ["director"] = "theta = phi_plus/2 - phi_minus/2 + pi/2 (phi: polar angle about each core)",
                 ["defects"] = frames,
+                ["pairs"] = o.Pairs,
+                ["plus_defects"] = PlusDefects(t, o),
             };
             File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
             var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
             File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("synth monolayer", [], opts, commandLine).ToJsonString(Summary.Indented));
         });
         return movie;
+    }
+
+    /// <summary>Every prescribed +1/2 defect: region level z, its var_L/var_W factor, signed headward speed, path and heads.</summary>
+    private static JsonArray PlusDefects(MonolayerTruth t, MonolayerMovieOptions o)
+    {
+        double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
+        var list = new JsonArray();
+        for (int k = 0; k < t.Plus.Count; k++)
+        {
+            var p = t.Plus[k];
+            var path = new JsonArray();
+            for (int f = 0; f < p.X.Length; f++)
+                path.Add(new JsonObject { ["frame"] = f, ["x_px"] = p.X[f], ["y_px"] = p.Y[f], ["head_x"] = p.HeadX[f], ["head_y"] = p.HeadY[f] });
+            list.Add(new JsonObject
+            {
+                ["index"] = k, ["region_level"] = p.Level, ["anisotropy_factor"] = p.AnisotropyFactor,
+                ["headward_speed_px_per_frame"] = p.HeadwardSpeedPx, ["headward_speed_um_per_min"] = p.HeadwardSpeedPx * sv,
+                ["minus_x_px"] = k < t.Minus.Count ? t.Minus[k].X : double.NaN, ["minus_y_px"] = k < t.Minus.Count ? t.Minus[k].Y : double.NaN,
+                ["path"] = path,
+            });
+        }
+        return list;
     }
 
     /// <summary>truth.json: the realised truth by the spec's definitions (px and um), plus every cell's trajectory and label ids.</summary>

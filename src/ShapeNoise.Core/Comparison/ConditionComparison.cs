@@ -49,7 +49,7 @@ public static class ConditionComparison
     /// <summary>
     /// The one movie-level quantity y_m per measure, used by compare and by plan alike: ln of the movie's frame-weighted
     /// pooled variance ratio sum(F var_L) / sum(F var_W) (or along/across) for the anisotropies, ln(tau_q) for tau_q, and
-    /// the movie's mean speed (linear, speeds can be negative) for the headward speeds. NaN when undefined.
+    /// the movie's time-weighted mean speed (linear, speeds can be negative) for the headward speeds. NaN when undefined.
     /// </summary>
     public static double MovieQuantity(string measure, MovieData movie)
     {
@@ -125,9 +125,11 @@ public static class ConditionComparison
                 default:
                 {
                     var v = measure == "defect_headward_speed" ? mv.DefectHeadward : mv.FlowHeadward;
+                    var frames = measure == "defect_headward_speed" ? mv.DefectHeadwardFrames : mv.FlowHeadwardFrames;
                     for (int u = 0; u < v.Length; u++)
                     {
-                        int w = units is null ? count[m] : units[m][u];
+                        // Time-weighted: each defect track counts with its frames with a speed (docs/defects.md#headward-speed).
+                        double w = (units is null ? count[m] : units[m][u]) * (frames is null ? 1 : frames[u]);
                         num += w * v[u]; den += w;
                     }
                     break;

@@ -9,7 +9,14 @@ public readonly record struct TrackUnit(double Frames, double VarL, double VarW,
 
 /// <summary>What the comparison reads back from one analysis output folder.</summary>
 public sealed record MovieData(string Condition, string Replicate, string Folder, string LengthUnit, string TimeUnit,
-    TrackUnit[] Tracks, double TauQ, double[] DefectHeadward, double[] FlowHeadward);
+    TrackUnit[] Tracks, double TauQ, double[] DefectHeadward, double[] FlowHeadward)
+{
+    /// <summary>Per +1/2 defect track, its frames with a speed (the weight of its mean in the time-weighted movie speed,
+    /// docs/defects.md#headward-speed); null = every track weight 1.</summary>
+    public int[]? DefectHeadwardFrames { get; init; }
+    /// <summary>Per +1/2 defect track, its frames with a core flow; null = every track weight 1.</summary>
+    public int[]? FlowHeadwardFrames { get; init; }
+}
 
 /// <summary>One row of conditions.csv: condition, replicate, path (an analysis folder or a movie to analyse); Line is its line number in the file.</summary>
 public sealed record ConditionRow(string Condition, string Replicate, string Path, long Line = 0)

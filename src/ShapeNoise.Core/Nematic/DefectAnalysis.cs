@@ -9,7 +9,13 @@ public sealed record DefectObservation(int Frame, int TrackId, Defect Defect, do
     double FlowVx, double FlowVy, double FlowHeadwardSpeed);
 
 /// <summary>A defect followed through frames, with its mean headward speeds (px/frame; NaN when undefined).</summary>
-public sealed record DefectTrack(int Id, double Charge, int FirstFrame, int LastFrame, int Frames, double HeadwardSpeed, double FlowHeadwardSpeed);
+public sealed record DefectTrack(int Id, double Charge, int FirstFrame, int LastFrame, int Frames, double HeadwardSpeed, double FlowHeadwardSpeed)
+{
+    /// <summary>Frames with a finite headward speed (central differences need both neighbours): the track's weight in the time-weighted mean.</summary>
+    public int SpeedSamples { get; init; } = Frames;
+    /// <summary>Frames with a finite headward cell flow at the core.</summary>
+    public int FlowSamples { get; init; } = Frames;
+}
 
 /// <summary>Mean cell velocity and director around +1/2 defects, in each defect's frame (e_head along +x); offsets in coarse widths.</summary>
 public sealed record EnsembleFlow(double StepCoarse, int Half, double[] Vpar, double[] Vperp, double[] Qxx, double[] Qxy, int[] Samples);
@@ -74,7 +80,7 @@ public static class DefectAnalysis
         }
         var links = DefectLinker.Link(frames, coarse);
         var (observations, dtracks) = HeadwardStatistics.Observe(frames, links);
-        var h = HeadwardStatistics.Summarise(dtracks, o.BootstrapResamples, o.Seed);
+        var h = HeadwardStatistics.Summarise(dtracks, observations, o.BootstrapResamples, o.Seed);
         int n = frames.Length;
         return new DefectResult(coarse, grid, observations, dtracks, n > 0 ? plus / (double)n : 0, n > 0 ? minus / (double)n : 0,
             h.Headward, h.FlowHeadward, h.FractionHeadward, h.TracksUsed, links.Births, links.Deaths, ensemble.Result());

@@ -45,29 +45,62 @@ public static class HeadwardStatistics
                 observations.Add(new DefectObservation(m[i].Frame, id + 1, d, vx, vy, head, fx, fy, flowHead));
             }
             dtracks.Add(new DefectTrack(id + 1, Get(m[0]).Charge, m[0].Frame, m[^1].Frame, m.Count,
-                nH > 0 ? sumH / nH : double.NaN, nF > 0 ? sumF / nF : double.NaN));
+                nH > 0 ? sumH / nH : double.NaN, nF > 0 ? sumF / nF : double.NaN) { SpeedSamples = nH, FlowSamples = nF });
         }
         observations.Sort((a, b) => a.Frame != b.Frame ? a.Frame.CompareTo(b.Frame) : a.TrackId.CompareTo(b.TrackId));
         return (observations, dtracks);
     }
 
-    /// <summary>Pools the +1/2 tracks' headward speeds: mean over tracks with a percentile bootstrap over tracks
-    /// (<see cref="Bootstrap.Percentile(int, Func{int[], double}, int, int, string)"/>, <see cref="Descriptive.WeightedMean"/>).</summary>
-    public static HeadwardSummary Summarise(IReadOnlyList<DefectTrack> tracks, int resamples, int seed)
+    /// <summary>
+    /// Pools the +1/2 tracks' headward speeds, time-weighted: v = sum_i n_i v_i / sum_i n_i with n_i the track's frames
+    /// with a speed (so a 47-frame track counts more than a 9-frame fragment; this is the mean over all observations).
+    /// With at least <see cref="Estimate.MinUnits"/> tracks the interval is a percentile bootstrap over tracks; with 2 to 4
+    /// tracks it is a moving-block bootstrap over time along the tracks (<see cref="MovingBlockBootstrap"/>, which then
+    /// describes the uncertainty of these defects' motion, not the spread between defects); one track is too_few
+    /// (docs/defects.md#headward-speed).
+    /// </summary>
+    public static HeadwardSummary Summarise(IReadOnlyList<DefectTrack> tracks, IReadOnlyList<DefectObservation> observations, int resamples, int seed)
     {
-        var speeds = new List<double>(); var flows = new List<double>();
-        foreach (var t in tracks)
+        var plus = new List<DefectTrack>();
+        foreach (var t in tracks) if (t.Charge == 0.5) plus.Add(t);
+        var headward = Pool(plus, observations, t => (t.HeadwardSpeed, t.SpeedSamples), o => o.HeadwardSpeed, resamples, seed);
+        var flowHeadward = Pool(plus, observations, t => (t.FlowHeadwardSpeed, t.FlowSamples), o => o.FlowHeadwardSpeed, resamples, seed);
+        int positive = 0, used = 0;
+        foreach (var t in plus) if (double.IsFinite(t.HeadwardSpeed)) { used++; if (t.HeadwardSpeed > 0) positive++; }
+        return new HeadwardSummary(headward, flowHeadward, used > 0 ? positive / (double)used : double.NaN, used);
+    }
+
+    private static Estimate Pool(List<DefectTrack> plus, IReadOnlyList<DefectObservation> observations, Func<DefectTrack, (double Mean, int Samples)> of,
+        Func<DefectObservation, double> sample, int resamples, int seed)
+    {
+        var v = new List<double>(); var w = new List<int>(); var ids = new List<int>();
+        foreach (var t in plus)
         {
-            if (t.Charge != 0.5) continue;
-            if (double.IsFinite(t.HeadwardSpeed)) speeds.Add(t.HeadwardSpeed);
-            if (double.IsFinite(t.FlowHeadwardSpeed)) flows.Add(t.FlowHeadwardSpeed);
+            var (mean, n) = of(t);
+            if (double.IsFinite(mean) && n > 0) { v.Add(mean); w.Add(n); ids.Add(t.Id); }
         }
-        double[] s = speeds.ToArray(), fl = flows.ToArray();
-        var headward = Bootstrap.Percentile(s.Length, k => Descriptive.WeightedMean(s, k), resamples, seed, "defect tracks");
-        var flowHeadward = Bootstrap.Percentile(fl.Length, k => Descriptive.WeightedMean(fl, k), resamples, seed, "defect tracks");
-        int positive = 0;
-        foreach (var v in s) if (v > 0) positive++;
-        double fraction = s.Length > 0 ? positive / (double)s.Length : double.NaN;
-        return new HeadwardSummary(headward, flowHeadward, fraction, s.Length);
+        int k = v.Count;
+        double[] values = v.ToArray(); int[] weights = w.ToArray();
+        if (k >= Estimate.MinUnits || k == 0)
+            return Bootstrap.Percentile(k, c =>
+            {
+                double s = 0, d = 0;
+                for (int i = 0; i < k; i++) { s += c[i] * weights[i] * values[i]; d += c[i] * weights[i]; }
+                return d > 0 ? s / d : double.NaN;
+            }, resamples, seed, "defect tracks");
+        if (k == 1)
+        {
+            double only = values[0];
+            return new Estimate(only, double.NaN, double.NaN)
+            { N = 1, UnitName = "defect tracks", Status = EstimateStatus.TooFew, Reason = "one +1/2 defect track: its speed describes one defect, not the tissue's defects" };
+        }
+        var series = new List<double[]>();
+        foreach (int id in ids)
+        {
+            var x = new List<double>();
+            foreach (var o in observations) if (o.TrackId == id && double.IsFinite(sample(o))) x.Add(sample(o));
+            series.Add(x.ToArray());
+        }
+        return MovingBlockBootstrap.Mean(series, resamples, seed) with { Reason = $"{k} +1/2 defect tracks: interval from blocks in time along the tracks" };
     }
 }

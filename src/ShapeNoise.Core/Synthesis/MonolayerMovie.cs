@@ -51,6 +51,17 @@ public sealed record MonolayerMovieOptions
     public double FrameIntervalMin { get; init; } = 5;
     /// <summary>Seed of every random draw of the scenario; the same seed gives the same movie.</summary>
     public int Seed { get; init; } = 11;
+    /// <summary>Number of +1/2 / -1/2 defect pairs, one per tile of a grid over the canvas. With more than one pair the
+    /// tissue is cut into regions (cells belong to the nearest +1/2 core) whose shape-noise anisotropy differs, and each
+    /// +1/2 moves at a signed headward speed set by <see cref="SpeedFollowsAnisotropy"/> (docs/defects.md#many-defect-tissue).</summary>
+    public int Pairs { get; init; } = 1;
+    /// <summary>With several pairs: true = each +1/2's signed headward speed is <see cref="DefectSpeedPx"/> z_k, with z_k in
+    /// [-1, 1] the standardised log anisotropy level of its region (the shape-noise hypothesis holds); false = the same
+    /// speeds assigned by an independent random permutation (speed independent of anisotropy).</summary>
+    public bool SpeedFollowsAnisotropy { get; init; } = true;
+    /// <summary>With several pairs: region k scales sigma_along by G^(z_k / 2) and sigma_across by G^(-z_k / 2), so its
+    /// variance ratio var_L / var_W is multiplied by G^(2 z_k); G is this spread (1 = every region alike).</summary>
+    public double AnisotropySpread { get; init; } = 1.6;
 
     /// <summary>Returns these options unchanged when every value is in range; throws <see cref="ArgumentException"/> naming the option otherwise.</summary>
     public MonolayerMovieOptions Validated()
@@ -65,13 +76,27 @@ public sealed record MonolayerMovieOptions
         if (!(NoiseCorrelationPx >= 0)) throw new ArgumentException($"--noise-correlation must be >= 0 px (got {NoiseCorrelationPx})");
         if (DefectSpeedPx < 0 || FlowSpeedPx < 0) throw new ArgumentException("--defect-speed and --flow-speed must be >= 0");
         if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
+        if (Pairs < 1 || Pairs > 64) throw new ArgumentException($"--pairs must be in [1, 64] (got {Pairs})");
+        if (Pairs > 1 && Motion != DefectMotion.Headward) throw new ArgumentException("--motion applies to a single pair; with --pairs > 1 every +1/2 moves at its region's speed (see --hypothesis)");
+        if (Pairs > 1 && FlowSpeedPx != 0) throw new ArgumentException("--flow-speed applies to a single pair (the many-pair field is not periodic)");
+        if (!(AnisotropySpread >= 1 && AnisotropySpread <= 4)) throw new ArgumentException($"--anisotropy-spread must be in [1, 4] (got {AnisotropySpread})");
         return this;
     }
 }
 
-/// <summary>Prescribed truth of the monolayer scenario, per frame (px, frames).</summary>
+/// <summary>Prescribed truth of the monolayer scenario, per frame (px, frames). The single-pair fields describe pair 0.</summary>
 public sealed record MonolayerTruth(double[] PlusX, double[] PlusY, double[] MinusX, double[] MinusY, double HeadX, double HeadY,
-    double DefectHeadwardSpeedPx, double FlowVx, double FlowVy, double FlowHeadwardSpeedPx, double ThetaOffset, int Cells);
+    double DefectHeadwardSpeedPx, double FlowVx, double FlowVy, double FlowHeadwardSpeedPx, double ThetaOffset, int Cells)
+{
+    /// <summary>Every +1/2 defect (one per pair), with its path, head direction per frame, speed and region anisotropy.</summary>
+    public IReadOnlyList<PlusDefectTruth> Plus { get; init; } = [];
+    /// <summary>Every -1/2 defect's (fixed) position (px).</summary>
+    public IReadOnlyList<(double X, double Y)> Minus { get; init; } = [];
+}
+
+/// <summary>One prescribed +1/2 defect: position and unit head direction per frame (px), signed headward speed (px/frame),
+/// and its region's shape-noise level z in [-1, 1] with the factor G^(2 z) on var_L / var_W.</summary>
+public sealed record PlusDefectTruth(double[] X, double[] Y, double[] HeadX, double[] HeadY, double HeadwardSpeedPx, double Level, double AnisotropyFactor);
 
 /// <summary>
 /// A confluent tissue (every pixel belongs to a cell) whose cells are elongated along a prescribed director field that
@@ -121,6 +146,7 @@ public sealed class MonolayerMovie
         int w = o.Width > 0 ? o.Width : side, h = o.Height > 0 ? o.Height : side;
         // Hexagonal packing at unit metric spacing has 0.866 units of area per seed, so A B = area / 0.866.
         double ab = o.CellAreaPx2 / 0.866, b = Math.Sqrt(ab / o.Aspect), a = o.Aspect * b;
+        if (o.Pairs > 1) return Seed(o, w, h, a, b, ManyPairs(o, w, h));
         double d = o.Separation * w, x0 = 0.5 * w - 0.5 * d, y0 = 0.5 * h;
         double headX = -1, headY = 0;                           // theta offset pi/2 puts the head at -x (see the class summary)
         double sgn = o.Motion switch { DefectMotion.Headward => 1, DefectMotion.Tailward => -1, _ => 0 };
@@ -132,7 +158,19 @@ public sealed class MonolayerMovie
         }
         double fa = o.FlowAngleDeg * Math.PI / 180;
         double fvx = o.FlowSpeedPx * (Math.Cos(fa) * headX - Math.Sin(fa) * headY), fvy = o.FlowSpeedPx * (Math.Sin(fa) * headX + Math.Cos(fa) * headY);
-        var truth = new MonolayerTruth(px, py, mx, my, headX, headY, sgn * o.DefectSpeedPx, fvx, fvy, fvx * headX + fvy * headY, Math.PI / 2, 0);
+        var truth = new MonolayerTruth(px, py, mx, my, headX, headY, sgn * o.DefectSpeedPx, fvx, fvy, fvx * headX + fvy * headY, Math.PI / 2, 0)
+        {
+            Plus = [new PlusDefectTruth(px, py, Fill(o.Frames, headX), Fill(o.Frames, headY), sgn * o.DefectSpeedPx, 0, 1)],
+            Minus = [(mx[0], my[0])],
+        };
+        return Seed(o, w, h, a, b, truth);
+    }
+
+    private static double[] Fill(int n, double v) { var r = new double[n]; Array.Fill(r, v); return r; }
+
+    /// <summary>Dart throwing and 10 Lloyd steps in the anisotropic metric of frame 0.</summary>
+    private static MonolayerMovie Seed(MonolayerMovieOptions o, int w, int h, double a, double b, MonolayerTruth truth)
+    {
         var movie = new MonolayerMovie(o, w, h, truth, a, b);
         var rng = new Random(o.Seed);
         var seeds = movie.DartThrow(rng, 0);
@@ -141,9 +179,71 @@ public sealed class MonolayerMovie
         return new MonolayerMovie(o, w, h, truth with { Cells = seeds.Count }, a, b) { _initial = seeds };
     }
 
-    /// <summary>Director angle of the prescribed field at (x, y) in frame t.</summary>
+    /// <summary>Director angle of the prescribed field at (x, y) in frame t:
+    /// theta = sum_k phi(x - p_k) / 2 - sum_k phi(x - m_k) / 2 + pi/2 over the +1/2 cores p_k and -1/2 cores m_k.</summary>
     public double Director(int t, double x, double y)
-        => 0.5 * Math.Atan2(y - Truth.PlusY[t], x - Truth.PlusX[t]) - 0.5 * Math.Atan2(y - Truth.MinusY[t], x - Truth.MinusX[t]) + Truth.ThetaOffset;
+    {
+        if (Truth.Plus.Count <= 1)
+            return 0.5 * Math.Atan2(y - Truth.PlusY[t], x - Truth.PlusX[t]) - 0.5 * Math.Atan2(y - Truth.MinusY[t], x - Truth.MinusX[t]) + Truth.ThetaOffset;
+        return Field(Truth.Plus, Truth.Minus, t, x, y, -1);
+    }
+
+    /// <summary>The many-pair director at (x, y) in frame t, leaving out the +1/2 core <paramref name="skip"/> (-1 = none).</summary>
+    private static double Field(IReadOnlyList<PlusDefectTruth> plus, IReadOnlyList<(double X, double Y)> minus, int t, double x, double y, int skip)
+    {
+        double th = Math.PI / 2;
+        for (int k = 0; k < plus.Count; k++) if (k != skip) th += 0.5 * Math.Atan2(y - plus[k].Y[t], x - plus[k].X[t]);
+        for (int k = 0; k < minus.Count; k++) th -= 0.5 * Math.Atan2(y - minus[k].Y, x - minus[k].X);
+        return th;
+    }
+
+    /// <summary>
+    /// The many-pair layout (docs/defects.md#many-defect-tissue): one pair per tile of a near-square grid, the +1/2 at 0.3 and
+    /// the -1/2 at 0.7 of the tile width (jittered by 5 % of the tile); region levels z_k evenly spaced in [-1, 1] and
+    /// shuffled; speeds v_k = speed z_k (or z of an independent permutation). Near core k the field is phi_k / 2 + c_k with
+    /// c_k the rest of the sum at the core, so the comet's head points at angle pi + 2 c_k (c = 0 gives the single pair's
+    /// head at -x); each frame every +1/2 steps by v_k along its head of the previous frame, and the -1/2 stay put.
+    /// </summary>
+    private static MonolayerTruth ManyPairs(MonolayerMovieOptions o, int w, int h)
+    {
+        int k = o.Pairs, nx = Math.Max(1, (int)Math.Round(Math.Sqrt(k * (double)w / h))), ny = (k + nx - 1) / nx;
+        double tw = w / (double)nx, th = h / (double)ny;
+        var rng = new Random(o.Seed + 7);
+        var level = new double[k];
+        for (int i = 0; i < k; i++) level[i] = k == 1 ? 0 : -1 + 2.0 * i / (k - 1);
+        rng.Shuffle(level);
+        var speedLevel = (double[])level.Clone();
+        if (!o.SpeedFollowsAnisotropy) rng.Shuffle(speedLevel);
+        var minus = new List<(double X, double Y)>();
+        var px = new double[k][]; var py = new double[k][]; var hx = new double[k][]; var hy = new double[k][];
+        for (int i = 0; i < k; i++)
+        {
+            int cx = i % nx, cy = i / nx;
+            double jx = (rng.NextDouble() - 0.5) * 0.1 * tw, jy = (rng.NextDouble() - 0.5) * 0.1 * th;
+            double yc = (cy + 0.5) * th + jy, half = 0.5 * o.Separation * tw;
+            px[i] = new double[o.Frames]; py[i] = new double[o.Frames]; hx[i] = new double[o.Frames]; hy[i] = new double[o.Frames];
+            px[i][0] = (cx + 0.5) * tw - half + jx; py[i][0] = yc;
+            minus.Add(((cx + 0.5) * tw + half + jx, yc));
+        }
+        var plus = new PlusDefectTruth[k];
+        for (int i = 0; i < k; i++)
+            plus[i] = new PlusDefectTruth(px[i], py[i], hx[i], hy[i], o.DefectSpeedPx * speedLevel[i], level[i], Math.Pow(o.AnisotropySpread, 2 * level[i]));
+        for (int t = 0; t < o.Frames; t++)
+        {
+            for (int i = 0; i < k; i++)
+            {
+                if (t > 0) { px[i][t] = px[i][t - 1] + plus[i].HeadwardSpeedPx * hx[i][t - 1]; py[i][t] = py[i][t - 1] + plus[i].HeadwardSpeedPx * hy[i][t - 1]; }
+            }
+            for (int i = 0; i < k; i++)
+            {
+                double head = Math.PI + 2 * Field(plus, minus, t, px[i][t], py[i][t], i);
+                hx[i][t] = Math.Cos(head); hy[i][t] = Math.Sin(head);
+            }
+        }
+        var m0 = minus[0];
+        return new MonolayerTruth(px[0], py[0], Fill(o.Frames, m0.X), Fill(o.Frames, m0.Y), hx[0][0], hy[0][0], plus[0].HeadwardSpeedPx, 0, 0, 0, Math.PI / 2, 0)
+        { Plus = plus, Minus = minus };
+    }
 
     /// <summary>The frames in order (the tessellation evolves, so frames are produced sequentially).</summary>
     public IEnumerable<int[]> Frames()
@@ -214,6 +314,22 @@ public sealed class MonolayerMovie
         }
     }
 
+    /// <summary>Shape-noise multipliers (G^(z/2), G^(-z/2)) of the region of (x, y) in frame t: the region of the nearest
+    /// +1/2 core; (1, 1) for a single pair.</summary>
+    private (double Along, double Across) RegionNoise(int t, double x, double y)
+    {
+        var plus = Truth.Plus;
+        if (plus.Count <= 1) return (1, 1);
+        int best = 0; double bd = double.PositiveInfinity;
+        for (int k = 0; k < plus.Count; k++)
+        {
+            double dx = x - plus[k].X[t], dy = y - plus[k].Y[t], d2 = dx * dx + dy * dy;
+            if (d2 < bd) { bd = d2; best = k; }
+        }
+        double g = Math.Pow(Options.AnisotropySpread, 0.5 * plus[best].Level);
+        return (g, 1 / g);
+    }
+
     private static double Wrap(double v, int size) => v < 0 ? v + size : v >= size ? v - size : v;
 
     private List<(double X, double Y)> DartThrow(Random rng, int t)
@@ -260,8 +376,9 @@ public sealed class MonolayerMovie
         for (int s = 0; s < n; s++)
         {
             (sx[s], sy[s]) = seeds[s];
+            var (ra, rb) = RegionNoise(t, sx[s], sy[s]);
             (mxx[s], mxy[s], myy[s]) = Metric(Director(t, sx[s], sy[s]),
-                _noiseA is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAlong * _noiseA[s]), _noiseB is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAcross * _noiseB[s]));
+                _noiseA is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAlong * ra * _noiseA[s]), _noiseB is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAcross * rb * _noiseB[s]));
             bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / cell)) * bx + Math.Min(bx - 1, (int)(sx[s] / cell));
             start[bucketOf[s] + 1]++;
         }

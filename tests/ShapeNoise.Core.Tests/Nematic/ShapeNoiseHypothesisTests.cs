@@ -18,7 +18,7 @@ public class ShapeNoiseHypothesisTests
     public void Test_LocalAnisotropyRisesWithHeadwardSpeed_RhoIsOneAndLocalValuesExact()
     {
         double[] a = [1.0, 1.5, 2.0, 3.0, 4.0], speed = [-0.3, -0.1, 0.05, 0.2, 0.4];
-        const int frames = 4; const double coarse = 10;
+        const int frames = 8; const double coarse = 10;
         var cells = new List<CellRecord>(); var tracks = new List<TrackRecord>(); var obs = new List<DefectObservation>(); var dtracks = new List<DefectTrack>();
         int trackId = 0;
         for (int k = 0; k < a.Length; k++)
