@@ -138,7 +138,8 @@ public static class ExperimentPlan
     /// Plans for <paramref name="relativeEffect"/> r on <paramref name="measure"/>: pilot movies (y, V by a
     /// <see cref="TrackResamples"/>-resample track bootstrap each), the components, the power of every design of the grid
     /// (2..<see cref="MaxMovies"/> movies per condition x <see cref="CellsChoices"/> tracks per movie) and the smallest
-    /// reaching <paramref name="target"/> (fewest movies, then fewest tracks). Intervals on the ICC and on every design's
+    /// reaching <paramref name="target"/> (fewest movies, then fewest tracks) among those with at least
+    /// <see cref="ConditionComparison.MinMovies"/> movies per condition, the fewest compare tests. Intervals on the ICC and on every design's
     /// power: percentiles of <paramref name="resamples"/> re-estimates on pilot movies resampled within conditions
     /// (one stream seeded by <paramref name="seed"/>), judged with N = pilot movies and at least
     /// <see cref="ConditionComparison.MinMovies"/> of them (else too_few; a zero-width interval is too_few too).
@@ -184,7 +185,8 @@ public static class ExperimentPlan
                 designs.Add(new DesignPower(k, m, pw) { Interval = n < ConditionComparison.MinMovies ? Judge(pw, _ => double.NaN)
                     : Estimate.Judged(pw, PowerPercentile(boot, k, m, delta, alpha, 0.025), PowerPercentile(boot, k, m, delta, alpha, 0.975), n, "movies", ConditionComparison.MinMovies) });
             }
-        DesignPower? best = designs.Where(d => d.Power >= target).OrderBy(d => d.MoviesPerCondition).ThenBy(d => d.CellsPerMovie).Cast<DesignPower?>().FirstOrDefault();
+        // compare tests only with at least MinMovies movies per condition, so a smaller design cannot be the answer.
+        DesignPower? best = designs.Where(d => d.Power >= target && d.MoviesPerCondition >= ConditionComparison.MinMovies).OrderBy(d => d.MoviesPerCondition).ThenBy(d => d.CellsPerMovie).Cast<DesignPower?>().FirstOrDefault();
         var counts = movies.Select(p => (double)p.Tracks).ToArray();
         var frames = pilots.SelectMany(p => p.Tracks.Where(t => Usable(t, measure)).Select(t => t.Frames)).ToArray();
         return new PlanResult(measure, relativeEffect, delta, vc, designs, best, n, movies.Sum(p => p.Tracks), Descriptive.Median(counts))
