@@ -35,18 +35,21 @@ public class ExperimentPlanTests(ITestOutputHelper log)
         return list;
     }
 
-    [Fact]
-    public void PowerOf_PlanEstimatedComponents_MatchesCompareRejectionRate()
+    [Theory]
+    [InlineData(12, 20)]    // inside the pilots' 15-45 tracks per movie
+    [InlineData(6, 200)]    // extrapolated to 5-10 times the pilots' tracks: tests the sigma_w^2 / m scaling
+    public void PowerOf_PlanEstimatedComponents_MatchesCompareRejectionRate(int n, int m)
     {
-        // sb = 0.3 (sigma_b^2 = 0.09), sw = 0.6, r = 0.4; design n = 12 movies per condition, m = 20 tracks each.
-        // Per-track within variance of the pooled ratio to first order (delta method): exp(sw^2) - 1 = 0.433, so
-        // var(y) = 0.09 + 0.433 / 20 = 0.112 and d = ln 1.4 / 0.334 = 1.01: power about 0.65 (Cohen 1988, ch. 2).
+        // sb = 0.3 (sigma_b^2 = 0.09), sw = 0.6, r = 0.4. Per-track within variance of the pooled ratio to first order
+        // (delta method): exp(sw^2) - 1 = 0.433, so for n = 12, m = 20: var(y) = 0.09 + 0.433 / 20 = 0.112,
+        // d = ln 1.4 / 0.334 = 1.01, power about 0.65; for n = 6, m = 200: var(y) = 0.092, power about 0.41 (Cohen 1988, ch. 2).
         const double sb = 0.3, sw = 0.6, r = 0.4;
-        const int n = 12, m = 20, reps = 2000;
+        const int reps = 2000;
         double delta = Math.Log(1 + r);
         var clock = Stopwatch.StartNew();
         // A large pilot (150 movies per condition, 15-45 tracks each) so that the plan's own estimation error in the
-        // components moves the predicted power by about 2 points (SE of s_p^2 is var(y) sqrt(2 / 298) = 0.009).
+        // components moves the predicted power by about 2 points (SE of s_p^2 is var(y) sqrt(2 / 298) = 0.009; over 8
+        // pilot seeds the predicted power for n = 12, m = 20 ranged 0.638-0.704 against a rate of 0.647).
         var plan = ExperimentPlan.Run(Pilot(11, 150, sb, sw, delta, 15, 45), r, resamples: 1000, seed: 3);
         log.WriteLine($"plan: {clock.ElapsedMilliseconds} ms; sigma_b^2 {plan.Components.Between:F4}, sigma_w^2 {plan.Components.Within:F4}, ICC {plan.Icc.Value:F4} [{plan.Icc.Low:F4}, {plan.Icc.High:F4}]");
         double predicted = ExperimentPlan.PowerOf(plan.Components.Between, plan.Components.Within, n, m, delta, 0.05);
@@ -62,10 +65,10 @@ public class ExperimentPlanTests(ITestOutputHelper log)
             if (ConditionComparison.MovieTest(a, b) is { PValue: < 0.05 }) reject++;
         }
         double rate = reject / (double)reps;
-        log.WriteLine($"replications: {clock.ElapsedMilliseconds} ms; predicted power {predicted:F4}, rejection rate {rate:F4} over {reps}");
-        Assert.InRange(predicted, 0.5, 0.8);   // the design sits where power is sensitive to the variance
+        log.WriteLine($"replications: {clock.ElapsedMilliseconds} ms; n {n}, m {m}: predicted power {predicted:F4}, rejection rate {rate:F4} over {reps}");
+        Assert.InRange(predicted, 0.35, 0.8);   // the designs sit where power is sensitive to the variance
         // 5 points: Monte Carlo SE of the rate sqrt(0.65 * 0.35 / 2000) = 0.011, plus about 0.02 from the pilot's
-        // estimation error; a plan on per-track log ratios (the old plan) predicts a different power for this design.
+        // estimation error. (2000 replications rather than 200: with 200 the Monte Carlo SE alone would be 0.034.)
         Assert.InRange(predicted - rate, -0.05, 0.05);
         // sigma_b^2 recovers sb^2 = 0.09 within 0.03: about 3 SE of s_p^2 (0.009) plus the error of mean V_m.
         Assert.InRange(plan.Components.Between, 0.09 - 0.03, 0.09 + 0.03);
