@@ -145,13 +145,22 @@ public static class ComparisonReport
         return $"{claim} ({size}; {p}).";
     }
 
-    /// <summary>Writes plan.csv, plan.png, plan.md and report.html into <paramref name="dir"/>.</summary>
+    /// <summary>plan.json file name.</summary>
+    public const string PlanJson = "plan.json";
+
+    /// <summary>The test a plan is for, in words (plan.md and plan.json).</summary>
+    public const string PlanTest = "the same Student t test on per-movie ln pooled ratio that compare runs";
+
+    /// <summary>Writes plan.csv (power of every design with its 95% interval), plan.json (components, ICC, smallest design, assumptions),
+    /// plan.png, plan.md and report.html into <paramref name="dir"/>.</summary>
     public static void WritePlan(PlanResult plan, string dir)
     {
-        WriteCsv(Path.Combine(dir, PlanCsv), ["movies_per_condition", "cells_per_movie", "power"],
-            plan.Designs.Select(d => new[] { I(d.MoviesPerCondition), I(d.CellsPerMovie), d.Power.ToString("R", Ci) }));
+        WriteCsv(Path.Combine(dir, PlanCsv), ["movies_per_condition", "cells_per_movie", "power", "power_ci95_low", "power_ci95_high", "status"],
+            plan.Designs.Select(d => new[] { I(d.MoviesPerCondition), I(d.CellsPerMovie), d.Power.ToString("R", Ci),
+                d.Interval.IsOk ? Csv(d.Interval.Low) : "", d.Interval.IsOk ? Csv(d.Interval.High) : "", Summary.StatusName(d.Interval.Status) }));
+        File.WriteAllText(Path.Combine(dir, PlanJson), PlanToJson(plan).ToJsonString(Summary.Indented));
         using var planPlot = PlanPlot(plan);
-        var figure = new Figure("plan.png", "Power of the two-sided t test on movie means against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.",
+        var figure = new Figure("plan.png", "Power of the two-sided Student t test on per-movie ln pooled ratio (the test compare runs) against movies per condition, one curve per number of cells per movie; the dashed line is power 0.8.",
             Figures.Png(planPlot, 720, 480));
         Figures.Save([figure], dir);
         string narrative = PlanNarrative(plan);
@@ -159,7 +168,45 @@ public static class ComparisonReport
         File.WriteAllText(Path.Combine(dir, AnalysisFolder.Report), HtmlReport.FromMarkdown("ShapeNoise experiment plan", narrative, [figure]));
     }
 
-    /// <summary>Power of the two-sided two-sample t test on movie means (alpha 0.05) against movies per condition, one line per cells-per-movie design, with power 0.8 dashed.</summary>
+    /// <summary>plan.json: the test, the effect, the movie-level variance components, the ICC and the smallest design's power as
+    /// estimate objects (<see cref="Summary.Interval"/>, units movies), the assumptions (tracks per movie, frames per track) and the pilots.</summary>
+    public static System.Text.Json.Nodes.JsonObject PlanToJson(PlanResult p)
+    {
+        static System.Text.Json.Nodes.JsonNode? N(double v) => double.IsFinite(v) ? System.Text.Json.Nodes.JsonValue.Create(v) : null;
+        var vc = p.Components;
+        return new System.Text.Json.Nodes.JsonObject
+        {
+            ["test"] = PlanTest,
+            ["measure"] = p.Measure,
+            ["movie_quantity"] = $"ln({Measures.Get(p.Measure).Statistic}) pooled over the movie's tracks, frame-weighted",
+            ["relative_effect"] = p.RelativeEffect,
+            ["log_effect"] = p.LogEffect,
+            ["alpha"] = p.Alpha,
+            ["target_power"] = p.Target,
+            ["pilot_movies"] = p.PilotMovies,
+            ["pilot_tracks"] = p.PilotTracks,
+            ["sigma_b2"] = N(vc.Between),
+            ["sigma_w2_per_track"] = N(vc.Within),
+            ["icc"] = Summary.Interval(p.Icc),
+            ["smallest_design"] = p.Smallest is { } b
+                ? new System.Text.Json.Nodes.JsonObject { ["movies_per_condition"] = b.MoviesPerCondition, ["cells_per_movie"] = b.CellsPerMovie, ["power"] = Summary.Interval(p.SmallestPower) }
+                : null,
+            ["assumptions"] = new System.Text.Json.Nodes.JsonObject
+            {
+                ["tracks_per_movie"] = N(p.MedianTracksPerMovie),
+                ["tracks_per_movie_source"] = "median of the pilot movies",
+                ["frames_per_track"] = N(p.MedianFramesPerTrack),
+                ["frames_per_track_source"] = "median over the pilot tracks; sigma_w2_per_track is for tracks of about this length",
+            },
+            ["bootstrap"] = new System.Text.Json.Nodes.JsonObject { ["track_resamples"] = ExperimentPlan.TrackResamples, ["movie_resamples"] = p.Resamples, ["seed"] = p.Seed },
+            ["pilots"] = new System.Text.Json.Nodes.JsonArray(p.Pilots.Select(m => (System.Text.Json.Nodes.JsonNode?)new System.Text.Json.Nodes.JsonObject
+            {
+                ["condition"] = m.Condition, ["replicate"] = m.Replicate, ["y"] = N(m.Y), ["v"] = N(m.V), ["tracks"] = m.Tracks, ["median_frames"] = N(m.MedianFrames),
+            }).ToArray()),
+        };
+    }
+
+    /// <summary>Power of the two-sided Student t test on per-movie ln pooled ratio (alpha 0.05) against movies per condition, one line per cells-per-movie design, with power 0.8 dashed.</summary>
     public static Plot PlanPlot(PlanResult p)
     {
         var plt = new Plot();
@@ -179,18 +226,25 @@ public static class ComparisonReport
         return plt;
     }
 
-    /// <summary>plan.md's Markdown: the pilot's variance components (between, within, ICC, design effect m / (1 + (m - 1) ICC)), the target effect and the smallest design reaching power 0.8.</summary>
+    /// <summary>plan.md's Markdown: which test the plan is for, the pilot's movie-level variance components and ICC with its
+    /// interval, the assumptions (tracks per movie, frames per track), the target effect and the smallest design reaching the
+    /// target power with its interval.</summary>
     public static string PlanNarrative(PlanResult p)
     {
         var vc = p.Components;
+        string Est(Estimate e) => e.IsOk ? $"{F(e.Value)} (95% CI {F(e.Low)}–{F(e.High)}, n = {e.N} {e.UnitName})" : $"{F(e.Value)} (no interval: {e.Reason ?? "too few"})";
         var sb = new StringBuilder("# Experiment plan\n\n");
-        sb.Append(Ci, $"Pilot: {p.PilotMovies} movies, {p.PilotTracks} tracks (median {p.MedianTracksPerMovie:G3} per movie). Measure: per-track ln({Measures.Get(p.Measure).Statistic}). ");
-        sb.Append(Ci, $"Between-movie variance {F(vc.Between)}, within-movie variance {F(vc.Within)}, intraclass correlation {F(vc.Icc)}, so averaging m cells in a movie is worth m / (1 + (m − 1) ICC) independent cells (design effect, Kish 1965): with {p.MedianTracksPerMovie:G3} cells per movie the design effect is {F(vc.DesignEffect(p.MedianTracksPerMovie))}.\n\n");
-        sb.Append(Ci, $"Target: a {p.RelativeEffect * 100:G3}% change in {p.Measure} (ln-scale effect {F(p.LogEffect)}), two-sided alpha 0.05, power 0.8, two-sample t test on movie means.\n\n");
+        sb.Append(Ci, $"This plan is for {PlanTest}: one value per movie, y = ln of the movie's frame-weighted pooled {Measures.Get(p.Measure).Statistic}, compared between two conditions by the two-sided pooled-variance Student t test at alpha {F(p.Alpha)} (movies are the replicates).\n\n");
+        sb.Append(Ci, $"Pilot: {p.PilotMovies} movies, {p.PilotTracks} tracks. Each movie's sampling variance comes from a bootstrap over its tracks ({ExperimentPlan.TrackResamples} resamples). ");
+        sb.Append(Ci, $"Between-movie variance σ_b² = {F(vc.Between)}, within-movie variance per track σ_w² = {F(vc.Within)} (method of moments, Searle, Casella and McCulloch 1992), so a movie of m tracks has var(y) = σ_b² + σ_w²/m. ");
+        sb.Append(Ci, $"Intraclass correlation {Est(p.Icc)}: averaging m cells in a movie is worth m / (1 + (m − 1) ICC) independent cells (Kish 1965); with {p.MedianTracksPerMovie:G3} cells per movie the design effect is {F(vc.DesignEffect(p.MedianTracksPerMovie))}.\n\n");
+        sb.Append(Ci, $"Assumptions: tracks per movie {p.MedianTracksPerMovie:G3} (median of the pilots; the grid evaluates 25–400), track length {p.MedianFramesPerTrack:G3} frames (median of the pilot tracks). σ_w² holds for tracks of about that length; longer tracks would lower it.\n\n");
+        sb.Append(Ci, $"Target: a {p.RelativeEffect * 100:G3}% change in {p.Measure} (ln-scale effect {F(p.LogEffect)}), power {F(p.Target)}.\n\n");
         sb.Append(p.Smallest is { } b
-            ? string.Format(Ci, "Smallest design reaching power 0.8: **{0} movies per condition** with {1} cells per movie (power {2:F2}). More cells per movie help only while the within-movie part dominates; the between-movie variance sets a floor that only more movies lower.\n", b.MoviesPerCondition, b.CellsPerMovie, b.Power)
-            : "No design with up to 30 movies per condition reaches power 0.8 for this effect: consider a larger effect, a less variable measure, or more movies.\n");
-        sb.Append("\nThe variance components come from a small pilot and are themselves uncertain; treat the numbers as a guide.\n");
+            ? string.Format(Ci, "Smallest design reaching power {3}: **{0} movies per condition** with {1} cells per movie (power {2}). More cells per movie help only while the within-movie part dominates; the between-movie variance sets a floor that only more movies lower.\n",
+                b.MoviesPerCondition, b.CellsPerMovie, Est(p.SmallestPower), F(p.Target))
+            : $"No design with up to {ExperimentPlan.MaxMovies} movies per condition reaches power {F(p.Target)} for this effect: consider a larger effect, a less variable measure, or more movies.\n");
+        sb.Append(Ci, $"\nThe intervals come from resampling the pilot movies within conditions ({p.Resamples} resamples, seed {p.Seed}) and re-estimating the components; with few pilot movies they are wide, and the plan is a guide.\n");
         return sb.ToString();
     }
 }

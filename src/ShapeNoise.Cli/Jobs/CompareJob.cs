@@ -144,7 +144,11 @@ public static class CompareJob
         OutputFolder.Write(outDir, dir =>
         {
             ComparisonReport.WritePlan(plan, dir);
-            var prov = Provenance.Describe("plan", inputs, new JsonObject { ["effect"] = effect, ["measure"] = measure }, commandLine);
+            var prov = Provenance.Describe("plan", inputs, new JsonObject
+            {
+                ["effect"] = effect, ["measure"] = measure, ["test"] = ComparisonReport.PlanTest,
+                ["track_resamples"] = ExperimentPlan.TrackResamples, ["movie_resamples"] = plan.Resamples, ["seed"] = plan.Seed,
+            }, commandLine);
             File.WriteAllText(Path.Combine(dir, AnalysisFolder.Run), prov.ToJsonString(Summary.Indented));
         });
         return plan;

@@ -51,13 +51,23 @@ public class ComparisonTests(ITestOutputHelper log)
         var plan = CompareJob.Plan([d["pilot-aniso"], d["pilot-iso"]], 0.2, "anisotropy", d["plan"]);
         log.WriteLine($"ICC {plan.Components.Icc:F3}; smallest design {plan.Smallest}");
         Assert.NotNull(plan.Smallest);
-        Assert.InRange(plan.Smallest!.Value.MoviesPerCondition, 2, 30);
+        Assert.InRange(plan.Smallest!.Value.MoviesPerCondition, ConditionComparison.MinMovies, 30);   // compare tests from 3 movies per condition
         Assert.True(File.Exists(d["plan/plan.csv"]) && File.Exists(d["plan/plan.png"]) && File.Exists(d["plan/plan.md"]) && File.Exists(d["plan/report.html"]));
         var page = File.ReadAllText(d["cmp/report.html"]);
         System.Xml.Linq.XDocument.Parse(page[page.IndexOf("<html", StringComparison.Ordinal)..]);   // well-formed
         Assert.Contains(diff.Effect.Value.ToString("G4", System.Globalization.CultureInfo.InvariantCulture), page);   // the narrative's rounding
         Assert.Contains("more anisotropic", page);
         Assert.Equal(29 * ExperimentPlan.CellsChoices.Length + 1, File.ReadLines(d["plan/plan.csv"]).Count());
+        // The plan names the test it is for and writes its ICC as an estimate object (docs/statistics.md#estimate-status)
+        // over the 6 pilot movies, with the assumed tracks per movie and frames per track.
+        Assert.Contains("the same Student t test on per-movie ln pooled ratio that compare runs", File.ReadAllText(d["plan/plan.md"]));
+        log.WriteLine(File.ReadAllText(d["plan/plan.md"]));
+        var pj = JsonNode.Parse(File.ReadAllText(d["plan/plan.json"]))!;
+        Assert.Equal(6, (int)pj["icc"]!["n"]!);
+        Assert.Equal("movies", (string)pj["icc"]!["unit"]!);
+        Assert.Contains((string)pj["icc"]!["status"]!, new[] { "ok", "too_few" });
+        Assert.True((double)pj["assumptions"]!["tracks_per_movie"]! > 0);
+        Assert.True((double)pj["assumptions"]!["frames_per_track"]! > 0);
     }
 
     [Fact]
