@@ -20,9 +20,13 @@ public static class SpatialBlocks
     /// <summary>Field coverage (cell area over field area, per frame) from which the tissue counts as confluent: the
     /// sparse ellipse demo covers 14 %, the synthetic monolayer about 100 %.</summary>
     public const double ConfluentCoverage = 0.8;
-    /// <summary>Block side in units of xi: blocks of three correlation lengths leave neighbouring blocks nearly independent
-    /// (residual correlation across a block is below e^-3 for an exponential decay) while keeping enough blocks.</summary>
+    /// <summary>Block side in units of xi: three correlation lengths keep most correlated pairs inside one block while
+    /// leaving about 30 blocks in a 600-cell field; the pairs that straddle block edges are accounted for by the
+    /// block-edge correction (docs/statistics.md#block-edges).</summary>
     public const double BlockSideInXi = 3;
+    /// <summary>Distance, in units of xi, within which tracks of neighbouring blocks are taken to covary in the block-edge
+    /// correction (docs/statistics.md#block-edges): the residual correlation has fallen below 1/e at xi and is small at 2 xi.</summary>
+    public const double EdgeRadiusInXi = 2;
 
     /// <summary>The plan for the used tracks (those with a contour, in order): over spatial blocks when
     /// <paramref name="coverage"/> &gt;= <see cref="ConfluentCoverage"/>, else over tracks.</summary>
@@ -36,7 +40,8 @@ public static class SpatialBlocks
         double xi = CorrelationLengthPx(t, cx, cy);
         double side = BlockSideInXi * xi;
         var (unit, units) = AssignBlocks(cx, cy, side);
-        return new SpatialPlan(ResamplingPlan.OverGroups("spatial blocks", unit, units, resamples, seed, side), xi);
+        var plan = ResamplingPlan.OverGroups("spatial blocks", unit, units, resamples, seed, side) with { ItemX = cx, ItemY = cy, EdgeRadiusPx = EdgeRadiusInXi * xi };
+        return new SpatialPlan(plan, xi);
     }
 
     /// <summary>Mean nearest-neighbour distance between the points (px); NaN for fewer than 2.</summary>

@@ -152,7 +152,53 @@ public static class Bootstrap
             double s = statistic(counts);
             if (double.IsFinite(s)) stats.Add(s);
         }
-        return Interval(value, stats, plan.Units, plan.UnitName);
+        var e = Interval(value, stats, plan.Units, plan.UnitName);
+        if (!e.IsOk || plan.ItemX is null || plan.ItemY is null || !(plan.EdgeRadiusPx > 0)) return e;
+        double f = EdgeInflation(plan, statistic, value);
+        return f > 1 ? Estimate.Judged(value, value - f * (value - e.Low), value + f * (e.High - value), plan.Units, plan.UnitName) : e;
+    }
+
+    /// <summary>
+    /// Block-edge inflation of a block-bootstrap interval (docs/statistics.md#block-edges): with jackknife influences
+    /// u_i = (n - 1)(mean_j theta_(-j) - theta_(-i)) of the n items, the within-block variance W = sum_k (sum_{i in k} u_i)^2
+    /// is what resampling whole blocks sees, and C = sum over ordered pairs i != j in different blocks within
+    /// <see cref="ResamplingPlan.EdgeRadiusPx"/> of u_i u_j is the covariance across block edges it drops; the interval's
+    /// half-widths are multiplied by f = sqrt((W + C) / W), clamped to [1, 2].
+    /// </summary>
+    /// <remarks>Jackknife influence values: Efron B. and Tibshirani R.J. (1993), An Introduction to the Bootstrap, ch. 11;
+    /// the cross-unit covariance within a distance band is the spatial heteroskedasticity-and-autocorrelation-consistent
+    /// variance of Conley T.G. (1999), "GMM estimation with cross sectional dependence", J. Econometrics 92:1-45; the
+    /// block-edge bias of order xi / block side is discussed in Lahiri S.N. (2003), Resampling Methods for Dependent Data, ch. 12.</remarks>
+    public static double EdgeInflation(ResamplingPlan plan, Func<int[], double> statistic, double value)
+    {
+        int n = plan.Items;
+        if (n < 3) return 1;
+        var x = plan.ItemX!; var y = plan.ItemY!; var unit = plan.UnitOfItem;
+        var w = new int[n]; Array.Fill(w, 1);
+        var loo = new double[n];
+        double mean = 0;
+        for (int i = 0; i < n; i++)
+        {
+            w[i] = 0; loo[i] = statistic(w); w[i] = 1;
+            if (!double.IsFinite(loo[i])) return 1;
+            mean += loo[i];
+        }
+        mean /= n;
+        var u = new double[n];
+        for (int i = 0; i < n; i++) u[i] = (n - 1) * (mean - loo[i]);
+        var blockSum = new double[plan.Units];
+        for (int i = 0; i < n; i++) blockSum[unit[i]] += u[i];
+        double within = 0, cross = 0, r2 = plan.EdgeRadiusPx * plan.EdgeRadiusPx;
+        foreach (var b in blockSum) within += b * b;
+        for (int i = 0; i < n; i++)
+            for (int j = i + 1; j < n; j++)
+            {
+                if (unit[i] == unit[j]) continue;
+                double dx = x[i] - x[j], dy = y[i] - y[j];
+                if (dx * dx + dy * dy <= r2) cross += 2 * u[i] * u[j];
+            }
+        if (!(within > 0)) return 1;
+        return Math.Clamp(Math.Sqrt(Math.Max(0, (within + cross) / within)), 1, 2);
     }
 
     /// <summary>The resamples themselves: for each, every unit's multiplicity (units drawn with replacement from one

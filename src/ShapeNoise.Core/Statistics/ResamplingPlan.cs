@@ -15,6 +15,12 @@ public sealed record ResamplingPlan(string UnitName, int Units, int[] UnitOfItem
 {
     /// <summary>Number of items (used tracks).</summary>
     public int Items => UnitOfItem.Length;
+    /// <summary>Item positions (px) for the block-edge correction of <see cref="Bootstrap.Percentile(ResamplingPlan, Func{int[], double})"/>; null = no correction.</summary>
+    public double[]? ItemX { get; init; }
+    /// <summary>See <see cref="ItemX"/>.</summary>
+    public double[]? ItemY { get; init; }
+    /// <summary>Distance (px) within which items of different blocks still covary (docs/statistics.md#block-edges); 0 = no correction.</summary>
+    public double EdgeRadiusPx { get; init; }
 
     /// <summary>The bootstrap over items, each its own unit ("tracks").</summary>
     public static ResamplingPlan OverTracks(int tracks, int resamples, int seed)
