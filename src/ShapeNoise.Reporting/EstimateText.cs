@@ -52,5 +52,24 @@ public static class EstimateText
         return $"{subject}: no net direction shown, which is not evidence of none ({num})";
     }
 
+    /// <summary>The shape-noise test in words (docs/measures.md#shape-noise-hypothesis): an association is stated only when
+    /// the permutation p and the random-position p are both below 0.05 and the interval of rho excludes 0; otherwise "no
+    /// association shown"; the status phrase when the test did not run.</summary>
+    public static string Hypothesis(Nematic.HypothesisResult h, string? notApplicableReason)
+    {
+        const string subject = "Shape-noise test (local anisotropy vs headward speed of +1/2 defects)";
+        if (h.Status == EstimateStatus.NotApplicable || notApplicableReason is not null)
+            return $"{subject}: not applicable: {notApplicableReason ?? "no defects analysed"}.";
+        if (h.Status != EstimateStatus.Ok)
+            return $"{subject}: not enough data (n = {h.DefectTracks} defect tracks followed for at least {Nematic.ShapeNoiseHypothesis.MinSpeedSamples} frames; at least {Nematic.ShapeNoiseHypothesis.MinDefectTracks} needed).";
+        string ci = h.Rho95.IsOk ? $"95% CI {HtmlReport.Round(h.Rho95.Low)}–{HtmlReport.Round(h.Rho95.High)}, " : "";
+        string nums = $"Spearman ρ = {HtmlReport.Round(h.SpearmanRho)}, {ci}permutation p = {HtmlReport.Round(h.PValue)}, random-position p = {HtmlReport.Round(h.RandomPositionP)}, n = {h.DefectTracks} defect tracks";
+        bool shown = h.PValue < 0.05 && h.RandomPositionP < 0.05 && h.Rho95.IsOk && (h.Rho95.Low > 0 || h.Rho95.High < 0);
+        if (!shown) return $"{subject}: no association shown, which is not evidence of none ({nums}).";
+        return h.SpearmanRho > 0
+            ? $"Where the local shape noise is more anisotropic, +1/2 defects move more toward their head, as the shape-noise hypothesis predicts ({nums})."
+            : $"Where the local shape noise is more anisotropic, +1/2 defects move less toward their head, against the shape-noise hypothesis ({nums}).";
+    }
+
     static string Suffix(string unit) => unit.Length == 0 ? "" : " " + unit;
 }

@@ -37,6 +37,7 @@ public static class HtmlReport
         var hs = u.Speed(df.HeadwardSpeed);
         h.Add(EstimateText.Direction(hs, u.SpeedLabel, "move toward their head (extensile-like)", "move toward their tail (contractile-like)",
             $"+1/2 defects ({(hs.Status == EstimateStatus.NotApplicable ? "not analysed" : $"{Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed")})") + ".");
+        h.Add(EstimateText.Hypothesis(r.Hypothesis, df.NotApplicableReason));
         return h;
     }
 

@@ -107,6 +107,7 @@ public static class Summary
             ["defect_tracks"] = r.Defects.Tracks.Count,
             ["defect_births"] = r.Defects.Births,
             ["defect_deaths"] = r.Defects.Deaths,
+            ["nematic_alignment"] = Num(r.Defects.MeanAlignment),
             ["coarse_width"] = Num(r.Defects.CoarsePx * s),
             ["grid_spacing"] = Num(r.Defects.GridPx * s),
             ["hypothesis"] = new JsonObject

@@ -25,6 +25,9 @@ public sealed record DefectResult(double CoarsePx, double GridPx, IReadOnlyList<
     double PlusPerFrame, double MinusPerFrame, Estimate HeadwardSpeed, Estimate FlowHeadwardSpeed, double FractionHeadward,
     int PlusTracksUsed, int Births, int Deaths, EnsembleFlow Flow)
 {
+    /// <summary>Mean over frames of the local alignment of the cell axes (<see cref="FrameDefects.Alignment"/>); NaN without frames.</summary>
+    public double MeanAlignment { get; init; } = double.NaN;
+
     /// <summary>Why the defect stage does not apply (the tissue is not confluent), or null when it does.</summary>
     public string? NotApplicableReason { get; init; }
 
@@ -54,6 +57,10 @@ public sealed record DefectResult(double CoarsePx, double GridPx, IReadOnlyList<
 /// 545:327-331 (neural progenitors, contractile-like tailward motion vs extensile headward motion).</remarks>
 public static class DefectAnalysis
 {
+    /// <summary>Least mean local alignment (<see cref="FrameDefects.Alignment"/>) for the defect stage to apply
+    /// (docs/defects.md#where-defects-apply): midway between what random cell axes and an aligned tissue give.</summary>
+    public const double MinAlignment = 0.5;
+
     /// <summary>Runs the defect stage over every analysed outline.</summary>
     /// <param name="widthPx">Image width.</param><param name="heightPx">Image height.</param>
     /// <param name="cells">Analysed outlines, in frame order.</param><param name="tracks">Their tracks.</param>
@@ -83,7 +90,15 @@ public static class DefectAnalysis
         var h = HeadwardStatistics.Summarise(dtracks, observations, o.BootstrapResamples, o.Seed);
         int n = frames.Length;
         return new DefectResult(coarse, grid, observations, dtracks, n > 0 ? plus / (double)n : 0, n > 0 ? minus / (double)n : 0,
-            h.Headward, h.FlowHeadward, h.FractionHeadward, h.TracksUsed, links.Births, links.Deaths, ensemble.Result());
+            h.Headward, h.FlowHeadward, h.FractionHeadward, h.TracksUsed, links.Births, links.Deaths, ensemble.Result())
+        { MeanAlignment = MeanOf(frames) };
+    }
+
+    private static double MeanOf(FrameDefects[] frames)
+    {
+        double s = 0; int n = 0;
+        foreach (var f in frames) if (double.IsFinite(f.Alignment)) { s += f.Alignment; n++; }
+        return n > 0 ? s / n : double.NaN;
     }
 
     /// <summary>Every frame's defects. Frames are independent: each is coarse-grained and searched in parallel (cells

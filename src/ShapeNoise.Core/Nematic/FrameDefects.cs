@@ -12,6 +12,12 @@ public readonly record struct EnsembleSample(int Index, double Vpar, double Vper
 /// <param name="Ensemble">Ensemble-flow samples of the frame's +1/2 defects, in defect then grid order.</param>
 public sealed record FrameDefects(int Frame, List<Defect> Defects, (double Vx, double Vy)[] CoreFlow, List<EnsembleSample> Ensemble)
 {
+    /// <summary>Local alignment of the frame (docs/defects.md#where-defects-apply): A = sum_k w_k |Q_k| / sum_k w_k &lt;|Q_c|&gt;_k
+    /// over the grid nodes at least one coarse width from the border, with Q_k the coarse-grained cell nematic tensor and
+    /// &lt;|Q_c|&gt;_k the coarse-grained magnitude of the cells' own tensors: 1 when the cells within a coarse width share
+    /// one axis, about 1 / sqrt(N_eff) for random axes (N_eff cells under the kernel). NaN without cells.</summary>
+    public double Alignment { get; init; } = double.NaN;
+
     /// <summary>
     /// Coarse-grains <paramref name="samples"/> (Gaussian width <paramref name="coarsePx"/>, grid <paramref name="gridPx"/>),
     /// finds the defects (none within one coarse width of the border; polarity over a disc of one coarse width), samples
@@ -30,7 +36,31 @@ public sealed record FrameDefects(int Frame, List<Defect> Defects, (double Vx, d
             if (df.Charge != 0.5 || !double.IsFinite(df.HeadX)) continue;
             EnsembleFlowAccumulator.Sample(field, df, coarsePx, ensemble, ens);
         }
-        return new FrameDefects(frame, defects, flow, ens);
+        return new FrameDefects(frame, defects, flow, ens) { Alignment = AlignmentOf(field, samples, widthPx, heightPx, gridPx, coarsePx) };
+    }
+
+    /// <summary>See <see cref="Alignment"/>: the magnitudes are coarse-grained with the same kernel as Q.</summary>
+    public static double AlignmentOf(NematicGrid field, ReadOnlySpan<CellSample> samples, int widthPx, int heightPx, double gridPx, double coarsePx)
+    {
+        var mags = new CellSample[samples.Length];
+        for (int i = 0; i < samples.Length; i++)
+        {
+            var c = samples[i];
+            mags[i] = new CellSample(c.X, c.Y, Math.Sqrt(c.Qxx * c.Qxx + c.Qxy * c.Qxy), 0, double.NaN, double.NaN);
+        }
+        var m = CoarseGraining.Of(mags, widthPx, heightPx, gridPx, coarsePx);
+        double num = 0, den = 0;
+        for (int j = 0; j < field.Ny; j++)
+            for (int i = 0; i < field.Nx; i++)
+            {
+                double x = i * gridPx, y = j * gridPx;
+                if (x < coarsePx || y < coarsePx || x > widthPx - coarsePx || y > heightPx - coarsePx) continue;
+                int k = j * field.Nx + i;
+                double w = field.Weight[k];
+                if (!(w > 1e-9)) continue;
+                num += w * 0.5 * field.Order(k); den += w * m.Qxx[k];
+            }
+        return den > 0 ? num / den : double.NaN;
     }
 }
 

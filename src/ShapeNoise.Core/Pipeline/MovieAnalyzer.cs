@@ -100,9 +100,13 @@ public static class MovieAnalyzer
         var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, defectOptions, velocities));
         var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, defectOptions));
         // Defects only where the tissue is confluent (docs/defects.md#where-defects-apply).
-        if (!(coverage >= SpatialBlocks.ConfluentCoverage))
+        string? why = !(coverage >= SpatialBlocks.ConfluentCoverage)
+            ? $"cells cover {100 * coverage:0} % of the field (defects need a confluent tissue, at least {100 * SpatialBlocks.ConfluentCoverage:0} %)"
+            : double.IsFinite(defects.MeanAlignment) && defects.MeanAlignment < Nematic.DefectAnalysis.MinAlignment
+                ? $"cell axes are not aligned over the coarse width (mean alignment {defects.MeanAlignment:0.00}, defects need at least {Nematic.DefectAnalysis.MinAlignment:0.00})"
+                : null;
+        if (why is not null)
         {
-            string why = $"cells cover {100 * coverage:0} % of the field (defects need a confluent tissue, at least {100 * SpatialBlocks.ConfluentCoverage:0} %)";
             defects = defects.NotApplicable(why);
             hypothesis = hypothesis with { Status = EstimateStatus.NotApplicable };
         }
