@@ -44,7 +44,7 @@ public static class ShapeNoiseHypothesis
     public const int MinDefectTracks = 5;
 
     /// <summary>Fewest frames with a speed for a defect track to enter the test: a shorter fragment's mean speed is dominated
-    /// by the frame-to-frame jitter of the core position (docs/defects.md#hypothesis-tracks).</summary>
+    /// by the frame-to-frame jitter of the core position (docs/measures.md#shape-noise-hypothesis).</summary>
     public const int MinSpeedSamples = 8;
 
     /// <summary>Draws of the random-position null.</summary>

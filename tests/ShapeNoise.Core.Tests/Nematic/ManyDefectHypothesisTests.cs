@@ -11,6 +11,8 @@ namespace ShapeNoise.Tests.Nematic;
 /// shape-noise anisotropy and each +1/2 moves headward or tailward at a speed that follows its region's anisotropy
 /// (hypothesis true) or is independent of it (false). Acceptance criterion of issue 13: power at least 80 % and false
 /// rejections at most 10 % over 20 seeded movies each (the nominal size of the test is 5 %, a fact of the trade).
+/// Measured (seeds 100-119, docs/measures.md#shape-noise-hypothesis): 20/20 found with both p below 0.05; 0/20 false
+/// rejections by either null; 9-13 defect tracks per movie; about 2.4 min in Release for the 40 movies.
 /// </summary>
 public class ManyDefectHypothesisTests(ITestOutputHelper log)
 {
@@ -31,8 +33,9 @@ public class ManyDefectHypothesisTests(ITestOutputHelper log)
             var m = MonolayerMovie.Generate(Tissue(100 + s, follows));
             var r = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, m.Frames().ToList()), new AnalysisOptions { BootstrapResamples = 200 });
             var h = r.Hypothesis;
-            bool rej = h.PValue < 0.05;
-            if (rej) rejected++;
+            // Rejection as the report states it: permutation p and random-position p both below 0.05.
+            bool rej = h.PValue < 0.05 && h.RandomPositionP < 0.05;
+            if (h.PValue < 0.05 || h.RandomPositionP < 0.05) rejected++;   // false rejection by either null counts
             if (rej && h.SpearmanRho > 0) positive++;
             lines.AppendLine($"seed {100 + s} follows={follows}: n={h.DefectTracks} (short {h.ShortTracksLeftOut}) rho={h.SpearmanRho:F2} p={h.PValue:F3} pnull={h.RandomPositionP:F3} speed={r.Defects.HeadwardSpeed.Value:F3} plus/frame={r.Defects.PlusPerFrame:F1} ({sw.Elapsed.TotalSeconds:F1} s)");
         }
