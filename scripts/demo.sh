@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Runs the main job on the bundled demo movies:
 #  - demo-data/ellipses  (isolated fluctuating cells with known truth) -> runs/demo-ellipses
-#  - demo-data/monolayer (confluent tissue with a moving +1/2 / -1/2 defect pair) -> runs/demo-monolayer
+#  - demo-data/monolayer (confluent tissue with 12 moving +1/2 / -1/2 defect pairs) -> runs/demo-monolayer
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/ensure-deps.sh

@@ -157,8 +157,12 @@ public static class AnalysisFolder
         var col = Columns(scale);
         double tau = summary[Measures.TauQ.Name]?["value"]?.GetValue<double?>() ?? double.NaN;
         var (headward, flow, headFrames, flowFrames) = ReadPlusHalfSpeeds(defectsPath, col);
+        // A movie whose defect stage did not apply contributes no defect speeds (docs/defects.md#where-defects-apply).
+        string? notApplicable = summary["defects_status"]?.GetValue<string>() == "not_applicable"
+            ? summary["defects_reason"]?.GetValue<string>() ?? "the defect stage did not apply" : null;
+        if (notApplicable is not null) { headward = []; flow = []; headFrames = []; flowFrames = []; }
         return new MovieData(condition, replicate, folder, scale.LengthName, scale.TimeName, ReadTracks(tracksPath, col), tau, headward, flow)
-        { DefectHeadwardFrames = headFrames, FlowHeadwardFrames = flowFrames };
+        { DefectsNotApplicable = notApplicable, DefectHeadwardFrames = headFrames, FlowHeadwardFrames = flowFrames };
     }
 
     private static TrackUnit[] ReadTracks(string tracksPath, AnalysisColumns col)

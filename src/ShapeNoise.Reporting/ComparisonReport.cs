@@ -48,11 +48,13 @@ public static class ComparisonReport
     /// <summary>Writes comparison.csv, differences.csv, the superplots, comparison.md and report.html into <paramref name="dir"/>.</summary>
     public static void Write(ComparisonResult r, string dir)
     {
-        WriteCsv(Path.Combine(dir, ComparisonCsv), ["condition", "measure", "unit", "movies", "units", "value", "ci95_low", "ci95_high"],
-            r.Conditions.Select(m => new[] { m.Condition, m.Measure, UnitOf(m.Measure, r), I(m.Movies), I(m.Units), Csv(m.Value.Value), Csv(m.Value.Low), Csv(m.Value.High) }));
+        WriteCsv(Path.Combine(dir, ComparisonCsv), ["condition", "measure", "unit", "movies", "units", "value", "ci95_low", "ci95_high", "n", "status", "reason"],
+            r.Conditions.Select(m => new[] { m.Condition, m.Measure, UnitOf(m.Measure, r), I(m.Movies), I(m.Units),
+                m.Value.IsOk ? Csv(m.Value.Value) : "", m.Value.IsOk ? Csv(m.Value.Low) : "", m.Value.IsOk ? Csv(m.Value.High) : "",
+                I(m.Value.N), Summary.StatusName(m.Value.Status), m.Value.IsOk ? "" : m.Value.Reason ?? "" }));
         WriteCsv(Path.Combine(dir, DifferencesCsv), ["measure", "condition_a", "condition_b", "difference", "ci95_low", "ci95_high", "ratio", "ratio_ci95_low", "ratio_ci95_high", "p_value", "movies_a", "movies_b", "status", "movie_effect", "movie_effect_ci95_low", "movie_effect_ci95_high", "scale", "p_holm", "primary"],
             r.Differences.Select(x => new[] { x.Measure, x.A, x.B, Csv(x.Difference.Value), Csv(x.Difference.Low), Csv(x.Difference.High), Csv(x.Ratio.Value), Csv(x.Ratio.Low), Csv(x.Ratio.High), Csv(x.PValue), I(x.MoviesA), I(x.MoviesB),
-                x.Status == EstimateStatus.Ok ? "ok" : "too_few", x.Effect.IsOk ? Csv(x.Effect.Value) : "", x.Effect.IsOk ? Csv(x.Effect.Low) : "", x.Effect.IsOk ? Csv(x.Effect.High) : "",
+                Summary.StatusName(x.Status), x.Effect.IsOk ? Csv(x.Effect.Value) : "", x.Effect.IsOk ? Csv(x.Effect.Low) : "", x.Effect.IsOk ? Csv(x.Effect.High) : "",
                 x.LogScale ? "ratio" : "difference", Csv(x.HolmPValue), x.IsPrimary ? "true" : "false" }));
         // Each plot is disposed once its PNG bytes are taken (Plot is IDisposable in ScottPlot 5; the bytes are a copy).
         using var superAnisotropy = SuperPlot(r, Measures.Anisotropy.Name);
@@ -114,12 +116,13 @@ public static class ComparisonReport
         var sb = new StringBuilder("# Comparison of conditions\n\n");
         var conditions = r.Conditions.Select(x => x.Condition).Distinct().ToList();
         sb.Append(Ci, $"Movies: {string.Join(", ", conditions.Select(c => $"{c} {r.Conditions.First(x => x.Condition == c).Movies}"))}. ");
-        sb.Append(Ci, $"Movies, not cells, are the replicates: each movie gives one value per measure (ln of its pooled variance ratio, ln tau_q, or its mean speed) and conditions are compared by Student's two-sample t test on those values, with at least {ConditionComparison.MinMovies} movies per condition. The primary measure is **{ConditionComparison.Primary}** (p unadjusted); the other measures carry Holm-adjusted p-values (Holm 1979).\n\n");
+        sb.Append(Ci, $"Movies, not cells, are the replicates: each movie gives one value per measure (ln of its pooled variance ratio, ln tau_q, or its time-weighted mean defect speed) and conditions are compared by Student's two-sample t test on those values, with at least {ConditionComparison.MinMovies} movies per condition. The primary measure is **{ConditionComparison.Primary}** (p unadjusted); the other measures carry Holm-adjusted p-values (Holm 1979).\n\n");
         foreach (var x in r.Differences)
         {
             var a = r.Conditions.First(c => c.Condition == x.A && c.Measure == x.Measure); var b = r.Conditions.First(c => c.Condition == x.B && c.Measure == x.Measure);
             string unit = Measures.Get(x.Measure).Kind == UnitKind.Ratio ? "" : $" {UnitOf(x.Measure, r)}";
-            sb.Append(Ci, $"- **{x.Measure}**{(x.IsPrimary ? " (primary)" : "")}: {x.A} {F(a.Value.Value)}{unit} vs {x.B} {F(b.Value.Value)}{unit}. ");
+            if (x.Status == EstimateStatus.NotApplicable) { sb.Append(Ci, $"- **{x.Measure}**: not applicable: {x.Effect.Reason}; not compared.\n"); continue; }
+            sb.Append(Ci, $"- **{x.Measure}**{(x.IsPrimary ? " (primary)" : "")}: {x.A} {Described(a.Value, unit)} vs {x.B} {Described(b.Value, unit)}. ");
             sb.Append(Sentence(x, unit)).Append('\n');
         }
         sb.Append("\n## Anisotropy and defect motion\n\n");
@@ -128,9 +131,15 @@ public static class ComparisonReport
         return sb.ToString();
     }
 
+    /// <summary>A condition's value as comparison.md shows it: the number when it has one (its interval is descriptive,
+    /// in comparison.csv), else the status phrase ("not applicable: …").</summary>
+    static string Described(Estimate e, string unit)
+        => e.IsOk || (e.Status == EstimateStatus.TooFew && double.IsFinite(e.Value)) ? $"{F(e.Value)}{unit}" : $"({EstimateText.Phrase(e, unit.Trim())})";
+
     /// <summary>The plain-language sentence for one difference, generated from its status and movie-level interval only: a direction ("more"/"less") only when the interval excludes no effect (1 for ratios, 0 for differences).</summary>
     public static string Sentence(MeasureDifference x, string unit = "")
     {
+        if (x.Status == EstimateStatus.NotApplicable) return $"{x.A} vs {x.B}: not applicable: {x.Effect.Reason}; not compared.";
         if (x.Status != EstimateStatus.Ok) return $"{x.A} vs {x.B}: {x.Effect.Reason ?? "no movie-level test"}; described only, no p-value and no interval on the difference.";
         var e = x.Effect;
         string p = x.IsPrimary || !double.IsFinite(x.HolmPValue) ? $"p = {F(x.PValue)}" : $"p = {F(x.PValue)}, Holm-adjusted p = {F(x.HolmPValue)}";

@@ -139,6 +139,15 @@ public static class ConditionComparison
         return den > 0 ? num / den : double.NaN;
     }
 
+    /// <summary>For the defect measures: why they do not apply to this condition — every movie's defect stage was not
+    /// applicable (the first movie's reason, e.g. "cells cover 14 % of the field") — or null.</summary>
+    public static string? NotApplicable(string measure, IReadOnlyList<MovieData> movies)
+    {
+        if (measure is not ("defect_headward_speed" or "flow_headward_speed") || movies.Count == 0) return null;
+        foreach (var m in movies) if (m.DefectsNotApplicable is null) return null;
+        return $"defects not analysed in these movies: {movies[0].DefectsNotApplicable}";
+    }
+
     private static int UnitCount(string measure, MovieData m) => measure switch
     {
         "anisotropy" or "anisotropy_contour" => m.Tracks.Length,
@@ -185,7 +194,9 @@ public static class ConditionComparison
             {
                 double value = Statistic(k, list, ones, null);
                 var perMovie = list.Select(m => Statistic(k, [m], [1], null)).ToArray();
-                measures.Add(new ConditionMeasure(c, k, list.Count, list.Sum(m => UnitCount(k, m)), Bootstrap.Interval(value, boot[c][k], list.Count, "movies"), perMovie,
+                var estimate = NotApplicable(k, list) is { } why ? Estimate.NotApplicableBecause(why, list.Count, "movies")
+                    : Bootstrap.Interval(value, boot[c][k], list.Count, "movies");
+                measures.Add(new ConditionMeasure(c, k, list.Count, list.Sum(m => UnitCount(k, m)), estimate, perMovie,
                     list.Select(m => m.Replicate).ToArray()));
             }
         }
@@ -211,6 +222,12 @@ public static class ConditionComparison
                     // The bootstrap intervals are descriptive; below MinMovies there is no interval on a difference at all.
                     Estimate Boot(double v, IEnumerable<double> r) => nm < MinMovies ? new Estimate(v, double.NaN, double.NaN) { N = nm, UnitName = "movies", Status = EstimateStatus.TooFew, Reason = few }
                         : Bootstrap.Interval(v, r, nm, "movies");
+                    if ((NotApplicable(k, byCondition[a]) ?? NotApplicable(k, byCondition[b])) is { } why)
+                    {
+                        var na = Estimate.NotApplicableBecause(why, nm, "movies");
+                        diffs.Add(new MeasureDifference(k, a, b, na, na, double.NaN, ma.Movies, mb.Movies) { Effect = na, LogScale = log });
+                        continue;
+                    }
                     diffs.Add(new MeasureDifference(k, a, b, Boot(ma.Value.Value - mb.Value.Value, d), Boot(ma.Value.Value / mb.Value.Value, q),
                         test?.PValue ?? double.NaN, ma.Movies, mb.Movies) { Effect = effect, LogScale = log });
                 }
@@ -230,6 +247,7 @@ public static class ConditionComparison
         string pair = $"{anis.A} vs {anis.B}";
         if (anis.MoviesA < MinMovies || anis.MoviesB < MinMovies)
             return $"{pair}: not enough movies (n = {anis.MoviesA} and {anis.MoviesB}; at least {MinMovies} per condition), so the orders are not compared.";
+        if (head.Effect.Status == EstimateStatus.NotApplicable) return $"{pair}: headward speed is not applicable ({head.Effect.Reason}); the orders are not compared.";
         if (!head.Effect.IsOk) return $"{pair}: headward speed has no movie-level test in at least one condition (no +1/2 defect followed long enough in enough movies), so the orders cannot be compared.";
         if (!anis.Effect.IsOk) return $"{pair}: anisotropy has no movie-level interval, so the orders cannot be compared.";
         bool anisClear = anis.Effect.Excludes(1), headClear = head.Effect.Excludes(0);

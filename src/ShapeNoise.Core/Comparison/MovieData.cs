@@ -16,6 +16,9 @@ public sealed record MovieData(string Condition, string Replicate, string Folder
     public int[]? DefectHeadwardFrames { get; init; }
     /// <summary>Per +1/2 defect track, its frames with a core flow; null = every track weight 1.</summary>
     public int[]? FlowHeadwardFrames { get; init; }
+    /// <summary>Why the movie's defect stage did not apply (summary.json defects_reason), or null when it did; such a
+    /// movie contributes no defect speeds (docs/defects.md#where-defects-apply).</summary>
+    public string? DefectsNotApplicable { get; init; }
 }
 
 /// <summary>One row of conditions.csv: condition, replicate, path (an analysis folder or a movie to analyse); Line is its line number in the file.</summary>
