@@ -35,8 +35,13 @@ public static class HtmlReport
             $"Elongation stays correlated for τ_q: {Timed(u.Time(d.TauQFrames), u)}; orientation for τ_θ: {Timed(u.Time(d.TauThetaFrames), u)}.",
         };
         var hs = u.Speed(df.HeadwardSpeed);
-        h.Add(EstimateText.Direction(hs, u.SpeedLabel, "move toward their head (extensile-like)", "move toward their tail (contractile-like)",
-            $"+1/2 defects ({(hs.Status == EstimateStatus.NotApplicable ? "not analysed" : $"{Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed")})") + ".");
+        // With 2-4 defect tracks the interval is over time blocks of these few defects (docs/defects.md#headward-speed): say so.
+        bool few = hs.UnitName == "time blocks";
+        string subject = hs.Status == EstimateStatus.NotApplicable ? "+1/2 defects (not analysed)"
+            : few ? $"The {df.PlusTracksUsed} +1/2 defects followed ({Round(df.PlusPerFrame)} per frame)"
+            : $"+1/2 defects ({Round(df.PlusPerFrame)} per frame, {df.PlusTracksUsed} followed)";
+        h.Add(EstimateText.Direction(hs, u.SpeedLabel, "move toward their head (extensile-like)", "move toward their tail (contractile-like)", subject)
+              + (few && hs.IsOk ? $"; blocks in time along {df.PlusTracksUsed} defect tracks, so this describes these defects, not the tissue's" : "") + ".");
         h.Add(EstimateText.Hypothesis(r.Hypothesis, df.NotApplicableReason));
         return h;
     }

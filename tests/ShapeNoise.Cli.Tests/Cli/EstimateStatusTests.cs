@@ -70,6 +70,27 @@ public class EstimateStatusTests
         Assert.Contains(csv, l => l.StartsWith("defect_headward_speed,,,,", StringComparison.Ordinal) && l.Contains(",too_few,"));
     }
 
+    /// <summary>A small many-defect tissue (3 pairs): fewer than 5 +1/2 defect tracks long enough for the shape-noise test
+    /// (docs/statistics.md#minimum-units), so the test is too_few with no rho and no p anywhere; the headward speed of these
+    /// 2-4 tracks takes its interval from time blocks and the sentence says it describes these defects only.</summary>
+    [Fact]
+    public void Analyze_FewDefectTracks_HypothesisTooFewAndSpeedFromTimeBlocks()
+    {
+        using var d = new TempDir();
+        var (summary, console, html, _) = Run(d, ["synth", "monolayer", "--pairs", "3", "--cells", "200", "--frames", "20", "--seed", "5"], "--bootstrap", "100");
+        AssertNoNumberUnlessOk(summary);
+        var hyp = summary["hypothesis"]!;
+        Assert.Equal("too_few", hyp["status"]!.GetValue<string>());
+        Assert.InRange(hyp["n_defect_tracks"]!.GetValue<int>(), 0, 4);
+        Assert.Null(hyp["spearman_rho"]); Assert.Null(hyp["p_value"]); Assert.Null(hyp["random_position_p_value"]);
+        Assert.Contains("Shape-noise test (local anisotropy vs headward speed of +1/2 defects): not enough data", console);
+        Assert.Contains("Shape-noise test (local anisotropy vs headward speed of +1/2 defects): not enough data", HeadlineText(html));
+        Assert.DoesNotContain("as the shape-noise hypothesis predicts", console);
+        var head = summary["defect_headward_speed"]!;
+        Assert.Equal("time blocks", head["unit"]!.GetValue<string>());
+        if (head["status"]!.GetValue<string>() == "ok") Assert.Contains("describes these defects, not the tissue's", console);
+    }
+
     [Fact]
     public void Analyze_IsolatedCells_DefectsNotApplicableAndNoDirectionClaimed()
     {

@@ -29,7 +29,7 @@ public class ComparisonCsvTests
 
         // Read back with a third-party CSV reader (CsvHelper, RFC 4180 quoting) by the header names.
         var (header, rows) = AnalysisFolderTests.ReadCsv(d["cmp/comparison.csv"]);
-        Assert.Equal(["condition", "measure", "unit", "movies", "units", "value", "ci95_low", "ci95_high"], header);
+        Assert.Equal(["condition", "measure", "unit", "movies", "units", "value", "ci95_low", "ci95_high", "n", "status", "reason"], header);
         Assert.All(rows, row => Assert.Equal(header.Length, row.Length));
         Assert.Equal(new[] { "mutant", odd }, rows.Select(x => x[0]).Distinct().Order(StringComparer.Ordinal));
         // The unit column comes from the measure table: ratio, the time unit, length/time.
