@@ -76,20 +76,33 @@ public static class DynamicsAnalysis
         plan ??= ResamplingPlan.OverTracks(inp.Tracks, options.BootstrapResamples, options.Seed);
         if (plan.Items != inp.Tracks) throw new ArgumentException($"{nameof(plan)} covers {plan.Items} tracks, {inp.Tracks} are used");
         var boot = Resample(inp, plan);
+        // Spatial blocks: widen the fitted intervals by the block-edge factor from the delete-one-block jackknife
+        // (docs/statistics.md#block-edges), K extra fits instead of one per track.
+        var jack = plan.EdgeCorrected ? Resample(inp, plan with { Draws = plan.LeaveOneUnitOut() }) : null;
+        var neighbours = jack is null ? [] : plan.NeighbourUnits();
+        Estimate Edge(Estimate e, Func<Resamples, int, double> of)
+        {
+            if (jack is null) return e;
+            var v = new double[jack.B];
+            for (int b = 0; b < jack.B; b++) v[b] = of(jack, b);
+            return Bootstrap.Widened(e, Bootstrap.BlockEdgeInflation(v, neighbours));
+        }
         int K = inp.K;
         var coords = new List<OuCoordinate>();
         for (int s = 1; s < Names.Length; s++)
         {
             var f = point.Fits[s];
-            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Tau(f.TauFrames, boot.Tau, s, plan, inp), Est(f.SignalVariance, boot.Var, s, plan),
-                Est(f.SignalVariance / f.TauFrames, boot.D, s, plan), f.NoiseVariance, f.UncorrectedTauFrames));
+            int row = s;
+            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Edge(Tau(f.TauFrames, boot.Tau, s, plan, inp), (r, b) => r.Tau[row, b]),
+                Edge(Est(f.SignalVariance, boot.Var, s, plan), (r, b) => r.Var[row, b]),
+                Edge(Est(f.SignalVariance / f.TauFrames, boot.D, s, plan), (r, b) => r.D[row, b]), f.NoiseVariance, f.UncorrectedTauFrames));
         }
         var series = Curves(inp, point, boot);
-        var theta = Estimate.Fitted(point.ThetaFit.TauFrames, boot.Theta, plan.Units, plan.UnitName, OrientationCorrelation.MinTauFrames, inp.MaxTau);
-        var tauInt = Bootstrap.Interval(point.Sokal.TauInt, boot.TauInt, plan.Units, plan.UnitName);
+        var theta = Edge(Estimate.Fitted(point.ThetaFit.TauFrames, boot.Theta, plan.Units, plan.UnitName, OrientationCorrelation.MinTauFrames, inp.MaxTau), (r, b) => r.Theta[b]);
+        var tauInt = Edge(Bootstrap.Interval(point.Sokal.TauInt, boot.TauInt, plan.Units, plan.UnitName), (r, b) => r.TauInt[b]);
         var q = point.Fits[0];
-        return new DynamicsResult(K, inp.FitLags, series, Tau(q.TauFrames, boot.Tau, 0, plan, inp), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
-            theta, PlateauEstimate(point.ThetaFit.Plateau, boot.Plateau, plan), q.SignalVariance, coords, inp.Tracks,
+        return new DynamicsResult(K, inp.FitLags, series, Edge(Tau(q.TauFrames, boot.Tau, 0, plan, inp), (r, b) => r.Tau[0, b]), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
+            theta, Edge(PlateauEstimate(point.ThetaFit.Plateau, boot.Plateau, plan), (r, b) => r.Plateau[b]), q.SignalVariance, coords, inp.Tracks,
             DynamicsResult.ModelName(point.ThetaFit.Model), NearlyRound(tracks, q.NoiseVariance));
     }
 

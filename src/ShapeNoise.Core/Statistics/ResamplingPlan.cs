@@ -19,6 +19,36 @@ public sealed record ResamplingPlan(string UnitName, int Units, int[] UnitOfItem
     public double[]? ItemX { get; init; }
     /// <summary>See <see cref="ItemX"/>.</summary>
     public double[]? ItemY { get; init; }
+    /// <summary>Whether intervals from this plan get the block-edge correction (positions and a radius are set).</summary>
+    public bool EdgeCorrected => ItemX is not null && ItemY is not null && EdgeRadiusPx > 0;
+
+    /// <summary>The delete-one-unit jackknife as draws: draw k gives every item multiplicity 1 except those of unit k (0).</summary>
+    public int[][] LeaveOneUnitOut()
+    {
+        var d = new int[Units][];
+        for (int k = 0; k < Units; k++)
+        {
+            d[k] = new int[Items];
+            for (int i = 0; i < Items; i++) d[k][i] = UnitOfItem[i] == k ? 0 : 1;
+        }
+        return d;
+    }
+
+    /// <summary>Pairs of different units whose mean item positions are within 1.5 block sides (the 8 neighbours of a square grid).</summary>
+    public List<(int A, int B)> NeighbourUnits()
+    {
+        var pairs = new List<(int, int)>();
+        if (ItemX is null || ItemY is null || !(BlockSizePx > 0)) return pairs;
+        var cx = new double[Units]; var cy = new double[Units]; var n = new int[Units];
+        for (int i = 0; i < Items; i++) { cx[UnitOfItem[i]] += ItemX[i]; cy[UnitOfItem[i]] += ItemY[i]; n[UnitOfItem[i]]++; }
+        for (int k = 0; k < Units; k++) if (n[k] > 0) { cx[k] /= n[k]; cy[k] /= n[k]; }
+        double r2 = 2.25 * BlockSizePx * BlockSizePx;
+        for (int a = 0; a < Units; a++)
+            for (int b = a + 1; b < Units; b++)
+                if ((cx[a] - cx[b]) * (cx[a] - cx[b]) + (cy[a] - cy[b]) * (cy[a] - cy[b]) <= r2) pairs.Add((a, b));
+        return pairs;
+    }
+
     /// <summary>Distance (px) within which items of different blocks still covary (docs/statistics.md#block-edges); 0 = no correction.</summary>
     public double EdgeRadiusPx { get; init; }
 
