@@ -91,6 +91,8 @@ public static class Summary
             ["floor_per_mode"] = Num(p.FloorPerMode * s2),
             ["floor_source"] = r.FloorReference is null ? "high modes" : "--floor-from",
             ["mean_cell_radius"] = Num(r.MeanCellRadiusPx * s),
+            ["coverage"] = Num(r.Coverage),           // docs/defects.md#where-defects-apply: gaps <= 3 px closed
+            ["coverage_raw"] = Num(r.CoverageRaw),    // labelled pixels only
             ["resampling_unit"] = r.ResamplingUnit,   // docs/statistics.md#within-movie-intervals
             ["block_size"] = Num(r.BlockSizePx * s),
             ["shape_correlation_length"] = Num(r.ShapeCorrelationLengthPx * s),

@@ -17,7 +17,15 @@ public static class MovieAnalyzer
     public readonly record struct Progress(int FramesDone, int FramesTotal, string Stage = "frames");
 
     /// <summary>One frame's outlines and their links to the previous frame's (null for the first frame).</summary>
-    public sealed record FrameOutlines(int Index, Outline[] Outlines, FrameLinks? Links, int Divisions, int Merges);
+    /// <param name="Index">Frame index.</param>
+    /// <param name="Outlines">The frame's outlines.</param>
+    /// <param name="Links">Links to the previous frame's outlines (null for the first frame).</param>
+    /// <param name="Divisions">Divisions seen in the links.</param>
+    /// <param name="Merges">Merges seen in the links.</param>
+    /// <param name="LabelledPx">Labelled pixels of the frame (label movies); -1 when there is no mask (outline tables).</param>
+    /// <param name="CoveredPx">Pixels covered once gaps of at most <see cref="Coverage.MaxGapPx"/> px between masks are
+    /// closed (<see cref="Coverage.CoveredPixels"/>); -1 when there is no mask.</param>
+    public sealed record FrameOutlines(int Index, Outline[] Outlines, FrameLinks? Links, int Divisions, int Merges, int LabelledPx = -1, int CoveredPx = -1);
 
     /// <summary>Runs outlines, shape, tracking and fluctuations over <paramref name="movie"/>, one frame at a time.</summary>
     public static AnalysisResult Run(ILabelMovie movie, AnalysisOptions options, IProgress<Progress>? progress = null,
@@ -40,6 +48,8 @@ public static class MovieAnalyzer
             if (frame.Width != info.Width || frame.Height != info.Height)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
             var scan = times.Time("scan", () => LabelScan.Of(frame));
+            // Coverage with thin gaps between masks closed (docs/defects.md#where-defects-apply).
+            int coveredPx = times.Time("scan", () => Coverage.CoveredPixels(scan.DenseImage, scan.Width, scan.Height));
             if (scan.Boxes.Length == 0)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
             var outlines = new Outline[scan.Boxes.Length];
@@ -50,7 +60,7 @@ public static class MovieAnalyzer
             FrameLinks? links = prev is null ? null
                 : times.Time("tracking", () => OverlapLinking.Link(prev.DenseImage, PixelCounts(prev), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction));
             prevScan = scan;
-            yield return new FrameOutlines(frame.Index, outlines, links, links?.Divisions ?? 0, links?.Merges ?? 0);
+            yield return new FrameOutlines(frame.Index, outlines, links, links?.Divisions ?? 0, links?.Merges ?? 0, PixelCounts(scan).Sum(), coveredPx);
         }
     }
 
@@ -82,9 +92,12 @@ public static class MovieAnalyzer
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
 
         progress?.Report(new Progress(0, 3, "fluctuation statistics"));
-        // Field coverage: every labelled pixel (analysed cells and the ones excluded at the border or as too small) over
-        // the field, per frame (docs/defects.md#where-defects-apply).
-        double coverage = tally.Frames > 0 && info.Width > 0 ? tally.LabelledAreaSumPx2 / ((double)info.Width * info.Height) / tally.Frames : double.NaN;
+        // Field coverage, per frame: covered pixels (labelled ones and the background in gaps of at most Coverage.MaxGapPx
+        // between masks) over the field; raw: labelled pixels only (analysed cells and the ones excluded at the border or
+        // as too small). Outline tables have no mask: both are the outline areas (docs/defects.md#where-defects-apply).
+        double fieldPx2 = (double)info.Width * info.Height * tally.Frames;
+        double coverage = fieldPx2 > 0 ? tally.CoveredAreaSumPx2 / fieldPx2 : double.NaN;
+        double coverageRaw = fieldPx2 > 0 ? tally.LabelledAreaSumPx2 / fieldPx2 : double.NaN;
         // Confluent tissue: spatial block bootstrap; isolated cells: over tracks (docs/statistics.md#within-movie-intervals).
         var spatial = times.Time("fluctuations", () => SpatialBlocks.For(tracks, coverage, options.BootstrapResamples, options.Seed));
         var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
@@ -115,6 +128,7 @@ public static class MovieAnalyzer
         progress?.Report(new Progress(3, 3, "done"));
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
         {
+            Coverage = coverage, CoverageRaw = coverageRaw,
             ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
         };
     }
@@ -147,22 +161,27 @@ public static class MovieAnalyzer
         public List<CellRecord> Cells { get; } = [];
         public double AreaSumPx2 { get; private set; }
         public double LabelledAreaSumPx2 { get; private set; }
+        public double CoveredAreaSumPx2 { get; private set; }
 
         public void Add(FrameOutlines fo, OutlineShape?[] shapes, Placement[] placed)
         {
             _objects += fo.Outlines.Length;
+            double outlineAreaPx2 = 0;
             for (int i = 0; i < fo.Outlines.Length; i++)
             {
                 var o = fo.Outlines[i];
-                if (o.Status == OutlineStatus.Border) { _border++; LabelledAreaSumPx2 += o.ComponentPixels; continue; }
-                if (o.Status == OutlineStatus.Small) { _small++; LabelledAreaSumPx2 += o.ComponentPixels; continue; }
+                if (o.Status == OutlineStatus.Border) { _border++; outlineAreaPx2 += o.ComponentPixels; continue; }
+                if (o.Status == OutlineStatus.Small) { _small++; outlineAreaPx2 += o.ComponentPixels; continue; }
                 var sh = shapes[i]!; var p = placed[i];
                 if (!sh.StarShaped) _nonStar++;
                 Cells.Add(new CellRecord(fo.Index, o.Label, p.TrackId, sh.Shape, p.ThetaContinuousRad, sh.StarShaped,
                     p.Modes![0].Real, 2 * p.Modes[2].Magnitude, o.Vertices.Length));
                 AreaSumPx2 += sh.Shape.AreaPx2;
-                LabelledAreaSumPx2 += sh.Shape.AreaPx2;
+                outlineAreaPx2 += sh.Shape.AreaPx2;
             }
+            // Label movies: pixel counts of the mask; outline tables: the outline areas, with no gap closing.
+            LabelledAreaSumPx2 += fo.LabelledPx >= 0 ? fo.LabelledPx : outlineAreaPx2;
+            CoveredAreaSumPx2 += fo.CoveredPx >= 0 ? fo.CoveredPx : outlineAreaPx2;
             if (fo.Links is not null) { _divisions += fo.Divisions; _merges += fo.Merges; }
             Frames++;
         }

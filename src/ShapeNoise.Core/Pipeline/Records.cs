@@ -33,6 +33,11 @@ public sealed record AnalysisResult(Reading.MovieInfo Movie, AnalysisOptions Opt
     NoiseFloorReference? FloorReference, IReadOnlyList<string> Warnings, Dynamics.DynamicsResult Dynamics,
     Nematic.DefectResult Defects, Nematic.HypothesisResult Hypothesis)
 {
+    /// <summary>Mean fraction of the field covered per frame, gaps of at most <see cref="Outlines.Coverage.MaxGapPx"/> px
+    /// between masks closed; it gates the spatial block bootstrap and the defect stage (docs/defects.md#where-defects-apply).</summary>
+    public double Coverage { get; init; } = double.NaN;
+    /// <summary>Mean fraction of the field in labelled pixels per frame, no gap closing (docs/defects.md#where-defects-apply).</summary>
+    public double CoverageRaw { get; init; } = double.NaN;
     /// <summary>Unit of the within-movie bootstrap: "tracks" or "spatial blocks" (docs/statistics.md#within-movie-intervals).</summary>
     public string ResamplingUnit { get; init; } = "tracks";
     /// <summary>Side of the spatial blocks (px); NaN for the track bootstrap.</summary>
