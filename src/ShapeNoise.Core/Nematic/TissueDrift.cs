@@ -78,7 +78,8 @@ public static class RobustSlope
     /// <summary>
     /// Theil-Sen slope b = median over pairs i &lt; j with t_i != t_j of (y_j - y_i) / (t_j - t_i), finite points only;
     /// NaN with fewer than two distinct t. One gross outlier among n points changes n - 1 of the n (n - 1) / 2 pairwise
-    /// slopes, so for n >= 4 the median stays within the range of the clean pairs' slopes (breakdown point about 29 %).
+    /// slopes, so for n >= 5 (clean pairs (n - 1)(n - 2) / 2 outnumber the n - 1 others) the median stays within the range
+    /// of the clean pairs' slopes (asymptotic breakdown point 1 - 1/sqrt 2, about 29 %).
     /// </summary>
     /// <remarks>Theil H. (1950), "A rank-invariant method of linear and polynomial regression analysis", Proc. Kon. Ned.
     /// Akad. Wetensch. 53:386-392; Sen P.K. (1968), "Estimates of the regression coefficient based on Kendall's tau",
