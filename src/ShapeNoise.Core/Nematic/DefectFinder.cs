@@ -89,8 +89,9 @@ public static class DefectFinder
     /// Sub-grid core of the cluster of plaquettes [i0, i1] x [j0, j1]: Q = (Qxx, Qxy) vanishes at a +-1/2 core and is
     /// smooth about it after coarse-graining, so each component is fitted by least squares as q(x, y) = a + b (x - x_c) +
     /// c (y - y_c) over the corner nodes of the clusters' bounding box, and the core is the zero of the fitted pair,
-    /// x = x_c - B^-1 (a_xx, a_xy) with B = [b_xx c_xx; b_xy c_xy]. Kept only when B is well conditioned and the zero lies
-    /// inside the bounding box (where the winding puts the core); otherwise the plaquette centre (x_c, y_c).
+    /// x = x_c - B^-1 (a_xx, a_xy) with B = [b_xx c_xx; b_xy c_xy], clamped into the bounding box (where the winding puts
+    /// the core). The plaquette centre (x_c, y_c) is kept when B is ill conditioned or the zero lies more than one grid
+    /// spacing outside the box.
     /// </summary>
     public static (double X, double Y) CoreZero(NematicGrid g, int i0, int j0, int i1, int j1, double xc, double yc)
     {
@@ -114,7 +115,9 @@ public static class DefectFinder
         if (!(Math.Abs(det) > 1e-3 * scale) || !(scale > 0)) return (xc, yc);
         double dx = -(cxy * pq.Value.A - cxx * pr.Value.A) / det, dy = -(-bxy * pq.Value.A + bxx * pr.Value.A) / det;
         double x = xc + dx, y = yc + dy;
-        return x >= i0 * h && x <= (i1 + 1) * h && y >= j0 * h && y <= (j1 + 1) * h ? (x, y) : (xc, yc);
+        double xa = i0 * h, xb = (i1 + 1) * h, ya = j0 * h, yb = (j1 + 1) * h;
+        if (x < xa - h || x > xb + h || y < ya - h || y > yb + h) return (xc, yc);
+        return (Math.Clamp(x, xa, xb), Math.Clamp(y, ya, yb));
     }
 
     /// <summary>Solves the symmetric 3 x 3 system m p = (u, v, w) by Cramer's rule; null when singular.</summary>
