@@ -67,6 +67,30 @@ public class DriftTests(ITestOutputHelper log)
         Assert.True(double.IsNaN(RobustSlope.TheilSen([1, 1], [0, 5])));   // no two distinct t
     }
 
+    /// <summary>Two +1/2 observations: defect velocities (3, 4) and (0, 1) (|v| 5 and 1), core flows (0, 3) and (0, 0)
+    /// (|v_flow| 3 and 0): rho = (3 + 0) / (5 + 1) = 0.5 by hand; a -1/2 observation and one without a velocity are left out.</summary>
+    [Fact]
+    public void CoreFlowRatio_TwoObservations_RatioOfMeanSpeeds()
+    {
+        DefectObservation O(double charge, double vx, double vy, double fx, double fy) => new(0, 1, D(0, 0, charge), vx, vy, double.NaN, fx, fy, double.NaN);
+        double rho = HeadwardStatistics.CoreFlowRatio([O(0.5, 3, 4, 0, 3), O(0.5, 0, 1, 0, 0), O(-0.5, 1, 0, 100, 0), O(0.5, double.NaN, 0, 100, 0)]);
+        Assert.Equal(0.5, rho, 12);
+    }
+
+    /// <summary>The warning rule (docs/defects.md#drift): a core-flow ratio above 0.5 warns, naming the local flow; 0.5 and
+    /// NaN (not checked) do not.</summary>
+    [Theory]
+    [InlineData(0.51, true)]
+    [InlineData(0.5, false)]
+    [InlineData(double.NaN, false)]
+    public void AnalysisWarnings_CoreFlowRatio_WarnsAboveHalf(double ratio, bool warns)
+    {
+        var x = new AnalysisWarnings.Inputs(new AnalysisCounts(Frames: 20, Objects: 400, Outlines: 380, ExcludedBorder: 20, ExcludedSmall: 0, NonStarShaped: 0,
+            Tracks: 25, TracksUsed: 20, TracksBelowFloor: 0, Divisions: 0, Merges: 0),
+            MinTrackFrames: 10, SokalWindowReached: true, MaxLag: 30, Coverage: 0.9, DefectTracks: 4, PlusTracksUsed: 4, HypothesisDefectTracks: 4) { CoreFlowRatio = ratio };
+        Assert.Equal(warns, AnalysisWarnings.Of(x).Any(w => w.Contains("carried by the local flow")));
+    }
+
     // ---------------------------------------------------------------- linking across breaks (hand-made trajectories)
 
     private static Defect D(double x, double y, double charge) => new(x, y, charge, charge == 0.5 ? 1 : double.NaN, 0, 0.5);
