@@ -33,6 +33,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--raw"), Description("INPUT is a raw junction/membrane-marker movie: segment it first (kept in segmentation/).")] public bool Raw { get; init; }
         [CommandOption("--cell-diameter <UM>"), Description("With --raw: expected cell diameter (um; px if the pixel size is unknown).")] public double CellDiameter { get; init; } = 10;
         [CommandOption("--velocity <SOURCE>"), Description("Cell velocities for the defect analysis: centroids (tracked) or flow (Farneback optical flow of the raw movie; needs --raw).")] public string Velocity { get; init; } = "centroids";
+        [CommandOption("--keep-drift"), Description("Keep stage drift (the tissue's median cell velocity per frame) in defect speeds and cell flows; by default it is removed (docs/defects.md#drift).")] public bool KeepDrift { get; init; }
         [CommandOption("--ids-are-tracks"), Description("Outline tables: the cell ids are stable track ids (else cells are linked by centroid).")] public bool IdsAreTracks { get; init; }
         [CommandOption("--max-displacement <PX>"), Description("Outline tables: largest centroid step between frames when linking by centroid (default: the mean cell radius).")] public double? MaxDisplacement { get; init; }
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
@@ -61,7 +62,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 "flow" when s.Raw => VelocitySource.Flow,
                 "flow" => throw new ArgumentException("--velocity flow needs --raw (optical flow runs on the raw movie)"),
                 _ => throw new ArgumentException($"--velocity must be centroids or flow (got '{s.Velocity}')"),
-            }, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, GridSpacing = s.Grid,
+            }, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, GridSpacing = s.Grid, KeepDrift = s.KeepDrift,
             SimFormat = s.SimFormat.ToLowerInvariant() switch
             {
                 "json" => ShapeNoise.Pipeline.SimFormat.Json,

@@ -81,6 +81,9 @@ public sealed class AnalysisColumns(UnitScale u)
     public string VHead => $"v_head_{u.SpeedSuffix}";
     /// <summary>v_side_um_per_min … v_side_px_per_frame.</summary>
     public string VSide => $"v_side_{u.SpeedSuffix}";
+    /// <summary>u_x and u_y of drift.csv in the run's speed unit (u_x_um_per_min …); null when that unit is px/frame
+    /// (u_x_px_per_frame, u_y_px_per_frame are always written).</summary>
+    public (string X, string Y)? DriftRun => u.SpeedSuffix == "px_per_frame" ? null : ($"u_x_{u.SpeedSuffix}", $"u_y_{u.SpeedSuffix}");
     /// <summary>x_um and y_um of defects.csv when the pixel size is known (x_px, y_px are always written); null otherwise.</summary>
     public (string X, string Y)? DefectUm => u.PixelSizeKnown ? ("x_um", "y_um") : null;
     /// <summary>tau_min or tau_frames (sim-params and summary.json "dynamics").</summary>
@@ -115,6 +118,8 @@ public static class AnalysisFolder
     public const string Defects = "defects.csv";
     /// <summary>estimates.csv: every estimate object of summary.json as one row with its n and status.</summary>
     public const string Estimates = "estimates.csv";
+    /// <summary>drift.csv: the tissue's velocity u(t) per frame (docs/defects.md#drift).</summary>
+    public const string Drift = "drift.csv";
     /// <summary>defect-flow.csv: mean flow and director around +1/2 defects.</summary>
     public const string DefectFlow = "defect-flow.csv";
     /// <summary>sim-params.json (--sim-format json).</summary>
@@ -129,7 +134,8 @@ public static class AnalysisFolder
     public const string Report = "report.html";
     /// <summary>Figure files.</summary>
     public const string SpectrumFigure = "spectrum.png", AnisotropyFigure = "anisotropy.png", ProfileFigure = "profile.png",
-        AutocorrelationFigure = "autocorrelation.png", HeadwardFigure = "headward.png", DefectFlowFigure = "defect-flow.png";
+        AutocorrelationFigure = "autocorrelation.png", HeadwardFigure = "headward.png", DefectFlowFigure = "defect-flow.png",
+        DriftFigure = "drift.png";
     /// <summary>The file name of the defect overlay drawn on frame <paramref name="frame"/> (defects-frame-NNN.png).</summary>
     public static string DefectFrameFigure(int frame) => $"defects-frame-{frame:D3}.png";
 

@@ -18,6 +18,7 @@ public static class Figures
         using var spectrum = Spectrum(r);
         using var headward = Headward(r);
         using var defectFlow = DefectFlow(r);
+        using var drift = Drift(r);
         var figures = new List<Figure>
         {
             new(AnalysisFolder.AnisotropyFigure, "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).", Png(anisotropy, W, H)),
@@ -35,6 +36,9 @@ public static class Figures
         }
         figures.Add(new(AnalysisFolder.HeadwardFigure, "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).", Png(headward, W, H)));
         figures.Add(new(AnalysisFolder.DefectFlowFigure, "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.", Png(defectFlow, 640, 640)));
+        figures.Add(new(AnalysisFolder.DriftFigure, r.Defects.DriftRemoved
+            ? "The tissue's velocity per frame (median cell velocity, x and y): stage drift, removed from every cell velocity and from the defects' motion before the defect statistics."
+            : "The tissue's velocity per frame (median cell velocity, x and y): stage drift, kept in the defect statistics (--keep-drift).", Png(drift, W, H)));
         return figures;
     }
 
@@ -82,6 +86,26 @@ public static class Figures
         plt.XLabel($"speed along e_head ({unit}; > 0 headward, extensile-like)");
         plt.YLabel("defect tracks");
         plt.ShowLegend(Alignment.UpperLeft);
+        return plt;
+    }
+
+    /// <summary>The tissue's velocity u(t) per frame (x and y components) with its mean |u| (docs/defects.md#drift).</summary>
+    public static Plot Drift(AnalysisResult r)
+    {
+        var plt = new Plot();
+        var u = UnitScale.Of(r.Units);
+        var d = r.Defects.Drift.Where(f => double.IsFinite(f.Ux) && double.IsFinite(f.Uy)).ToArray();
+        if (d.Length > 0)
+        {
+            double[] t = d.Select(f => u.Time(f.Frame)).ToArray();
+            var sx = plt.Add.Scatter(t, d.Select(f => u.Speed(f.Ux)).ToArray()); sx.LegendText = "u_x"; sx.MarkerSize = 4;
+            var sy = plt.Add.Scatter(t, d.Select(f => u.Speed(f.Uy)).ToArray()); sy.LegendText = "u_y"; sy.MarkerSize = 4;
+            plt.ShowLegend(Alignment.UpperRight);
+        }
+        var zero = plt.Add.HorizontalLine(0); zero.LinePattern = LinePattern.Dashed; zero.Color = Colors.Gray;
+        plt.Title($"Tissue drift (median cell velocity): mean |u| {u.Speed(r.Defects.DriftSpeedPx):G3} {u.SpeedLabel}, {(r.Defects.DriftRemoved ? "removed" : "kept (--keep-drift)")}");
+        plt.XLabel($"time ({u.TimeName})");
+        plt.YLabel($"u ({u.SpeedLabel})");
         return plt;
     }
 

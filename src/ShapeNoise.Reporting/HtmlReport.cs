@@ -43,6 +43,10 @@ public static class HtmlReport
         h.Add(EstimateText.Direction(hs, u.SpeedLabel, "move toward their head (extensile-like)", "move toward their tail (contractile-like)", subject)
               + (few && hs.IsOk ? $"; blocks in time along {df.PlusTracksUsed} defect tracks, so this describes these defects, not the tissue's" : "") + ".");
         h.Add(EstimateText.Hypothesis(r.Hypothesis, df.NotApplicableReason));
+        // Stage drift (docs/defects.md#drift): what was measured and whether the defect kinematics are relative to the tissue.
+        if (double.IsFinite(df.DriftSpeedPx))
+            h.Add($"The tissue drifts at {Round(u.Speed(df.DriftSpeedPx))} {u.SpeedLabel} on average (median cell velocity); "
+                  + (df.DriftRemoved ? "defect speeds and cell flows are relative to the tissue." : "the drift is kept in defect speeds and cell flows (--keep-drift)."));
         return h;
     }
 

@@ -110,6 +110,9 @@ public static class Summary
             ["defect_births"] = r.Defects.Births,
             ["defect_deaths"] = r.Defects.Deaths,
             ["nematic_alignment"] = Num(r.Defects.MeanAlignment),
+            // Stage drift: mean |u| over frames in the speed unit, and whether it was removed (docs/defects.md#drift).
+            ["drift_speed"] = Num(us.Speed(r.Defects.DriftSpeedPx)),
+            ["drift_removed"] = r.Defects.DriftRemoved,
             ["coarse_width"] = Num(r.Defects.CoarsePx * s),
             ["grid_spacing"] = Num(r.Defects.GridPx * s),
             ["hypothesis"] = new JsonObject

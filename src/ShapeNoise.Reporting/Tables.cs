@@ -71,6 +71,21 @@ internal sealed class DefectMap : ClassMap<DefectRow>
     }
 }
 
+/// <summary>drift.csv: the tissue's velocity u(t) in one frame, in the run's speed unit and in px/frame (null where undefined).</summary>
+public sealed record DriftRow(int Frame, double Time, double? Ux, double? Uy, double? UxPx, double? UyPx, int Cells);
+
+internal sealed class DriftMap : ClassMap<DriftRow>
+{
+    public DriftMap(AnalysisColumns c)
+    {
+        Map(r => r.Frame).Name("frame"); Map(r => r.Time).Name(c.Time);
+        if (c.DriftRun is { } run) { Map(r => r.Ux).Name(run.X); Map(r => r.Uy).Name(run.Y); }
+        else { Map(r => r.Ux).Ignore(); Map(r => r.Uy).Ignore(); }
+        Map(r => r.UxPx).Name("u_x_px_per_frame"); Map(r => r.UyPx).Name("u_y_px_per_frame");
+        Map(r => r.Cells).Name("cells");
+    }
+}
+
 /// <summary>defect-flow.csv: mean cell velocity and director around +1/2 defects in the defect's frame (head along +x).</summary>
 public sealed record FlowRow(double XCoarse, double YCoarse, double X, double Y, double? VHead, double? VSide, double? Qxx, double? Qxy, int Samples);
 
@@ -231,6 +246,15 @@ public static class Tables
             N(o.FlowVx * sv), N(o.FlowVy * sv), N(o.FlowHeadwardSpeed * sv), o.Defect.Order)).ToList();
     }
 
+    /// <summary>drift.csv rows, one per frame of the defect stage: the tissue's velocity u(t) (median cell velocity,
+    /// docs/defects.md#drift) in the speed unit and in px/frame, and the cells it is the median of.</summary>
+    public static List<DriftRow> Drift(AnalysisResult r)
+    {
+        var u = UnitScale.Of(r.Units);
+        double dt = u.TimeFactor, sv = u.SpeedFactor;
+        return r.Defects.Drift.Select(d => new DriftRow(d.Frame, d.Frame * dt, N(d.Ux * sv), N(d.Uy * sv), N(d.Ux), N(d.Uy), d.Cells)).ToList();
+    }
+
     /// <summary>defect-flow.csv rows: the mean flow (v_par along e_head, v_perp across; speed unit) and mean Qxx, Qxy on the grid about +1/2 defects, position in coarse widths and in the length unit; empty when no defect was sampled.</summary>
     public static List<FlowRow> DefectFlow(AnalysisResult r)
     {
@@ -284,7 +308,7 @@ public static class Tables
         csv.WriteRecords(rows);
     }
 
-    /// <summary>Writes cells, tracks, spectrum, profile, autocorrelation, defects and defect-flow tables into <paramref name="dir"/> in the run's units.</summary>
+    /// <summary>Writes cells, tracks, spectrum, profile, autocorrelation, defects, defect-flow and drift tables into <paramref name="dir"/> in the run's units.</summary>
     public static void WriteAll(AnalysisResult r, string dir)
     {
         var c = AnalysisFolder.Columns(UnitScale.Of(r.Units));
@@ -295,5 +319,6 @@ public static class Tables
         Write(Path.Combine(dir, AnalysisFolder.Autocorrelation), Correlations(r), new CorrelationMap(c));
         Write(Path.Combine(dir, AnalysisFolder.Defects), Defects(r), new DefectMap(c));
         Write(Path.Combine(dir, AnalysisFolder.DefectFlow), DefectFlow(r), new FlowMap(c));
+        Write(Path.Combine(dir, AnalysisFolder.Drift), Drift(r), new DriftMap(c));
     }
 }

@@ -8,6 +8,8 @@ public readonly record struct Defect(double X, double Y, double Charge, double H
 /// Charge = winding of the director around each grid plaquette: the sum of the four angle steps, each wrapped to
 /// (-pi/2, pi/2], divided by 2 pi (de Gennes P.G. and Prost J. (1993), The Physics of Liquid Crystals, 2nd ed., Oxford,
 /// ch. 4). Neighbouring plaquettes of the same sign merge into one defect at their mean centre. Polarity of a +1/2
+/// defect: the core is placed at sub-grid precision at the zero of Q (<see cref="CoreZero"/>), so a slowly moving core
+/// moves smoothly rather than in steps of the grid spacing (docs/defects.md#drift). Polarity of a +1/2
 /// defect: e_head = -div Q / |div Q| averaged over a disc about the core (Giomi L., Bowick M.J., Mishra P., Sknepnek R.
 /// and Marchetti M.C. (2014), "Defect dynamics in active nematics", Phil. Trans. R. Soc. A 372:20130365; Vromans A.J.
 /// and Giomi L. (2016), Soft Matter 12:6490). For theta = phi/2 about the origin, -div Q points along -x: toward the
@@ -67,6 +69,7 @@ public static class DefectFinder
                     }
             }
             double x = sx / count, y = sy / count;
+            (x, y) = CoreZero(g, i0, j0, i1, j1, x, y);
             if (x < borderPx || y < borderPx || x > widthPx - borderPx || y > heightPx - borderPx) continue;
             // The cluster's charge: winding along a loop one node outside its bounding box (many small steps, so any
             // multiple of 1/2 comes out exact, +-1 included).
@@ -81,6 +84,54 @@ public static class DefectFinder
     }
 
     private static double Sq(double v) => v * v;
+
+    /// <summary>
+    /// Sub-grid core of the cluster of plaquettes [i0, i1] x [j0, j1]: Q = (Qxx, Qxy) vanishes at a +-1/2 core and is
+    /// smooth about it after coarse-graining, so each component is fitted by least squares as q(x, y) = a + b (x - x_c) +
+    /// c (y - y_c) over the corner nodes of the clusters' bounding box, and the core is the zero of the fitted pair,
+    /// x = x_c - B^-1 (a_xx, a_xy) with B = [b_xx c_xx; b_xy c_xy], clamped into the bounding box (where the winding puts
+    /// the core). The plaquette centre (x_c, y_c) is kept when B is ill conditioned or the zero lies more than one grid
+    /// spacing outside the box.
+    /// </summary>
+    public static (double X, double Y) CoreZero(NematicGrid g, int i0, int j0, int i1, int j1, double xc, double yc)
+    {
+        int nx = g.Nx; double h = g.SpacingPx;
+        // Normal equations of the 3-parameter fit, shared by both components.
+        double n = 0, sX = 0, sY = 0, sXX = 0, sXY = 0, sYY = 0, qa = 0, qX = 0, qY = 0, ra = 0, rX = 0, rY = 0;
+        for (int j = j0; j <= j1 + 1; j++)
+            for (int i = i0; i <= i1 + 1; i++)
+            {
+                int k = j * nx + i;
+                if (i >= nx || j >= g.Ny || !(g.Weight[k] > 1e-9)) return (xc, yc);
+                double X = i * h - xc, Y = j * h - yc, q = g.Qxx[k], r = g.Qxy[k];
+                n++; sX += X; sY += Y; sXX += X * X; sXY += X * Y; sYY += Y * Y;
+                qa += q; qX += q * X; qY += q * Y; ra += r; rX += r * X; rY += r * Y;
+            }
+        var m = new[,] { { n, sX, sY }, { sX, sXX, sXY }, { sY, sXY, sYY } };
+        var pq = Solve3(m, qa, qX, qY); var pr = Solve3(m, ra, rX, rY);
+        if (pq is null || pr is null) return (xc, yc);
+        double bxx = pq.Value.B, cxx = pq.Value.C, bxy = pr.Value.B, cxy = pr.Value.C;
+        double det = bxx * cxy - cxx * bxy, scale = Math.Sqrt(bxx * bxx + cxx * cxx) * Math.Sqrt(bxy * bxy + cxy * cxy);
+        if (!(Math.Abs(det) > 1e-3 * scale) || !(scale > 0)) return (xc, yc);
+        double dx = -(cxy * pq.Value.A - cxx * pr.Value.A) / det, dy = -(-bxy * pq.Value.A + bxx * pr.Value.A) / det;
+        double x = xc + dx, y = yc + dy;
+        double xa = i0 * h, xb = (i1 + 1) * h, ya = j0 * h, yb = (j1 + 1) * h;
+        if (x < xa - h || x > xb + h || y < ya - h || y > yb + h) return (xc, yc);
+        return (Math.Clamp(x, xa, xb), Math.Clamp(y, ya, yb));
+    }
+
+    /// <summary>Solves the symmetric 3 x 3 system m p = (u, v, w) by Cramer's rule; null when singular.</summary>
+    private static (double A, double B, double C)? Solve3(double[,] m, double u, double v, double w)
+    {
+        static double Det(double a, double b, double c, double d, double e, double f, double g, double h, double i)
+            => a * (e * i - f * h) - b * (d * i - f * g) + c * (d * h - e * g);
+        double d0 = Det(m[0, 0], m[0, 1], m[0, 2], m[1, 0], m[1, 1], m[1, 2], m[2, 0], m[2, 1], m[2, 2]);
+        if (!(Math.Abs(d0) > 1e-12)) return null;
+        double a = Det(u, m[0, 1], m[0, 2], v, m[1, 1], m[1, 2], w, m[2, 1], m[2, 2]) / d0;
+        double b = Det(m[0, 0], u, m[0, 2], m[1, 0], v, m[1, 2], m[2, 0], w, m[2, 2]) / d0;
+        double c = Det(m[0, 0], m[0, 1], u, m[1, 0], m[1, 1], v, m[2, 0], m[2, 1], w) / d0;
+        return (a, b, c);
+    }
 
     /// <summary>Sum of wrapped director steps around the node rectangle [ia, ib] x [ja, jb], in the orientation
     /// +x, then +y, then -x, then -y (increasing polar angle in image coordinates); NaN if the loop leaves the grid.</summary>

@@ -34,14 +34,20 @@ public sealed record DefectOptions
     /// <param name="bootstrapResamples">Bootstrap resamples over defect tracks (0 = no intervals).</param>
     /// <param name="seed">Seed of every resample and permutation.</param>
     /// <param name="ensemble">Ensemble-flow grid; null = <see cref="EnsembleFlowGrid.Default"/>.</param>
-    public DefectOptions(LengthSpec coarseWidth, LengthSpec gridSpacing, int bootstrapResamples = 1000, int seed = 1, EnsembleFlowGrid? ensemble = null)
+    /// <param name="keepDrift">Keep the tissue's drift in the velocities and defect kinematics (--keep-drift; docs/defects.md#drift).</param>
+    public DefectOptions(LengthSpec coarseWidth, LengthSpec gridSpacing, int bootstrapResamples = 1000, int seed = 1, EnsembleFlowGrid? ensemble = null,
+        bool keepDrift = false)
     {
         if (!(coarseWidth.Value > 0 && double.IsFinite(coarseWidth.Value))) throw new ArgumentException($"{nameof(coarseWidth)} must be a positive length (got {coarseWidth.Value})");
         if (!(gridSpacing.Value > 0 && double.IsFinite(gridSpacing.Value))) throw new ArgumentException($"{nameof(gridSpacing)} must be a positive length (got {gridSpacing.Value})");
         if (bootstrapResamples < 0) throw new ArgumentException($"{nameof(bootstrapResamples)} must be >= 0 (got {bootstrapResamples})");
         CoarseWidth = coarseWidth; GridSpacing = gridSpacing; BootstrapResamples = bootstrapResamples; Seed = seed;
         Ensemble = (ensemble ?? EnsembleFlowGrid.Default).Validated();
+        KeepDrift = keepDrift;
     }
+
+    /// <summary>Keep the tissue's drift u(t) in the cell velocities and the defect kinematics (false = remove it, the default).</summary>
+    public bool KeepDrift { get; }
 
     /// <summary>Gaussian width of the coarse-graining.</summary>
     public LengthSpec CoarseWidth { get; }

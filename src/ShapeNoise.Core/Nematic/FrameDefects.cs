@@ -18,6 +18,10 @@ public sealed record FrameDefects(int Frame, List<Defect> Defects, (double Vx, d
     /// one axis, about 1 / sqrt(N_eff) for random axes (N_eff cells under the kernel). NaN without cells.</summary>
     public double Alignment { get; init; } = double.NaN;
 
+    /// <summary>The frame's tissue velocity u (<see cref="TissueDrift.Of"/>, before any removal); NaN until set by
+    /// <see cref="DefectAnalysis.FindPerFrame"/> (docs/defects.md#drift).</summary>
+    public TissueDriftFrame TissueVelocity { get; init; } = new(Frame, double.NaN, double.NaN, 0);
+
     /// <summary>
     /// Coarse-grains <paramref name="samples"/> (Gaussian width <paramref name="coarsePx"/>, grid <paramref name="gridPx"/>),
     /// finds the defects (none within one coarse width of the border; polarity over a disc of one coarse width), samples

@@ -10,15 +10,29 @@ namespace ShapeNoise.Nematic;
 public readonly record struct HeadwardSummary(Estimate Headward, Estimate FlowHeadward, double FractionHeadward, int TracksUsed);
 
 /// <summary>
-/// Per defect observation: its velocity by central differences along its track (v = (x(t+1) - x(t-1)) / 2, only with
-/// both neighbours present), and for +1/2 defects the headward speeds v . e_head and v_flow . e_head; per track their
-/// means; over +1/2 tracks the mean with a seeded bootstrap interval over tracks (docs/measures.md#nematic-field-and-defects).
+/// Per defect observation: its velocity relative to the tissue, the Theil-Sen slope (<see cref="RobustSlope.TheilSen"/>)
+/// of r(s) = x_core(s) - D(s) against s over the track's members with |s - t| &lt;= <see cref="SlopeHalfWindowFrames"/>
+/// (D the tissue's displacement, <see cref="TissueDrift.Displacement"/>; D = 0 with --keep-drift), only with at least
+/// <see cref="MinSlopePoints"/> members in the window; for +1/2 defects the headward speeds v . e_head and
+/// v_flow . e_head; per track their means; over +1/2 tracks the mean with a seeded bootstrap interval over tracks
+/// (docs/defects.md#drift, docs/measures.md#nematic-field-and-defects).
 /// </summary>
 public static class HeadwardStatistics
 {
+    /// <summary>Half width of the window of the defect velocity's line fit (frames on each side).</summary>
+    public const int SlopeHalfWindowFrames = 3;
+    /// <summary>Fewest track members in the window for a velocity (3: a defect followed for 3 frames has one).</summary>
+    public const int MinSlopePoints = 3;
+
     /// <summary>Observations (sorted by frame, then track id) and tracks of the linked defects.</summary>
-    public static (List<DefectObservation> Observations, List<DefectTrack> Tracks) Observe(IReadOnlyList<FrameDefects> frames, DefectLinks links)
+    /// <param name="frames">Every frame's defects.</param>
+    /// <param name="links">Their tracks.</param>
+    /// <param name="tissueShiftPx">The tissue's displacement D per entry of <paramref name="frames"/> (px); null = 0 (lab frame).</param>
+    public static (List<DefectObservation> Observations, List<DefectTrack> Tracks) Observe(IReadOnlyList<FrameDefects> frames, DefectLinks links,
+        IReadOnlyList<(double X, double Y)>? tissueShiftPx = null)
     {
+        if (tissueShiftPx is not null && tissueShiftPx.Count != frames.Count)
+            throw new ArgumentException($"{nameof(tissueShiftPx)} has {tissueShiftPx.Count} entries for {frames.Count} frames");
         var frameIndex = new Dictionary<int, int>();
         for (int f = 0; f < frames.Count; f++) frameIndex[frames[f].Frame] = f;
         Defect Get((int Frame, int Index) m) => frames[frameIndex[m.Frame]].Defects[m.Index];
@@ -27,15 +41,26 @@ public static class HeadwardStatistics
         for (int id = 0; id < links.Tracks.Count; id++)
         {
             var m = links.Tracks[id];
+            // Core positions relative to the tissue, r = x_core - D.
+            var t = new double[m.Count]; var rx = new double[m.Count]; var ry = new double[m.Count];
+            for (int i = 0; i < m.Count; i++)
+            {
+                var d = Get(m[i]);
+                var (sx, sy) = tissueShiftPx is null ? (0.0, 0.0) : tissueShiftPx[frameIndex[m[i].Frame]];
+                t[i] = m[i].Frame; rx[i] = d.X - sx; ry[i] = d.Y - sy;
+            }
             double sumH = 0, sumF = 0; int nH = 0, nF = 0;
             for (int i = 0; i < m.Count; i++)
             {
                 var d = Get(m[i]);
+                int lo = i, hi = i;
+                while (lo > 0 && m[i].Frame - m[lo - 1].Frame <= SlopeHalfWindowFrames) lo--;
+                while (hi < m.Count - 1 && m[hi + 1].Frame - m[i].Frame <= SlopeHalfWindowFrames) hi++;
                 double vx = double.NaN, vy = double.NaN;
-                if (i > 0 && i < m.Count - 1 && m[i + 1].Frame - m[i - 1].Frame == 2)
+                if (hi - lo + 1 >= MinSlopePoints)
                 {
-                    var a = Get(m[i - 1]); var b = Get(m[i + 1]);
-                    vx = (b.X - a.X) / 2; vy = (b.Y - a.Y) / 2;
+                    vx = RobustSlope.TheilSen(t.AsSpan(lo, hi - lo + 1), rx.AsSpan(lo, hi - lo + 1));
+                    vy = RobustSlope.TheilSen(t.AsSpan(lo, hi - lo + 1), ry.AsSpan(lo, hi - lo + 1));
                 }
                 var (fx, fy) = frames[frameIndex[m[i].Frame]].CoreFlow[m[i].Index];
                 double head = d.Charge == 0.5 ? vx * d.HeadX + vy * d.HeadY : double.NaN;
@@ -49,6 +74,21 @@ public static class HeadwardStatistics
         }
         observations.Sort((a, b) => a.Frame != b.Frame ? a.Frame.CompareTo(b.Frame) : a.TrackId.CompareTo(b.TrackId));
         return (observations, dtracks);
+    }
+
+    /// <summary>Ratio of the cell flow at the cores to the defects' own speed over the +1/2 observations with both
+    /// defined: rho = sum_o |v_flow,o| / sum_o |v_o| (the mean flow speed over the mean defect speed; a ratio of means, so
+    /// an observation of a momentarily still defect does not blow it up); NaN without such an observation or when the
+    /// defects do not move (docs/defects.md#drift).</summary>
+    public static double CoreFlowRatio(IReadOnlyList<DefectObservation> observations)
+    {
+        double f = 0, v = 0; int n = 0;
+        foreach (var o in observations)
+        {
+            if (o.Defect.Charge != 0.5 || !double.IsFinite(o.Vx) || !double.IsFinite(o.Vy) || !double.IsFinite(o.FlowVx) || !double.IsFinite(o.FlowVy)) continue;
+            f += Math.Sqrt(o.FlowVx * o.FlowVx + o.FlowVy * o.FlowVy); v += Math.Sqrt(o.Vx * o.Vx + o.Vy * o.Vy); n++;
+        }
+        return n > 0 && v > 0 ? f / v : double.NaN;
     }
 
     /// <summary>

@@ -62,6 +62,9 @@ public sealed record AnalysisOptions
     public string GridSpacing { get; init; } = "0.5R0";
     /// <summary>Cell velocities for the defect analysis: tracked centroids, or dense optical flow of the raw movie (--raw only).</summary>
     public VelocitySource Velocity { get; init; } = VelocitySource.Centroids;
+    /// <summary>Keep stage drift (the tissue's median velocity per frame) in the defect stage's velocities and defect
+    /// kinematics (--keep-drift); by default it is removed (docs/defects.md#drift).</summary>
+    public bool KeepDrift { get; init; }
     /// <summary>Outline tables: the table's cell ids are stable track ids (otherwise cells are linked by centroid).</summary>
     public bool IdsAreTracks { get; init; }
     /// <summary>Outline tables: largest centroid displacement (px) between frames for linking; null = the mean cell radius.</summary>
@@ -76,9 +79,9 @@ public sealed record AnalysisOptions
     /// <summary>The pooling stage's options (checked when built).</summary>
     [JsonIgnore] public PoolingOptions ForPooling => new(BootstrapResamples, Seed);
     /// <summary>The defect stage's options: --coarse and --grid parsed once (<see cref="Nematic.LengthSpec.Parse"/>), with
-    /// the bootstrap resamples and seed. A method, not a property, so run.json keeps the option strings only.</summary>
+    /// the bootstrap resamples, seed and --keep-drift. A method, not a property, so run.json keeps the option strings only.</summary>
     public Nematic.DefectOptions ToDefectOptions() =>
-        new(Nematic.LengthSpec.Parse(CoarseWidth, "--coarse"), Nematic.LengthSpec.Parse(GridSpacing, "--grid"), BootstrapResamples, Seed);
+        new(Nematic.LengthSpec.Parse(CoarseWidth, "--coarse"), Nematic.LengthSpec.Parse(GridSpacing, "--grid"), BootstrapResamples, Seed, keepDrift: KeepDrift);
     /// <summary>The dynamics stage's options (checked when built).</summary>
     [JsonIgnore] public DynamicsOptions ForDynamics => new(MaxLagFrames, BootstrapResamples, Seed);
 

@@ -14,14 +14,25 @@ public static class AnalysisWarnings
     /// <param name="PlusTracksUsed">+1/2 defect tracks followed for 3 or more frames.</param>
     /// <param name="HypothesisDefectTracks">+1/2 defect tracks with a local anisotropy in the hypothesis test.</param>
     public sealed record Inputs(AnalysisCounts Counts, int MinTrackFrames, bool SokalWindowReached, int MaxLag, double Coverage,
-        int DefectTracks, int PlusTracksUsed, int HypothesisDefectTracks);
+        int DefectTracks, int PlusTracksUsed, int HypothesisDefectTracks)
+    {
+        /// <summary>Cell flow at the +1/2 cores over the defects' own speed (Nematic.HeadwardStatistics.CoreFlowRatio); NaN = not checked.</summary>
+        public double CoreFlowRatio { get; init; } = double.NaN;
+        /// <summary>Whether the tissue's drift was removed before the ratio was taken (false with --keep-drift).</summary>
+        public bool DriftRemoved { get; init; } = true;
+    }
+
+    /// <summary>Cell flow at the cores, as a fraction of the defects' own speed, above which defect motion is flagged as
+    /// partly carried by the local flow (docs/defects.md#drift).</summary>
+    public const double MaxCoreFlowRatio = 0.5;
 
     /// <summary>Cell coverage below which the nematic field's confluence assumption is flagged.</summary>
     public const double MinCoverage = 0.7;
 
-    /// <summary>The warnings of eight rules: no used track; fewer than 10; over 10% non-star-shaped outlines; over 25% of
+    /// <summary>The warnings of nine rules: no used track; fewer than 10; over 10% non-star-shaped outlines; over 25% of
     /// used tracks below the noise floor; Sokal window not reached; coverage below 70%; no +1/2 defect followed for 3
-    /// frames; fewer than 3 defect tracks for the hypothesis test.</summary>
+    /// frames; fewer than 3 defect tracks for the hypothesis test; cell flow at the +1/2 cores above half the defects'
+    /// own speed (docs/defects.md#drift).</summary>
     public static List<string> Of(Inputs x)
     {
         var w = new List<string>();
@@ -40,6 +51,9 @@ public static class AnalysisWarnings
             w.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
         if (x.PlusTracksUsed > 0 && x.HypothesisDefectTracks < 3)
             w.Add($"only {x.HypothesisDefectTracks} +1/2 defect track(s) with a local anisotropy: the within-movie hypothesis test needs 3 or more; compare movies instead");
+        if (x.CoreFlowRatio > MaxCoreFlowRatio)
+            w.Add($"cells at the +1/2 cores move at {x.CoreFlowRatio:0.00} times the defects' own speed{(x.DriftRemoved ? " (stage drift removed)" : " (drift kept, --keep-drift)")}: " +
+                  "the defects are partly carried by the local flow, so their headward speed mixes their own motion with transport; compare it with the flow headward speed");
         return w;
     }
 }

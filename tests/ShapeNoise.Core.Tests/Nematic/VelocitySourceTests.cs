@@ -26,13 +26,15 @@ public class VelocitySourceTests
     /// One analysis with a non-default source: the source is bound once (one defect stage), the defects in the result
     /// come from it (the coarse-grained velocity at every core is the uniform (1, 0): a weighted mean of ones), and the
     /// defects themselves are those of the default run (defects depend on Q only, docs/measures.md#nematic-field-and-defects).
+    /// Drift is kept in both runs (a uniform velocity is all drift); with drift removal (third run) the tissue velocity of
+    /// every frame is the source's (1, 0) (the median of equal values) and the flow at every core is 0 (docs/defects.md#drift).
     /// </summary>
     [Fact]
     public void Run_WithSource_DefectStageBindsOnceAndUsesIt()
     {
         var m = MonolayerMovie.Generate(new MonolayerMovieOptions { Cells = 300, Frames = 12 });
         var frames = m.Frames().ToList();
-        var o = new AnalysisOptions { BootstrapResamples = 20 };
+        var o = new AnalysisOptions { BootstrapResamples = 20, KeepDrift = true };
         var source = new CountingSource();
         var r = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, frames), o, velocities: source);
         var plain = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, frames), o);
@@ -43,6 +45,12 @@ public class VelocitySourceTests
         Assert.Contains(r.Defects.Observations, ob => double.IsFinite(ob.FlowVx));
         Assert.Equal(plain.Defects.Observations.Select(x => x.Defect), r.Defects.Observations.Select(x => x.Defect));
         Assert.Equal(plain.Hypothesis.SpearmanRho, r.Hypothesis.SpearmanRho);
+
+        var removed = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, frames), o with { KeepDrift = false }, velocities: new CountingSource());
+        Assert.True(removed.Defects.DriftRemoved);
+        Assert.All(removed.Defects.Drift, f => { Assert.Equal(1.0, f.Ux); Assert.Equal(0.0, f.Uy); });
+        foreach (var ob in removed.Defects.Observations)
+            if (double.IsFinite(ob.FlowVx)) { Assert.Equal(0, ob.FlowVx, 9); Assert.Equal(0, ob.FlowVy, 9); }
     }
 
     /// <summary>Structural: the analyze job takes the source up front and has no step that re-runs stages on a finished
