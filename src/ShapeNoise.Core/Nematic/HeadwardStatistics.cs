@@ -141,6 +141,7 @@ public static class HeadwardStatistics
             foreach (var o in observations) if (o.TrackId == id && double.IsFinite(sample(o))) x.Add(sample(o));
             series.Add(x.ToArray());
         }
-        return MovingBlockBootstrap.Mean(series, resamples, seed) with { Reason = $"{k} +1/2 defect tracks: interval from blocks in time along the tracks" };
+        // Blocks at least as long as the slope window: speeds within one window share frames (docs/statistics.md#time-blocks).
+        return MovingBlockBootstrap.Mean(series, resamples, seed, 2 * SlopeHalfWindowFrames + 1) with { Reason = $"{k} +1/2 defect tracks: interval from blocks in time along the tracks" };
     }
 }
