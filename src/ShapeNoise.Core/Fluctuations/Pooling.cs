@@ -52,7 +52,7 @@ public static class Pooling
             Mean(aR, ones), Mean(cR, ones), Mean(aF, ones), Mean(cF, ones), floorMode, spec, centres, profRaw, profCorr, profFloor)
         {
             NoiseModel = model, AnisotropyRaw = anisRaw, VarLRaw = Mean(rawL, ones), VarWRaw = Mean(rawW, ones),
-            NoiseVarL = na, NoiseVarW = na, NoiseVarAlong = na, NoiseVarAcross = na,
+            NoiseVarL = na, NoiseVarW = na, NoiseVarAlong = na, NoiseVarAcross = na, Temporal = temporal,
         };
         if (temporal is null) return pooled;
         // Temporal model (docs/measures.md#temporal-noise-model): the headline values are the fitted signal variances.
@@ -63,7 +63,6 @@ public static class Pooling
             VarAlong = temporal.Along.SignalVariancePx2, VarAcross = temporal.Across.SignalVariancePx2,
             NoiseVarL = temporal.L.NoiseVariancePx2, NoiseVarW = temporal.W.NoiseVariancePx2,
             NoiseVarAlong = temporal.Along.NoiseVariancePx2, NoiseVarAcross = temporal.Across.NoiseVariancePx2,
-            Temporal = temporal,
         };
     }
 

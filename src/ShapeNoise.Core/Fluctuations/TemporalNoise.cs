@@ -55,8 +55,9 @@ public static class TemporalNoise
     {
         var t = allTracks.Where(x => x.Used && x.Contour is not null).ToList();
         if (plan.Items != t.Count) throw new ArgumentException($"{nameof(plan)} covers {plan.Items} tracks, {t.Count} are used");
-        if (t.Count == 0 || t.Any(x => x.Contour!.AlongLags is null || x.Contour.AcrossLags is null || x.Frames < 2))
-            return Empty(t.Count, plan.UnitName);
+        if (t.Count == 0 || t.Any(x => x.Frames < 2)) return Empty(t.Count, plan.UnitName);
+        // Contours built without their sector lag sums: L and W are fitted, along and across are not.
+        bool contour = t.All(x => x.Contour!.AlongLags is not null && x.Contour.AcrossLags is not null);
         int maxLen = t.Max(x => x.FrameIndex[^1] - x.FrameIndex[0] + 1);
         var lengths = t.Select(x => x.Frames).OrderBy(n => n).ToArray();
         int K = Math.Max(1, Math.Min(maxLagFrames, maxLen - 1));
@@ -66,14 +67,19 @@ public static class TemporalNoise
         var sums = new List<LagSums>[4];
         sums[0] = t.Select(x => PooledAutocovariance.Of(new TrackSeries(x.FrameIndex, x.LengthPx), K)).ToList();
         sums[1] = t.Select(x => PooledAutocovariance.Of(new TrackSeries(x.FrameIndex, x.WidthPx), K)).ToList();
-        sums[2] = t.Select(x => Truncate(x.Contour!.AlongLags!, K)).ToList();
-        sums[3] = t.Select(x => Truncate(x.Contour!.AcrossLags!, K)).ToList();
+        if (contour)
+        {
+            sums[2] = t.Select(x => Truncate(x.Contour!.AlongLags!, K)).ToList();
+            sums[3] = t.Select(x => Truncate(x.Contour!.AcrossLags!, K)).ToList();
+        }
+        int fitted = contour ? 4 : 2;
 
         var memo = new ConcurrentDictionary<int[], OuFit[]>(new WeightComparer());
         OuFit[] FitAll(int[] w) => memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), key =>
         {
             var r = new OuFit[4];
-            for (int s = 0; s < 4; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau);
+            for (int s = 2; s < 4; s++) r[s] = new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
+            for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau);
             return r;
         });
         var ones = new int[t.Count]; Array.Fill(ones, 1);
@@ -82,6 +88,11 @@ public static class TemporalNoise
 
         TemporalCoordinate Coordinate(int s)
         {
+            if (s >= fitted)
+            {
+                var none = Estimate.TooFewUnits(t.Count, plan.UnitName, "the contours carry no sector lag sums");
+                return new TemporalCoordinate(Names[s], none, none, none, none, double.NaN);
+            }
             var tau = Estimate.Fitted(point[s].TauFrames, plan.Draws.Select(d => FitAll(d)[s].TauFrames).ToArray(), plan.Units, plan.UnitName,
                 OrnsteinUhlenbeckFit.MinTauFrames, maxTau);
             var s2 = WithTauBound(Bootstrap.Percentile(plan, w => FitAll(w)[s].SignalVariance), tau);
@@ -92,7 +103,8 @@ public static class TemporalNoise
         }
         var cs = Enumerable.Range(0, 4).Select(Coordinate).ToArray();
         var anis = WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 0, 1)), cs[0].TauFrames), cs[1].TauFrames);
-        var anisC = WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 2, 3)), cs[2].TauFrames), cs[3].TauFrames);
+        var anisC = contour ? WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 2, 3)), cs[2].TauFrames), cs[3].TauFrames)
+            : cs[2].SignalVariancePx2;
         return new TemporalNoiseResult(cs[0], cs[1], cs[2], cs[3], anis, anisC, fitLags);
     }
 

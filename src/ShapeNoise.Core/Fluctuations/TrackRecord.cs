@@ -36,7 +36,7 @@ public sealed record PooledFluctuations(
     public Estimate NoiseVarAlong { get; init; } = Estimate.NaN;
     /// <summary>White-noise variance e2 of the flank-sector residuals.</summary>
     public Estimate NoiseVarAcross { get; init; } = Estimate.NaN;
-    /// <summary>The temporal model's fits (also computed under the other models, for the outputs); null when not run.</summary>
+    /// <summary>The temporal model's fits; null under the other noise models.</summary>
     public TemporalNoiseResult? Temporal { get; init; }
 }
 
