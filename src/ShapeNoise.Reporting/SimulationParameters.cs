@@ -140,7 +140,7 @@ public static class SimulationParameters
             ["model"] = "Each coordinate x is an Ornstein-Uhlenbeck process dx = -x/tau dt + sqrt(2 D) dW with stationary variance var = D tau; coordinates are independent.",
             ["units"] = new JsonObject { ["length"] = u.LengthName, ["time"] = u.TimeName },
             ["noise_anisotropy"] = I(r.Pooled.Anisotropy),
-            ["noise_anisotropy_definition"] = "pooled var_L / var_W over tracks (spec: anisotropy)",
+            ["noise_anisotropy_definition"] = "the headline anisotropy of summary.json: pooled var_L / var_W (temporal noise model: signal variances s2_L / s2_W)",
             ["noise_anisotropy_contour"] = I(r.Pooled.AnisotropyContour),
             ["frames"] = r.Counts.Frames,
         };

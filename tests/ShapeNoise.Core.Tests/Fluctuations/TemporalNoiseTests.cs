@@ -214,3 +214,30 @@ public class TemporalNoiseTests(ITestOutputHelper log)
         Assert.True(noiseL > 0.4, "the fitted white noise of L carries the flicker");
     }
 }
+
+public class NoiseModelOptionTests
+{
+    [Theory]
+    [InlineData("temporal", NoiseModel.Temporal)]
+    [InlineData("MODES", NoiseModel.Modes)]
+    [InlineData("fixed-cells", NoiseModel.FixedCells)]
+    public void ParseNoiseModel_KnownNames_MapToTheModel(string text, NoiseModel expected)
+        // docs/measures.md#temporal-noise-model names the three models.
+        => Assert.Equal(expected, Pooling.ParseNoiseModel(text));
+
+    [Theory]
+    [InlineData("temporal-ou")]
+    [InlineData("")]
+    [InlineData("fixed")]
+    public void ParseNoiseModel_OtherText_ThrowsNamingTheOption(string text)
+        => Assert.StartsWith("NoiseModel", Assert.Throws<ArgumentException>(() => Pooling.ParseNoiseModel(text)).Message);
+
+    [Fact]
+    public void Validated_FixedCellsWithoutFloorFromOrFloorFromWithTemporal_Refused()
+    {
+        Assert.Contains("--floor-from", Assert.Throws<ArgumentException>(() => new AnalysisOptions { NoiseModel = NoiseModel.FixedCells }.Validated()).Message);
+        Assert.Contains("--noise-model", Assert.Throws<ArgumentException>(() => new AnalysisOptions { FloorFrom = "fixed" }.Validated()).Message);
+        Assert.Equal(NoiseModel.FixedCells, new AnalysisOptions { FloorFrom = "fixed", NoiseModel = NoiseModel.FixedCells }.Validated().ForPooling.NoiseModel);
+        Assert.Equal(NoiseModel.Temporal, new AnalysisOptions().ForPooling.NoiseModel);
+    }
+}
