@@ -95,9 +95,9 @@ public static class TemporalNoise
             }
             var tau = Estimate.Fitted(point[s].TauFrames, plan.Draws.Select(d => FitAll(d)[s].TauFrames).ToArray(), plan.Units, plan.UnitName,
                 OrnsteinUhlenbeckFit.MinTauFrames, maxTau);
-            var s2 = WithTauBound(Bootstrap.Percentile(plan, w => FitAll(w)[s].SignalVariance), tau);
-            var e2 = WithTauBound(Bootstrap.Percentile(plan, w => FitAll(w)[s].NoiseVariance), tau);
-            var d = WithTauBound(Bootstrap.Percentile(plan, w => { var f = FitAll(w)[s]; return f.SignalVariance / f.TauFrames; }), tau);
+            var s2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].SignalVariance)), tau);
+            var e2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].NoiseVariance)), tau);
+            var d = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => { var f = FitAll(w)[s]; return f.SignalVariance / f.TauFrames; })), tau);
             var c0 = PooledAutocovariance.Pool(sums[s], [], out _);
             return new TemporalCoordinate(Names[s], s2, e2, tau, d, c0[0]);
         }
@@ -115,6 +115,10 @@ public static class TemporalNoise
         TemporalCoordinate C(string name) => new(name, e, e, e, e, double.NaN);
         return new TemporalNoiseResult(C("L"), C("W"), C("along"), C("across"), e, e, 0);
     }
+
+    /// <summary>A variance's interval cut at 0: the fit constrains s2, e2 &gt;= 0, but the block-edge inflation of a spatial
+    /// plan (docs/statistics.md#block-edges) can widen the lower bound below it.</summary>
+    private static Estimate NonNegative(Estimate e) => e.IsOk && e.Low < 0 ? Estimate.Judged(e.Value, 0, e.High, e.N, e.UnitName) : e;
 
     private static double Ratio(OuFit[] f, int a, int b) => f[b].SignalVariance > 0 ? f[a].SignalVariance / f[b].SignalVariance : double.NaN;
 
