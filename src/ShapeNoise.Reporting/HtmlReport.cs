@@ -27,11 +27,13 @@ public static class HtmlReport
     public static List<string> Headlines(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units); var p = r.Pooled; var d = r.Dynamics; var df = r.Defects;
+        // docs/measures.md#temporal-noise-model: what was removed depends on the noise model.
+        string removed = p.NoiseModel == ShapeNoise.Fluctuations.NoiseModel.Temporal ? "After removing the white measurement noise" : "After removing the noise floor";
         var h = new List<string>
         {
             EstimateText.Ratio(p.Anisotropy, "Length fluctuates more than width", "Length fluctuates less than width", "Length vs width fluctuation") + ".",
-            EstimateText.Ratio(p.AnisotropyContour, "After removing the noise floor, the outline fluctuates more at the poles than at the flanks",
-                "After removing the noise floor, the outline fluctuates less at the poles than at the flanks", "Pole vs flank fluctuation of the outline") + ".",
+            EstimateText.Ratio(p.AnisotropyContour, $"{removed}, the outline fluctuates more at the poles than at the flanks",
+                $"{removed}, the outline fluctuates less at the poles than at the flanks", "Pole vs flank fluctuation of the outline") + ".",
             $"Elongation stays correlated for τ_q: {Timed(u.Time(d.TauQFrames), u)}; orientation for τ_θ: {Timed(u.Time(d.TauThetaFrames), u)}.",
         };
         var hs = u.Speed(df.HeadwardSpeed);
