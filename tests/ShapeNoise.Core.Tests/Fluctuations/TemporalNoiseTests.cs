@@ -2,6 +2,7 @@ using MathNet.Numerics.LinearAlgebra;
 using ShapeNoise.Dynamics;
 using ShapeNoise.Fluctuations;
 using ShapeNoise.Pipeline;
+using ShapeNoise.Shape;
 using ShapeNoise.Statistics;
 using ShapeNoise.Synthesis;
 using ShapeNoise.Tests.Dynamics;
@@ -106,6 +107,25 @@ public class TemporalNoiseTests(ITestOutputHelper log)
             Assert.InRange(raw / expectedRaw, 0.97, 1.03);
             if (n <= 40) Assert.True(raw < 0.9, "short tracks shrink the raw variance by more than 10 %");
         }
+    }
+
+    [Fact]
+    public void ContourOf_SectorLagSums_LagZeroIsTheSectorVarianceAndGapsGiveNoPair()
+    {
+        // docs/measures.md#temporal-noise-model: the sector lag sum at lag 0 over the frames is var_along (var_across), the
+        // w-weighted sector mean of mean_t n^2 (docs/measures.md#contour-variances); a pair needs both frames present.
+        const int m = 32, T = 12;
+        var rng = new Random(4);
+        var rho = new double[T * m];
+        for (int t = 0; t < T; t++)
+            for (int k = 0; k < m; k++) rho[t * m + k] = RadialFunction.Ellipse(14, 9, 2 * Math.PI * k / m) + 0.3 * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
+        int[] frames = [0, 1, 2, 3, 4, 6, 7, 8, 9, 10, 11, 12];   // frame 5 missing
+        var c = ContourFluctuations.Of(rho, T, m, frames, 5);
+        Assert.Equal(c.VarAlongRaw, c.AlongLags!.Sum[0] / T, 12);
+        Assert.Equal(c.VarAcrossRaw, c.AcrossLags!.Sum[0] / T, 12);
+        // Lag-1 pairs: 13 frame slots, 12 present, frame 5 missing removes (4,5) and (5,6): 10 pairs; lag 2: (3,5), (5,7) gone: 9.
+        Assert.Equal([12, 10, 9], c.AlongLags.Pairs[..3]);
+        Assert.Equal(c.AlongLags.Pairs, c.AcrossLags.Pairs);
     }
 
     /// <summary>A track record whose L and W are given series and whose contour carries given sector lag sums.</summary>
