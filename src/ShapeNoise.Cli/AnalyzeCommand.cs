@@ -25,6 +25,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--bootstrap <N>"), Description("Bootstrap resamples over tracks.")] public int Bootstrap { get; init; } = 1000;
         [CommandOption("--seed <N>"), Description("Seed of every random resample.")] public int Seed { get; init; } = 1;
         [CommandOption("--floor-from <DIR>"), Description("Output folder of a fixed-cell movie analysed the same way: its fluctuations are the noise floor.")] public string? FloorFrom { get; init; }
+        [CommandOption("--noise-model <MODEL>"), Description("Measurement noise removed from the headline variances: temporal (OU signal + white noise fitted in time; default), modes (high-mode floor) or fixed-cells (needs --floor-from; the default when --floor-from is given).")] public string? NoiseModel { get; init; }
         [CommandOption("--max-lag <FRAMES>"), Description("Longest lag of the autocorrelation curves.")] public int MaxLag { get; init; } = 30;
         [CommandOption("--time-unit <UNIT>"), Description("Time unit of the dimensionless simulation parameters: tau_q, min, or a number of minutes.")] public string TimeUnit { get; init; } = "tau_q";
         [CommandOption("--sim-format <FORMAT>"), Description("Simulation parameters as json (sim-params.json) or toml (sim-params.toml).")] public string SimFormat { get; init; } = "json";
@@ -49,13 +50,22 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         _ => throw new ArgumentException($"--outline must be midpoint, subpixel or pixel-edge (got '{s}')"),
     };
 
+    /// <summary>--noise-model: temporal, modes or fixed-cells (case-insensitive); anything else is a bad option (exit 64).</summary>
+    public static ShapeNoise.Fluctuations.NoiseModel ParseNoiseModel(string s)
+    {
+        try { return ShapeNoise.Fluctuations.Pooling.ParseNoiseModel(s); }
+        catch (ArgumentException) { throw new ArgumentException($"--noise-model must be temporal, modes or fixed-cells (got '{s}')"); }
+    }
+
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
         var options = new AnalysisOptions
         {
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
             MinTrackFrames = s.MinTrack, MaxGapFrames = s.MaxGap, Outline = ParseOutline(s.Outline), LinkOverlapFraction = s.LinkOverlap, BootstrapResamples = s.Bootstrap,
-            Seed = s.Seed, FloorFrom = s.FloorFrom, MaxLagFrames = s.MaxLag, IdsAreTracks = s.IdsAreTracks, MaxDisplacementPx = s.MaxDisplacement,
+            Seed = s.Seed, FloorFrom = s.FloorFrom,
+            NoiseModel = s.NoiseModel is { } nm ? ParseNoiseModel(nm)
+                : s.FloorFrom is null ? ShapeNoise.Fluctuations.NoiseModel.Temporal : ShapeNoise.Fluctuations.NoiseModel.FixedCells, MaxLagFrames = s.MaxLag, IdsAreTracks = s.IdsAreTracks, MaxDisplacementPx = s.MaxDisplacement,
             Velocity = s.Velocity.ToLowerInvariant() switch
             {
                 "centroids" => VelocitySource.Centroids,
@@ -124,6 +134,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         t.AddRow("+1/2 / -1/2 defects per frame", df.NotApplicableReason is { } why ? $"not applicable: {why}".EscapeMarkup() : $"{df.PlusPerFrame:G3} / {df.MinusPerFrame:G3}", "", "", df.NotApplicableReason is null ? "" : "not_applicable");
         Row(Measures.DefectHeadwardSpeed, us.Speed(df.HeadwardSpeed));
         Row(Measures.FlowHeadwardSpeed, us.Speed(df.FlowHeadwardSpeed));
+        t.AddRow("noise model", ShapeNoise.Fluctuations.Pooling.Name(r.Pooled.NoiseModel), "", "", "");
         t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");
         t.AddRow("frames", $"{r.Counts.Frames}", "");
         AnsiConsole.Write(t);

@@ -27,11 +27,13 @@ public static class HtmlReport
     public static List<string> Headlines(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units); var p = r.Pooled; var d = r.Dynamics; var df = r.Defects;
+        // docs/measures.md#temporal-noise-model: what was removed depends on the noise model.
+        string removed = p.NoiseModel == ShapeNoise.Fluctuations.NoiseModel.Temporal ? "After removing the white measurement noise" : "After removing the noise floor";
         var h = new List<string>
         {
             EstimateText.Ratio(p.Anisotropy, "Length fluctuates more than width", "Length fluctuates less than width", "Length vs width fluctuation") + ".",
-            EstimateText.Ratio(p.AnisotropyContour, "After removing the noise floor, the outline fluctuates more at the poles than at the flanks",
-                "After removing the noise floor, the outline fluctuates less at the poles than at the flanks", "Pole vs flank fluctuation of the outline") + ".",
+            EstimateText.Ratio(p.AnisotropyContour, $"{removed}, the outline fluctuates more at the poles than at the flanks",
+                $"{removed}, the outline fluctuates less at the poles than at the flanks", "Pole vs flank fluctuation of the outline") + ".",
             $"Elongation stays correlated for τ_q: {Timed(u.Time(d.TauQFrames), u)}; orientation for τ_θ: {Timed(u.Time(d.TauThetaFrames), u)}.",
         };
         var hs = u.Speed(df.HeadwardSpeed);
@@ -128,7 +130,8 @@ public static class HtmlReport
             sb.Append("</ul></div>\n");
         }
         double fa = p.VarAlongRaw > 0 ? p.FloorAlong / p.VarAlongRaw : double.NaN, fc = p.VarAcrossRaw > 0 ? p.FloorAcross / p.VarAcrossRaw : double.NaN;
-        sb.Append("<h2>Noise floor</h2>\n<p>").Append(E(r.FloorReference is null
+        sb.Append("<h2>Noise floor</h2>\n<p>").Append(E(p.NoiseModel == ShapeNoise.Fluctuations.NoiseModel.Temporal ? TemporalSentence(r)
+            : r.FloorReference is null
             ? $"Estimated from the high Fourier modes of each track (white-noise model): it is {Round(100 * fa)}% of the raw contour variance in the pole sector and {Round(100 * fc)}% in the flank sector. Length and width fluctuations integrate over the whole outline and carry little pixelation noise."
             : $"Taken from a fixed-cell movie (--floor-from): {Round(100 * fa)}% of the raw contour variance in the pole sector, {Round(100 * fc)}% in the flank sector; its length and width fluctuations were subtracted too."))
           .Append("</p>\n");
@@ -144,6 +147,19 @@ public static class HtmlReport
         sb.Append("</table>\n<p><em>").Append(E("A research tool: no clinical or diagnostic claim; results are only as good as the segmentation they start from.")).Append("</em></p>\n")
           .Append(LoadCheck).Append("</body></html>\n");
         return sb.ToString();
+    }
+
+    /// <summary>The noise paragraph under the temporal model (docs/measures.md#temporal-noise-model): the share of the raw
+    /// variance of L, W and the two contour sectors that the fit assigns to white measurement noise.</summary>
+    public static string TemporalSentence(AnalysisResult r)
+    {
+        var p = r.Pooled;
+        string Share(double raw, Estimate e2) => raw > 0 && double.IsFinite(e2.Value) ? $"{Round(100 * e2.Value / raw)}%" : "n/a";
+        return "Temporal noise model (default): each coordinate is an Ornstein-Uhlenbeck signal plus white measurement noise, fitted to the pooled "
+            + "autocovariance of the mean-subtracted tracks; the headline variances are the signal variances. White noise is "
+            + $"{Share(p.VarLRaw, p.NoiseVarL)} of the raw variance of L, {Share(p.VarWRaw, p.NoiseVarW)} of W, {Share(p.VarAlongRaw, p.NoiseVarAlong)} in the pole sector "
+            + $"and {Share(p.VarAcrossRaw, p.NoiseVarAcross)} in the flank sector (the high-mode floor would be {Round(100 * (p.VarAlongRaw > 0 ? p.FloorAlong / p.VarAlongRaw : double.NaN))}% "
+            + $"and {Round(100 * (p.VarAcrossRaw > 0 ? p.FloorAcross / p.VarAcrossRaw : double.NaN))}%; --noise-model modes uses it).";
     }
 
     /// <summary>Inline, self-contained: once the page has loaded, records every image's decoded size on the body

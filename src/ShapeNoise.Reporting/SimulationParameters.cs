@@ -91,6 +91,44 @@ public static class SimulationParameters
         };
     }
 
+    /// <summary>The headline fluctuation coordinates under the temporal noise model (docs/sim-params.md#keys,
+    /// docs/measures.md#temporal-noise-model): per coordinate (L, W, along, across) the signal (tau, variance s2, D = s2 / tau)
+    /// and, separately, the white measurement noise e2, with the raw sample variance; physical and dimensionless.</summary>
+    public static JsonObject Fluctuations(AnalysisResult r)
+    {
+        var u = UnitScale.Of(r.Units); var col = AnalysisFolder.Columns(u);
+        double R0 = u.Length(r.MeanCellRadiusPx);
+        var (T, _) = TimeUnit(r);
+        var o = new JsonObject
+        {
+            ["noise_model"] = ShapeNoise.Fluctuations.Pooling.Name(r.Pooled.NoiseModel),
+            ["model"] = "x = s(t) + e(t): s an Ornstein-Uhlenbeck signal (variance, tau, D = variance / tau), e white measurement noise (noise_variance); fitted to the pooled mean-subtracted autocovariance with its exact finite-track expectation",
+            ["fit_lags_frames"] = r.Pooled.Temporal?.FitLags,
+        };
+        if (r.Pooled.Temporal is not { } tn) return o;
+        foreach (var c in tn.Coordinates)
+        {
+            var tau = u.Time(c.TauFrames); var v = u.Area(c.SignalVariancePx2); var dd = c.DPx2PerFrame.Scale(u.DiffusionFactor);
+            var e2 = u.Area(c.NoiseVariancePx2);
+            o[c.Name] = new JsonObject
+            {
+                [col.Tau] = I(tau),
+                [col.Variance] = I(v),
+                [col.Diffusion] = I(dd),
+                [$"noise_variance_{u.AreaSuffix}"] = I(e2),
+                [$"raw_variance_{u.AreaSuffix}"] = Num(u.Area(c.RawVariancePx2)),
+                ["dimensionless"] = new JsonObject
+                {
+                    ["tau_over_T"] = I(tau.Scale(1 / T)),
+                    ["variance_over_R0_squared"] = I(v.Scale(1 / (R0 * R0))),
+                    ["D_times_T_over_R0_squared"] = I(dd.Scale(T / (R0 * R0))),
+                    ["noise_variance_over_R0_squared"] = I(e2.Scale(1 / (R0 * R0))),
+                },
+            };
+        }
+        return o;
+    }
+
     /// <summary>sim-params content: schema, model, units, the headline anisotropy, the dynamics blocks, provenance.</summary>
     public static JsonObject Build(AnalysisResult r, JsonObject provenance)
     {
@@ -102,11 +140,12 @@ public static class SimulationParameters
             ["model"] = "Each coordinate x is an Ornstein-Uhlenbeck process dx = -x/tau dt + sqrt(2 D) dW with stationary variance var = D tau; coordinates are independent.",
             ["units"] = new JsonObject { ["length"] = u.LengthName, ["time"] = u.TimeName },
             ["noise_anisotropy"] = I(r.Pooled.Anisotropy),
-            ["noise_anisotropy_definition"] = "pooled var_L / var_W over tracks (spec: anisotropy)",
+            ["noise_anisotropy_definition"] = "the headline anisotropy of summary.json: pooled var_L / var_W (temporal noise model: signal variances s2_L / s2_W)",
             ["noise_anisotropy_contour"] = I(r.Pooled.AnisotropyContour),
             ["frames"] = r.Counts.Frames,
         };
         foreach (var (k, v) in Dynamics(r)) o[k] = v?.DeepClone();
+        o["fluctuations"] = Fluctuations(r);
         o["provenance"] = new JsonObject
         {
             ["tool_version"] = provenance["version"]?.DeepClone(),

@@ -23,6 +23,13 @@ public sealed record TrackContour(int Frames, double VarAlongRaw, double VarAcro
     double FloorPerMode, double[] ModePower, double[] SampleVariance, double[] SampleFloor, double[] NormalAngleDeg, double[] ArcWeight,
     double[] AlongSeries, double[] AcrossSeries)
 {
+    /// <summary>Lagged sums of the pole-sector residuals for the temporal noise model (docs/measures.md#temporal-noise-model):
+    /// Sum[k] = sum over pairs (t, t+k) of frames both present of sum_j W_j n_j(t) n_j(t+k) / sum_j W_j over pole samples j
+    /// (W_j = arc weight), so Sum[0] / Frames = <see cref="VarAlongRaw"/>. Null when the contour was built without them.</summary>
+    internal Dynamics.LagSums? AlongLags { get; init; }
+    /// <summary>The same over the flank samples (Sum[0] / Frames = <see cref="VarAcrossRaw"/>).</summary>
+    internal Dynamics.LagSums? AcrossLags { get; init; }
+
     /// <summary>Floor-corrected var_along = raw - floor.</summary>
     public double VarAlong => VarAlongRaw - FloorAlong;
     /// <summary>Floor-corrected var_across = raw - floor.</summary>
@@ -46,7 +53,9 @@ public static class ContourFluctuations
     /// <paramref name="rho"/> holds <paramref name="frames"/> rows of <paramref name="m"/> samples rho(psi_k, t), row-major;
     /// <paramref name="modes"/> holds the matching body-frame Fourier modes, rows of M/2 + 1.
     /// </summary>
-    public static TrackContour Of(ReadOnlySpan<double> rho, ReadOnlySpan<Complex> modes, int frames, int m)
+    /// <para>The sector lag sums of the temporal noise model (<see cref="TrackContour.AlongLags"/>) are computed for lags
+    /// 0..<paramref name="maxLagFrames"/> over <paramref name="frameIndex"/> (null = frames 0..n-1, no gaps).</para>
+    public static TrackContour Of(ReadOnlySpan<double> rho, ReadOnlySpan<Complex> modes, int frames, int m, int[]? frameIndex = null, int maxLagFrames = DefaultMaxLagFrames)
     {
         if (rho.Length != frames * m) throw new ArgumentException("rho must hold frames x M samples");
         int nm = m / 2 + 1;
@@ -106,16 +115,53 @@ public static class ContourFluctuations
             }
             along[t] = a / wPole; across[t] = c / wFlank;
         }
+        var (alongLags, acrossLags) = SectorLagSums(rho, mean, cosG, weight, poleW, frames, m, frameIndex, maxLagFrames);
         return new TrackContour(frames, vPole / wPole, vFlank / wFlank, fPole / wPole, fFlank / wFlank, floorMode,
-            power, sampleVar, sampleFloor, angle, weight, along, across);
+            power, sampleVar, sampleFloor, angle, weight, along, across) { AlongLags = alongLags, AcrossLags = acrossLags };
+    }
+
+    /// <summary>Longest lag of the sector lag sums unless told (the default of --max-lag).</summary>
+    public const int DefaultMaxLagFrames = 30;
+
+    /// <summary>Per sector, sum over present pairs (t, t+k) of sum_j W_j n_j(t) n_j(t+k) / sum_j W_j, n_j(t) = (rho_j(t) -
+    /// mean_j) cos g_j, W_j = pole (or flank) share times arc weight; pairs counted once per frame pair.</summary>
+    private static (Dynamics.LagSums Along, Dynamics.LagSums Across) SectorLagSums(ReadOnlySpan<double> rho, double[] mean, double[] cosG,
+        double[] weight, double[] poleW, int frames, int m, int[]? frameIndex, int maxLag)
+    {
+        var f = frameIndex ?? Enumerable.Range(0, frames).ToArray();
+        if (f.Length != frames) throw new ArgumentException("frameIndex must hold one frame number per outline");
+        var n = new double[frames * m];
+        double wPole = 0, wFlank = 0;
+        for (int k = 0; k < m; k++) { wPole += poleW[k] * weight[k]; wFlank += (1 - poleW[k]) * weight[k]; }
+        for (int t = 0; t < frames; t++)
+            for (int k = 0; k < m; k++) n[t * m + k] = (rho[t * m + k] - mean[k]) * cosG[k];
+        var sa = new double[maxLag + 1]; var sc = new double[maxLag + 1]; var pa = new int[maxLag + 1]; var pc = new int[maxLag + 1];
+        int f0 = f[0], span = f[^1] - f0 + 1;
+        var at = new int[span];
+        Array.Fill(at, -1);
+        for (int i = 0; i < frames; i++) at[f[i] - f0] = i;
+        for (int i = 0; i < frames; i++)
+            for (int lag = 0; lag <= maxLag && f[i] - f0 + lag < span; lag++)
+            {
+                int j = at[f[i] - f0 + lag];
+                if (j < 0) continue;
+                double a = 0, c = 0;
+                for (int k = 0; k < m; k++)
+                {
+                    double p = weight[k] * n[i * m + k] * n[j * m + k];
+                    a += poleW[k] * p; c += (1 - poleW[k]) * p;
+                }
+                sa[lag] += a / wPole; sc[lag] += c / wFlank; pa[lag]++; pc[lag]++;
+            }
+        return (new Dynamics.LagSums(sa, pa), new Dynamics.LagSums(sc, pc));
     }
 
     /// <summary>Convenience overload: computes the Fourier modes of each row first.</summary>
-    public static TrackContour Of(ReadOnlySpan<double> rho, int frames, int m)
+    public static TrackContour Of(ReadOnlySpan<double> rho, int frames, int m, int[]? frameIndex = null, int maxLagFrames = DefaultMaxLagFrames)
     {
         int nm = m / 2 + 1;
         var modes = new Complex[frames * nm];
         for (int t = 0; t < frames; t++) FourierModes.Of(rho.Slice(t * m, m), modes.AsSpan(t * nm, nm));
-        return Of(rho, modes, frames, m);
+        return Of(rho, modes, frames, m, frameIndex, maxLagFrames);
     }
 }

@@ -7,7 +7,10 @@ public static class Pooling
 {
     /// <summary>Frame-weighted pooling over the used tracks with percentile bootstrap intervals over tracks
     /// (docs/measures.md#movie-pooling; resampled by <paramref name="plan"/>, default the bootstrap over the used tracks): a pooled mean is sum_i N_i v_i / sum_i N_i (N_i = frames of track i); the
-    /// anisotropies are ratios of such means; contour variances are floor-corrected by <see cref="NoiseFloor"/>.</summary>
+    /// anisotropies are ratios of such means; contour variances are floor-corrected by <see cref="NoiseFloor"/>. Under the
+    /// temporal noise model (<see cref="PoolingOptions.NoiseModel"/>, the default) the headline anisotropies and variances
+    /// are instead the signal variances of <see cref="TemporalNoise"/> on the same plan (docs/measures.md#temporal-noise-model);
+    /// the raw values stay beside them.</summary>
     public static PooledFluctuations Of(IReadOnlyList<TrackRecord> allTracks, int m, PoolingOptions options, NoiseFloorReference? r, ResamplingPlan? plan = null)
     {
         var t = new List<TrackRecord>();
@@ -36,11 +39,50 @@ public static class Pooling
         var along = Bootstrap.Percentile(plan, k => Diff(aR, aF, k));
         var across = Bootstrap.Percentile(plan, k => Diff(cR, cF, k));
         var ones = new int[n]; Array.Fill(ones, 1);
+        var rawL = new double[n]; var rawW = new double[n];
+        for (int i = 0; i < n; i++) { rawL[i] = t[i].VarLPx2; rawW[i] = t[i].VarWPx2; }
+        var anisRaw = Bootstrap.Percentile(plan, k => Mean(rawL, k) / Mean(rawW, k));
 
         var (spec, floorMode, centres, profRaw, profCorr, profFloor) = SpectrumAndProfile(t, m, r);
-        return new PooledFluctuations(anis, anisC, anisCRaw, varL, varW, along, across,
-            Mean(aR, ones), Mean(cR, ones), Mean(aF, ones), Mean(cF, ones), floorMode, spec, centres, profRaw, profCorr, profFloor);
+        var model = options.NoiseModel;
+        if (model == NoiseModel.FixedCells && r is null) throw new ArgumentException($"{nameof(NoiseModel)} fixed-cells needs a fixed-cell reference (--floor-from)");
+        var temporal = model == NoiseModel.Temporal ? TemporalNoise.Of(t, plan, options.MaxLagFrames) : null;
+        var na = Estimate.NotApplicableBecause($"noise model {Name(model)}: the floor is floor_along / floor_across", n, plan.UnitName);
+        var pooled = new PooledFluctuations(anis, anisC, anisCRaw, varL, varW, along, across,
+            Mean(aR, ones), Mean(cR, ones), Mean(aF, ones), Mean(cF, ones), floorMode, spec, centres, profRaw, profCorr, profFloor)
+        {
+            NoiseModel = model, AnisotropyRaw = anisRaw, VarLRaw = Mean(rawL, ones), VarWRaw = Mean(rawW, ones),
+            NoiseVarL = na, NoiseVarW = na, NoiseVarAlong = na, NoiseVarAcross = na, Temporal = temporal,
+        };
+        if (temporal is null) return pooled;
+        // Temporal model (docs/measures.md#temporal-noise-model): the headline values are the fitted signal variances.
+        return pooled with
+        {
+            Anisotropy = temporal.Anisotropy, AnisotropyContour = temporal.AnisotropyContour,
+            VarL = temporal.L.SignalVariancePx2, VarW = temporal.W.SignalVariancePx2,
+            VarAlong = temporal.Along.SignalVariancePx2, VarAcross = temporal.Across.SignalVariancePx2,
+            NoiseVarL = temporal.L.NoiseVariancePx2, NoiseVarW = temporal.W.NoiseVariancePx2,
+            NoiseVarAlong = temporal.Along.NoiseVariancePx2, NoiseVarAcross = temporal.Across.NoiseVariancePx2,
+        };
     }
+
+    /// <summary>The noise model as written to the outputs and typed on the command line: temporal, modes, fixed-cells.</summary>
+    public static string Name(NoiseModel model) => model switch
+    {
+        NoiseModel.Temporal => "temporal",
+        NoiseModel.Modes => "modes",
+        _ => "fixed-cells",
+    };
+
+    /// <summary>Parses temporal, modes or fixed-cells (case-insensitive).</summary>
+    /// <exception cref="ArgumentException">Any other text; the message names the property.</exception>
+    public static NoiseModel ParseNoiseModel(string s) => s.ToLowerInvariant() switch
+    {
+        "temporal" => NoiseModel.Temporal,
+        "modes" => NoiseModel.Modes,
+        "fixed-cells" => NoiseModel.FixedCells,
+        _ => throw new ArgumentException($"{nameof(NoiseModel)} must be temporal, modes or fixed-cells (got '{s}')"),
+    };
 
     /// <summary>Frame-weighted mode spectrum p_n, floor per mode, and the variance profile against the normal's angle to
     /// the long axis (9 bins over [0, 90] degrees), raw, floor and corrected.</summary>

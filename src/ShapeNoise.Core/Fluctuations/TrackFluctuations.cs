@@ -9,8 +9,9 @@ namespace ShapeNoise.Fluctuations;
 public static class TrackFluctuations
 {
     /// <summary>The track's record. Used = frames &gt;= <paramref name="minTrackFrames"/>; the contour is computed only then
-    /// (the Fourier modes are recomputed from the radii rather than kept per outline). The radii are not kept.</summary>
-    public static TrackRecord Of(FinishedTrack track, int minTrackFrames)
+    /// (the Fourier modes are recomputed from the radii rather than kept per outline), with its sector lag sums for lags
+    /// 0..<paramref name="maxLagFrames"/> (docs/measures.md#temporal-noise-model). The radii are not kept.</summary>
+    public static TrackRecord Of(FinishedTrack track, int minTrackFrames, int maxLagFrames = ContourFluctuations.DefaultMaxLagFrames)
     {
         int n = track.Frames;
         bool used = n >= minTrackFrames;
@@ -20,7 +21,7 @@ public static class TrackFluctuations
             varL = Descriptive.PopulationVariance(track.LengthPx);
             varW = Descriptive.PopulationVariance(track.WidthPx);
         }
-        var contour = used ? ContourFluctuations.Of(track.BodyFrameRadiiPx, n, track.Rays) : null;
+        var contour = used ? ContourFluctuations.Of(track.BodyFrameRadiiPx, n, track.Rays, track.FrameIndex, maxLagFrames) : null;
         return new TrackRecord(track.Id, track.FrameIndex[0], track.FrameIndex[^1], track.End, track.FrameIndex, track.LengthPx, track.WidthPx,
             track.Elongation, track.ThetaRad, track.AreaPx2, track.CentroidX, track.CentroidY, contour, varL, varW, used);
     }

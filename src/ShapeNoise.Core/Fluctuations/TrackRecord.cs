@@ -18,7 +18,27 @@ public sealed record PooledFluctuations(
     Estimate Anisotropy, Estimate AnisotropyContour, Estimate AnisotropyContourRaw,
     Estimate VarL, Estimate VarW, Estimate VarAlong, Estimate VarAcross,
     double VarAlongRaw, double VarAcrossRaw, double FloorAlong, double FloorAcross, double FloorPerMode,
-    double[] ModePowerRaw, double[] ProfileBinCentreDeg, double[] ProfileRaw, double[] ProfileCorrected, double[] ProfileFloor);
+    double[] ModePowerRaw, double[] ProfileBinCentreDeg, double[] ProfileRaw, double[] ProfileCorrected, double[] ProfileFloor)
+{
+    /// <summary>The noise model behind the headline values (docs/measures.md#temporal-noise-model).</summary>
+    public NoiseModel NoiseModel { get; init; } = NoiseModel.Modes;
+    /// <summary>Pooled raw var_L / var_W (sample variances, no noise removed).</summary>
+    public Estimate AnisotropyRaw { get; init; } = Estimate.NaN;
+    /// <summary>Pooled raw sample variance of L (px^2).</summary>
+    public double VarLRaw { get; init; } = double.NaN;
+    /// <summary>Pooled raw sample variance of W (px^2).</summary>
+    public double VarWRaw { get; init; } = double.NaN;
+    /// <summary>White-noise variance e2 of L (temporal model; not applicable otherwise).</summary>
+    public Estimate NoiseVarL { get; init; } = Estimate.NaN;
+    /// <summary>White-noise variance e2 of W.</summary>
+    public Estimate NoiseVarW { get; init; } = Estimate.NaN;
+    /// <summary>White-noise variance e2 of the pole-sector residuals.</summary>
+    public Estimate NoiseVarAlong { get; init; } = Estimate.NaN;
+    /// <summary>White-noise variance e2 of the flank-sector residuals.</summary>
+    public Estimate NoiseVarAcross { get; init; } = Estimate.NaN;
+    /// <summary>The temporal model's fits; null under the other noise models.</summary>
+    public TemporalNoiseResult? Temporal { get; init; }
+}
 
 /// <summary>The floor values a fixed-cell analysis exports (floor.json) for <c>--floor-from</c>, in px^2.</summary>
 public sealed record NoiseFloorReference(int Rays, string Outline, double VarAlongPx2, double VarAcrossPx2,

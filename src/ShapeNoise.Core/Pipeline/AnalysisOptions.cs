@@ -71,13 +71,16 @@ public sealed record AnalysisOptions
     public double? MaxDisplacementPx { get; init; }
     /// <summary>Output folder of a fixed-cell movie analysed the same way, whose fluctuations are the noise floor (or null).</summary>
     public string? FloorFrom { get; init; }
+    /// <summary>How measurement noise is removed from the headline variances (docs/measures.md#temporal-noise-model):
+    /// temporal (default), modes (the high-mode floor) or fixed-cells (needs <see cref="FloorFrom"/>).</summary>
+    public NoiseModel NoiseModel { get; init; } = NoiseModel.Temporal;
 
     /// <summary>The outline stage's options (checked when built).</summary>
     [JsonIgnore] public OutlineOptions ForOutlines => new(Outline, BorderMarginPx, MinAreaPx);
     /// <summary>The tracking stage's options (checked when built).</summary>
     [JsonIgnore] public TrackingOptions ForTracking => new(LinkOverlapFraction, MaxGapFrames, MinTrackFrames);
     /// <summary>The pooling stage's options (checked when built).</summary>
-    [JsonIgnore] public PoolingOptions ForPooling => new(BootstrapResamples, Seed);
+    [JsonIgnore] public PoolingOptions ForPooling => new(BootstrapResamples, Seed, NoiseModel, MaxLagFrames);
     /// <summary>The defect stage's options: --coarse and --grid parsed once (<see cref="Nematic.LengthSpec.Parse"/>), with
     /// the bootstrap resamples, seed and --keep-drift. A method, not a property, so run.json keeps the option strings only.</summary>
     public Nematic.DefectOptions ToDefectOptions() =>
@@ -100,6 +103,10 @@ public sealed record AnalysisOptions
             throw new ArgumentException($"{nameof(TimeUnit)} must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
         _ = ToDefectOptions();
         _ = ForPooling;
+        if (NoiseModel == NoiseModel.FixedCells && FloorFrom is null)
+            throw new ArgumentException("--noise-model fixed-cells needs the fixed-cell reference of --floor-from");
+        if (FloorFrom is not null && NoiseModel != NoiseModel.FixedCells)
+            throw new ArgumentException($"--floor-from is used only with --noise-model fixed-cells (got --noise-model {Pooling.Name(NoiseModel)})");
         return this;
     }
 }

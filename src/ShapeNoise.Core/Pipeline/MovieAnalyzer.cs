@@ -77,7 +77,7 @@ public static class MovieAnalyzer
         using var tracker = new Tracker(options.Rays, tracking);
         var tally = new FrameTally();
         var tracks = new List<TrackRecord>();
-        void Collect() { foreach (var f in tracker.TakeFinished()) tracks.Add(TrackFluctuations.Of(f, tracking.MinTrackFrames)); }
+        void Collect() { foreach (var f in tracker.TakeFinished()) tracks.Add(TrackFluctuations.Of(f, tracking.MinTrackFrames, options.MaxLagFrames)); }
         foreach (var fo in frameOutlines)
         {
             var shapes = times.Time("shape", () => ShapesOf(fo.Outlines, options.Rays));
@@ -141,6 +141,8 @@ public static class MovieAnalyzer
             throw new InputException(info.Path, $"has {info.FrameCount} frame(s); fluctuations need a movie of at least 2 frames (and tracks of --min-track {options.MinTrackFrames})");
         if (floorReference is not null && floorReference.Rays != options.Rays)
             throw new InputException(options.FloorFrom ?? "--floor-from", $"floor was measured with {floorReference.Rays} rays, this run uses {options.Rays}");
+        if (options.NoiseModel == NoiseModel.FixedCells && floorReference is null)
+            throw new ArgumentException("--noise-model fixed-cells needs the fixed-cell reference of --floor-from");
     }
 
     /// <summary>Shape measures, radii and modes of every Ok outline of a frame (independent, so in parallel); null for excluded ones.</summary>

@@ -25,7 +25,9 @@ public class SpatialBlocksCoverageTests(ITestOutputHelper output)
         var sw = Stopwatch.StartNew();
         double truth = o.TrueAnisotropy;
         int block = 0, track = 0; double xiSum = 0, unitsSum = 0;
-        var options = new PoolingOptions(resamples, 1);
+        // The interval procedure is under test, not the noise model: the pooled sample ratio (--noise-model modes; the
+        // tissue has no measurement noise), so each resample is a ratio of means rather than a refit.
+        var options = new PoolingOptions(resamples, 1, NoiseModel.Modes);
         for (int r = 0; r < replications; r++)
         {
             var tracks = CorrelatedTissue.Generate(o, firstSeed + r);
