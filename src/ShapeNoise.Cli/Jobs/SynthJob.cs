@@ -139,6 +139,7 @@ public static class SynthJob
             ["tau_min"] = t.TauFrames * o.FrameIntervalMin, ["tau_frames"] = t.TauFrames,
             ["tau_q_realised_min"] = t.TauQRealisedFrames * o.FrameIntervalMin, ["tau_q_realised_frames"] = t.TauQRealisedFrames,
             ["tau_length_realised_min"] = t.TauLengthRealisedFrames * o.FrameIntervalMin,
+            ["anisotropy_signal_realised"] = t.AnisotropySignalRealised,
             ["tau_theta_min"] = t.TauThetaFrames * o.FrameIntervalMin, ["tau_theta_realised_min"] = t.TauThetaRealisedFrames * o.FrameIntervalMin,
             ["sigma_along_px"] = t.SigmaAlongPx, ["sigma_across_px"] = t.SigmaAcrossPx,
             ["mean_cell_radius_um"] = t.MeanCellRadiusPx * s, ["mean_cell_radius_px"] = t.MeanCellRadiusPx,

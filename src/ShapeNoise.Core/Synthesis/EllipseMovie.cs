@@ -61,7 +61,13 @@ public sealed record EllipseTruth(
     double Anisotropy, double AnisotropyContour, double VarLPx2, double VarWPx2, double VarAlongPx2, double VarAcrossPx2,
     double TauFrames, double SigmaAlongPx, double SigmaAcrossPx, double MeanCellRadiusPx,
     double TauQRealisedFrames, double TauLengthRealisedFrames, double TauThetaFrames, double TauThetaRealisedFrames,
-    double[][] CentreX, double[][] CentreY, double[][] A, double[][] B, double[][] Theta, int[][] LabelOfCell);
+    double[][] CentreX, double[][] CentreY, double[][] A, double[][] B, double[][] Theta, int[][] LabelOfCell)
+{
+    /// <summary>The temporal noise model's estimator on the noise-free shapes: s2_L / s2_W of the Ornstein-Uhlenbeck fits
+    /// to the pooled autocovariance of L = 2a and W = 2b (docs/measures.md#temporal-noise-model), the realised truth of
+    /// the default headline anisotropy.</summary>
+    public double AnisotropySignalRealised { get; init; } = double.NaN;
+}
 
 /// <summary>
 /// Isolated fluctuating ellipses: semi-axes a(t) = a0 + sigma_a x(t), b(t) = b0 + sigma_b y(t) with x, y independent
@@ -141,7 +147,7 @@ public sealed class EllipseMovie
     {
         int n = a.Length, T = a[0].Length;
         double sL = 0, sW = 0, sAl = 0, sAc = 0, sArea = 0;
-        var frames = new int[n][]; var qSums = new List<Dynamics.LagSums>(); var lSums = new List<Dynamics.LagSums>(); var thSums = new List<Dynamics.LagSums>();
+        var frames = new int[n][]; var qSums = new List<Dynamics.LagSums>(); var lSums = new List<Dynamics.LagSums>(); var wSums = new List<Dynamics.LagSums>(); var thSums = new List<Dynamics.LagSums>();
         int maxLag = Math.Min(30, T - 1), fitLags = Math.Min(maxLag, Math.Max(4, T / 3));
         var rho = new double[T * m];
         var twoA = new double[T]; var twoB = new double[T];
@@ -158,6 +164,7 @@ public sealed class EllipseMovie
             for (int t = 0; t < T; t++) q[t] = (a[i][t] - b[i][t]) / (a[i][t] + b[i][t]);
             qSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], q), maxLag));
             lSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], (double[])twoA.Clone()), maxLag));
+            wSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], (double[])twoB.Clone()), maxLag));
             thSums.Add(Dynamics.OrientationCorrelation.Of(new Dynamics.TrackSeries(frames[i], th[i]), maxLag));
             sL += Descriptive.PopulationVariance(twoA);
             sW += Descriptive.PopulationVariance(twoB);
@@ -166,11 +173,13 @@ public sealed class EllipseMovie
         }
         // Realised correlation times: the same estimators on the noise-free continuous shapes.
         double tauQ = Dynamics.OrnsteinUhlenbeckFit.Fit(qSums, frames, [], fitLags).TauFrames;
-        double tauL = Dynamics.OrnsteinUhlenbeckFit.Fit(lSums, frames, [], fitLags).TauFrames;
+        var fitL = Dynamics.OrnsteinUhlenbeckFit.Fit(lSums, frames, [], fitLags);
+        double tauL = fitL.TauFrames;
+        double signalRatio = fitL.SignalVariance / Dynamics.OrnsteinUhlenbeckFit.Fit(wSums, frames, [], fitLags).SignalVariance;
         double tauTh = Dynamics.OrientationCorrelation.FitTracks(thSums, [], maxLag, 20.0 * T).TauFrames;
         // Every track has T frames, so the frame-weighted pooled mean is the plain mean over cells.
         return new EllipseTruth(sL / sW, sAl / sAc, sL / n, sW / n, sAl / n, sAc / n, o.TauFrames, o.SigmaAlongPx, o.SigmaAcrossPx,
-            Math.Sqrt(sArea / (n * T) / Math.PI), tauQ, tauL, o.TauThetaFrames, tauTh, cx, cy, a, b, th, labels);
+            Math.Sqrt(sArea / (n * T) / Math.PI), tauQ, tauL, o.TauThetaFrames, tauTh, cx, cy, a, b, th, labels) { AnisotropySignalRealised = signalRatio };
     }
 
     /// <summary>Rasterises frame <paramref name="t"/>: a pixel belongs to a cell when its centre lies inside the ellipse.</summary>
