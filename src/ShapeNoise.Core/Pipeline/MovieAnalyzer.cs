@@ -80,6 +80,9 @@ public static class MovieAnalyzer
             throw new InputException(info.Path, $"has {tally.Frames} frame(s); fluctuations need a movie of at least 2 frames");
         times.Time("fluctuations", () => { tracker.Finish(); Collect(); return 0; });
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
+        // One-frame outliers leave every statistic and the nematic field (docs/measures.md#one-frame-errors).
+        var trackCounts = tracker.Counts();
+        if (trackCounts.Outliers > 0) tally.Cells.RemoveAll(c => tracker.IsOutlier(c.TrackId, c.Frame));
 
         progress?.Report(new Progress(0, 3, "fluctuation statistics"));
         // Field coverage: every labelled pixel (analysed cells and the ones excluded at the border or as too small) over
@@ -90,7 +93,12 @@ public static class MovieAnalyzer
         var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
         int used = 0;
         foreach (var t in tracks) if (t.Used) used++;
-        var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference));
+        var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference)) with
+        {
+            Divisions = trackCounts.Divisions, Merges = trackCounts.Merges, Outliers = trackCounts.Outliers,
+            BridgedMerges = trackCounts.BridgedMerges, BridgedSplits = trackCounts.BridgedSplits,
+            Fragments = TrackFragments.Count(tracks, tracking.MaxGapFrames),
+        };
         var cells = tally.Cells;
         double r0 = tally.MeanCellRadiusPx();
         progress?.Report(new Progress(1, 3, "correlation times"));
@@ -142,10 +150,9 @@ public static class MovieAnalyzer
     /// <summary>Cell records and the counts of what was seen and excluded, frame by frame.</summary>
     private sealed class FrameTally
     {
-        private int _objects, _border, _small, _nonStar, _divisions, _merges;
+        private int _objects, _border, _small, _nonStar;
         public int Frames { get; private set; }
         public List<CellRecord> Cells { get; } = [];
-        public double AreaSumPx2 { get; private set; }
         public double LabelledAreaSumPx2 { get; private set; }
 
         public void Add(FrameOutlines fo, OutlineShape?[] shapes, Placement[] placed)
@@ -160,18 +167,21 @@ public static class MovieAnalyzer
                 if (!sh.StarShaped) _nonStar++;
                 Cells.Add(new CellRecord(fo.Index, o.Label, p.TrackId, sh.Shape, p.ThetaContinuousRad, sh.StarShaped,
                     p.Modes![0].Real, 2 * p.Modes[2].Magnitude, o.Vertices.Length));
-                AreaSumPx2 += sh.Shape.AreaPx2;
                 LabelledAreaSumPx2 += sh.Shape.AreaPx2;
             }
-            if (fo.Links is not null) { _divisions += fo.Divisions; _merges += fo.Merges; }
             Frames++;
         }
 
         /// <summary>R0 = sqrt(mean area / pi) over the analysed outlines (NaN when there are none).</summary>
-        public double MeanCellRadiusPx() => Cells.Count > 0 ? Math.Sqrt(AreaSumPx2 / Cells.Count / Math.PI) : double.NaN;
+        public double MeanCellRadiusPx()
+        {
+            double sum = 0;
+            foreach (var c in Cells) sum += c.Shape.AreaPx2;   // the outlines still analysed (one-frame outliers removed)
+            return Cells.Count > 0 ? Math.Sqrt(sum / Cells.Count / Math.PI) : double.NaN;
+        }
 
         public AnalysisCounts Counts(int tracks, int used, int below)
-            => new(Frames, _objects, Cells.Count, _border, _small, _nonStar, tracks, used, below, _divisions, _merges);
+            => new(Frames, _objects, Cells.Count, _border, _small, _nonStar, tracks, used, below, 0, 0);   // divisions and merges: the tracker's, of analysed cells
     }
 
     private static int[] PixelCounts(LabelScan s)
