@@ -43,6 +43,7 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
     private readonly HashSet<(int TrackId, int Frame)> _outlierOutlines = [];
     private readonly List<(int Parent, int[] Children)> _divisions = [];
     private readonly List<(int Child, int[] Parents)> _merges = [];
+    private readonly Dictionary<int, int> _bornAtEvent = [];   // track id -> first frame, for tracks begun at a merge or split
     private int _bridgedMerges, _bridgedSplits, _outliers;
     private int[]? _prevSlot;               // open-track slot of each outline of the previous frame, or -1
     private int[]? _prevTrack;              // track id of each outline of the previous frame, or 0
@@ -83,6 +84,9 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
             var (s, theta, modes) = _builder.Append(continues ? _prevSlot![a] : resume[i], frameIndex, sh.Shape, sh.RhoRaw, sh.ModesRaw);
             slot[i] = s;
             track[i] = _builder.IdOf(s);
+            if (!continues && resume[i] < 0 && family is not null && family.Parents[i].Count > 0
+                && (links!.Merged[i] || family.Parents[i].Any(p => links.Divided[p])))
+                _bornAtEvent[track[i]] = frameIndex;
             placed[i] = new Placement(track[i], theta, modes);
         }
         if (links is not null && _prevSlot is not null)
@@ -153,12 +157,9 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
             for (int b = 0; b < newcomers.Count; b++)
             {
                 var dm = _dormant[a];
-                bool allowed = dm.Why switch
-                {
-                    TrackEnd.Merge => parentTracks[b].Contains(dm.Via),
-                    TrackEnd.Division => links is not null && links.Merged[newcomers[b]] && parentTracks[b].Count(dm.Kids.Contains) >= 2,
-                    _ => true,
-                };
+                bool allowed = dm.Via != 0 ? parentTracks[b].Contains(dm.Via)
+                    : dm.Kids.Length > 0 ? links is not null && links.Merged[newcomers[b]] && parentTracks[b].Count(dm.Kids.Contains) >= 2
+                    : true;
                 var c = shapes[newcomers[b]]!.Shape;
                 double dx = c.CentroidX - dm.X, dy = c.CentroidY - dm.Y;
                 double dist = Math.Sqrt(dx * dx + dy * dy);
@@ -170,8 +171,8 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
             if (match[a] < 0) continue;
             var dm = _dormant[a];
             resume[newcomers[match[a]]] = dm.Slot;
-            if (dm.Why == TrackEnd.Merge && _outlierTracks.Add(dm.Via)) _bridgedMerges++;
-            else if (dm.Why == TrackEnd.Division) { foreach (var k in dm.Kids) _outlierTracks.Add(k); _bridgedSplits++; }
+            if (dm.Via != 0) { if (_outlierTracks.Add(dm.Via)) _bridgedMerges++; }
+            else if (dm.Kids.Length > 0) { foreach (var k in dm.Kids) _outlierTracks.Add(k); _bridgedSplits++; }
             _dormant.RemoveAt(a);
         }
         return resume;
@@ -193,8 +194,16 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
             int via = why == TrackEnd.Merge && family is not null && links.Pairs is not null ? track[b] : 0;
             int[] kids = why == TrackEnd.Division && family is not null && links.Pairs is not null
                 ? [.. family.Children[a].Where(c => track[c] != 0).Select(c => track[c])] : [];
-            bool sleeps = options.MaxGapFrames > 0 && !_outlierTracks.Contains(_prevTrack![a])
-                && (why == TrackEnd.Lost || (why == TrackEnd.Merge && via != 0) || (why == TrackEnd.Division && kids.Length >= 2));
+            int id = _prevTrack![a];
+            // The short track between a merge or split and its reversal: begun at one, ended by one within --max-gap frames.
+            if (options.MaxGapFrames > 0 && why is TrackEnd.Merge or TrackEnd.Division && _bornAtEvent.TryGetValue(id, out int born)
+                && _prevFrame - born + 1 <= options.MaxGapFrames)
+                _outlierTracks.Add(id);
+            _bornAtEvent.Remove(id);
+            // A merge into an excluded object (border, small) or a split with fewer than two analysed parts: the track
+            // sleeps as a lost one and may resume at any new outline near it.
+            if (why == TrackEnd.Merge && via == 0 || why == TrackEnd.Division && kids.Length < 2) { via = 0; kids = []; }
+            bool sleeps = options.MaxGapFrames > 0 && !_outlierTracks.Contains(id) && why is TrackEnd.Lost or TrackEnd.Merge or TrackEnd.Division;
             if (sleeps)
             {
                 var s = _prevShapes![a]!.Shape;
