@@ -13,15 +13,22 @@ public static class AnalysisWarnings
     /// <param name="DefectTracks">Defect tracks found.</param>
     /// <param name="PlusTracksUsed">+1/2 defect tracks followed for 3 or more frames.</param>
     /// <param name="HypothesisDefectTracks">+1/2 defect tracks with a local anisotropy in the hypothesis test.</param>
+    /// <param name="MaxGapFrames">--max-gap (docs/measures.md#one-frame-errors).</param>
     public sealed record Inputs(AnalysisCounts Counts, int MinTrackFrames, bool SokalWindowReached, int MaxLag, double Coverage,
-        int DefectTracks, int PlusTracksUsed, int HypothesisDefectTracks);
+        int DefectTracks, int PlusTracksUsed, int HypothesisDefectTracks, int MaxGapFrames = 2);
+
+    /// <summary>Share of outlines flagged as one-frame outliers above which the segmentation is questioned.</summary>
+    public const double MaxOutlierShare = 0.05;
+    /// <summary>Fragments per used track above which the tracks are said to break up.</summary>
+    public const double MaxFragmentShare = 0.1;
 
     /// <summary>Cell coverage below which the nematic field's confluence assumption is flagged.</summary>
     public const double MinCoverage = 0.7;
 
     /// <summary>The warnings of eight rules: no used track; fewer than 10; over 10% non-star-shaped outlines; over 25% of
     /// used tracks below the noise floor; Sokal window not reached; coverage below 70%; no +1/2 defect followed for 3
-    /// frames; fewer than 3 defect tracks for the hypothesis test.</summary>
+    /// frames; fewer than 3 defect tracks for the hypothesis test; then, for one-frame segmentation errors
+    /// (docs/measures.md#one-frame-errors), over 5% of outlines outliers and fragments over 10% of the used tracks.</summary>
     public static List<string> Of(Inputs x)
     {
         var w = new List<string>();
@@ -40,6 +47,12 @@ public static class AnalysisWarnings
             w.Add("no +1/2 defect was followed for 3 or more frames: headward speeds are undefined");
         if (x.PlusTracksUsed > 0 && x.HypothesisDefectTracks < 3)
             w.Add($"only {x.HypothesisDefectTracks} +1/2 defect track(s) with a local anisotropy: the within-movie hypothesis test needs 3 or more; compare movies instead");
+        int seen = c.Outlines + c.Outliers;
+        if (seen > 0 && c.Outliers > MaxOutlierShare * seen)
+            w.Add($"{c.Outliers} of {seen} outlines are one-frame outliers (segmentation errors, left out of the statistics): check the segmentation");
+        if (used > 0 && c.Fragments > MaxFragmentShare * used)
+            w.Add($"{c.Fragments} tracks end and a new track starts next to them (fragments): segmentation errors last longer than --max-gap {x.MaxGapFrames} frames"
+                + (x.MaxGapFrames == 0 ? " (gap closing is off)" : ""));
         return w;
     }
 }

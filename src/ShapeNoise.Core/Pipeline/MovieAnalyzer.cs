@@ -119,7 +119,7 @@ public static class MovieAnalyzer
             hypothesis = hypothesis with { Status = EstimateStatus.NotApplicable };
         }
         warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
-            coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks)));
+            coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks, tracking.MaxGapFrames)));
         progress?.Report(new Progress(3, 3, "done"));
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
         {
