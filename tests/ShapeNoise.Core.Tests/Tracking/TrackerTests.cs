@@ -222,6 +222,30 @@ public class TrackerTests
     }
 
     [Fact]
+    public void TakeFinished_OneFrameSpikeInAreaThatReverts_DropsThatOutlineAndKeepsTheTrack()
+    {
+        // docs/measures.md#one-frame-errors: frame 5 is outlined 1.6 times too large (one-to-one linked), then reverts.
+        static Outline Scaled(double cx, double a, double b)
+        {
+            var v = new Point2[48];
+            for (int k = 0; k < v.Length; k++) { double t = 2 * Math.PI * k / v.Length; v[k] = new Point2(cx + a * Math.Cos(t), 40 + b * Math.Sin(t)); }
+            return new Outline(1, OutlineStatus.Ok, v, (int)(Math.PI * a * b));
+        }
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 2, minTrackFrames: 3));
+        for (int f = 0; f < 12; f++)
+        {
+            double wiggle = 0.3 * Math.Sin(1.7 * f);
+            var o = f == 5 ? Scaled(40, 16, 9.6) : Scaled(40 + 0.2 * f, 10 + wiggle, 6 - 0.5 * wiggle);
+            Step(tracker, f, [o], f == 0 ? null : OneToOne(1, 0));
+        }
+        tracker.Finish();
+        var t = Assert.Single(tracker.TakeFinished());
+        Assert.Equal(Enumerable.Range(0, 12).Where(f => f != 5), t.FrameIndex);
+        Assert.Equal(1, tracker.Counts().Outliers);
+        Assert.True(tracker.IsOutlier(t.Id, 5));
+    }
+
+    [Fact]
     public void Step_CellReachesTheBorder_EndsWithBorderAndIsNotPlaced()
     {
         using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 2));
