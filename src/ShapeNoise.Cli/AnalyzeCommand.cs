@@ -19,7 +19,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--min-area <PX>"), Description("Exclude objects smaller than this (px).")] public int MinArea { get; init; } = 30;
         [CommandOption("--border-margin <PX>"), Description("Exclude objects within this distance of the image edge (px).")] public int BorderMargin { get; init; } = 1;
         [CommandOption("--min-track <FRAMES>"), Description("Only tracks at least this long enter the statistics.")] public int MinTrack { get; init; } = 10;
-        [CommandOption("--max-gap <FRAMES>"), Description("A track lost for at most this many frames resumes when its cell reappears near its last position.")] public int MaxGap { get; init; }
+        [CommandOption("--max-gap <FRAMES>"), Description("A track lost, merged or split for at most this many frames resumes when its cell reappears near its last position (one-frame segmentation errors are bridged; 0 = off).")] public int MaxGap { get; init; } = 2;
         [CommandOption("--outline <METHOD>"), Description("Outline placement: midpoint, subpixel or pixel-edge.")] public string Outline { get; init; } = "midpoint";
         [CommandOption("--link-overlap <FRACTION>"), Description("Overlap fraction (of the smaller mask) that links masks in consecutive frames.")] public double LinkOverlap { get; init; } = 0.25;
         [CommandOption("--bootstrap <N>"), Description("Bootstrap resamples over tracks.")] public int Bootstrap { get; init; } = 1000;

@@ -118,7 +118,11 @@ public static class HtmlReport
           .Append("</style></head>\n<body>\n");
         sb.Append("<h1>Cell-shape fluctuations of ").Append(E(Path.GetFileName(r.Movie.Path.TrimEnd('/')))).Append("</h1>\n");
         sb.Append("<p>").Append(r.Counts.Frames).Append(" frames, ").Append(r.Counts.Outlines).Append(" outlines, ")
-          .Append(r.Counts.TracksUsed).Append(" of ").Append(r.Counts.Tracks).Append(" tracks in the statistics; units: ")
+          .Append(r.Counts.TracksUsed).Append(" of ").Append(r.Counts.Tracks).Append(" tracks in the statistics (")
+          .Append(r.Counts.Fragments).Append(" fragments; ").Append(r.Counts.Divisions).Append(" divisions and ").Append(r.Counts.Merges)
+          .Append(" merges of analysed cells; one-frame errors bridged: ").Append(r.Counts.Outliers).Append(" outlier outlines, ")
+          .Append(r.Counts.BridgedMerges).Append(" merges, ").Append(r.Counts.BridgedSplits).Append(" splits, --max-gap ")
+          .Append(r.Options.MaxGapFrames).Append("); units: ")
           .Append(E(u.LengthName)).Append(", ").Append(E(u.TimeName)).Append(". Intervals are 95% bootstrap intervals over tracks (seed ")
           .Append(r.Options.Seed).Append(").</p>\n<h2>Headline</h2>\n<ul>\n");
         foreach (var h in Headlines(r)) sb.Append("<li>").Append(E(h)).Append("</li>\n");

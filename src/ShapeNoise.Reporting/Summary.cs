@@ -77,6 +77,11 @@ public static class Summary
             ["non_star_shaped"] = c.NonStarShaped,
             ["divisions"] = c.Divisions,
             ["merges"] = c.Merges,
+            // One-frame segmentation errors (docs/measures.md#one-frame-errors).
+            ["outliers"] = c.Outliers,
+            ["bridged_merges"] = c.BridgedMerges,
+            ["bridged_splits"] = c.BridgedSplits,
+            ["fragments"] = c.Fragments,
             ["anisotropy"] = Interval(p.Anisotropy),
             ["anisotropy_contour"] = Interval(p.AnisotropyContour),
             ["anisotropy_contour_raw"] = Interval(p.AnisotropyContourRaw),

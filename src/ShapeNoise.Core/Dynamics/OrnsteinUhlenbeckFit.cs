@@ -137,6 +137,9 @@ internal static class OrnsteinUhlenbeckFit
         }
         var eS = new double[K]; var eN = new double[K]; var tS = new double[K]; var tN = new double[K];
         var target = new double[K]; var weight = new double[K];
+        // Gapped tracks: their expectation is linear in the powers rho^h, so their weighted lag structure is summed once
+        // per call (not once per rho) and each objective costs O(K x span) for all of them together.
+        var gaps = GapLags.Sum(gapped, K);
         for (int k = 0; k < K; k++) { target[k] = c[k]; weight[k] = pairs[k]; }
 
         double Objective(double rho, out double s2, out double e2)
@@ -147,11 +150,7 @@ internal static class OrnsteinUhlenbeckFit
                 ExpectedSumsContiguous(len, rho, tS, tN);
                 for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
             }
-            foreach (var (f, gw) in gapped)
-            {
-                ExpectedSums(f, rho, tS, tN);
-                for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
-            }
+            gaps.AddTo(rho, eS, eN);
             // Model of the pooled estimate: E[c(k)] = (sigma^2 eS[k] + eta^2 eN[k]) / pairs[k].
             double saa = 0, sab = 0, sbb = 0, sya = 0, syb = 0;
             for (int k = 0; k < K; k++)
@@ -182,4 +181,90 @@ internal static class OrnsteinUhlenbeckFit
         Objective(rho, out var sig2, out var eta2);
         return new OuFit(rho, tau, sig2, eta2, uncorrected);
     }
+}
+
+/// <summary>
+/// The expected lagged sums of <see cref="OrnsteinUhlenbeckFit.ExpectedSums"/> for a track with gaps, rewritten as a
+/// polynomial in rho: with frames f_i (n of them), d_i[h] = #{j : |f_i - f_j| = h}, P[k] = #{pairs f_j - f_i = k},
+/// m_i[k] = [f_i + k seen] + [f_i - k seen] (2 at k = 0) and D[h] = sum_i d_i[h],
+/// E_signal[k] = P[k] rho^k + sum_h Q[k, h] rho^h with Q[k, h] = P[k] D[h] / n^2 - (1/n) sum_i m_i[k] d_i[h],
+/// and E_noise[k] = P[k] ([k = 0] - 1/n), independent of rho. The weighted sum over tracks of P and Q is formed once, so
+/// every evaluation of the fit's objective costs O(K x span) however many tracks have gaps (docs/measures.md#one-frame-errors).
+/// </summary>
+/// <remarks>Same expectation as the direct summation (Priestley M.B. (1981), Spectral Analysis and Time Series, sec. 5.3,
+/// for E[c(k)] of a mean-centred series), reordered; each track's structure is computed once per run and cached.</remarks>
+internal sealed class GapLags
+{
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<int[], GapLags> Cache = new();
+    private readonly int _lags, _span;
+    private readonly double[] _pairs, _noise, _q;       // P[k]; P[k]([k=0] - 1/n); Q[k * span + h]
+
+    private GapLags(int lags, int span, double[] pairs, double[] noise, double[] q)
+    { _lags = lags; _span = span; _pairs = pairs; _noise = noise; _q = q; }
+
+    /// <summary>The lag structure of one track's frames for lags 0..<paramref name="lags"/> - 1.</summary>
+    public static GapLags Of(int[] frames, int lags)
+    {
+        if (Cache.TryGetValue(frames, out var hit) && hit._lags == lags) return hit;
+        int n = frames.Length, f0 = frames[0], span = frames[n - 1] - f0 + 1;
+        var seen = new bool[span];
+        foreach (var f in frames) seen[f - f0] = true;
+        var d = new int[n, span];
+        var dSum = new double[span];
+        for (int i = 0; i < n; i++)
+            for (int j = 0; j < n; j++) { int h = Math.Abs(frames[i] - frames[j]); d[i, h]++; dSum[h]++; }
+        var pairs = new double[lags]; var noise = new double[lags];
+        var q = new double[lags * span];
+        for (int k = 0; k < lags; k++)
+        {
+            for (int i = 0; i < n; i++)
+            {
+                int u = frames[i] - f0;
+                bool up = u + k < span && seen[u + k], down = u - k >= 0 && seen[u - k];
+                if (up) pairs[k]++;
+                int m = k == 0 ? 2 : (up ? 1 : 0) + (down ? 1 : 0);
+                if (m == 0) continue;
+                for (int h = 0; h < span; h++) q[k * span + h] -= (double)m * d[i, h] / n;
+            }
+            for (int h = 0; h < span; h++) q[k * span + h] += pairs[k] * dSum[h] / ((double)n * n);
+            noise[k] = pairs[k] * ((k == 0 ? 1 : 0) - 1.0 / n);
+        }
+        var g = new GapLags(lags, span, pairs, noise, q);
+        Cache.AddOrUpdate(frames, g);
+        return g;
+    }
+
+    /// <summary>The weighted sum of the tracks' structures (weights = bootstrap multiplicities).</summary>
+    public static GapLags Sum(List<(int[] Frames, int W)> tracks, int lags)
+    {
+        int span = 1;
+        var parts = new List<(GapLags G, int W)>(tracks.Count);
+        foreach (var (f, w) in tracks) { var g = Of(f, lags); parts.Add((g, w)); span = Math.Max(span, g._span); }
+        var pairs = new double[lags]; var noise = new double[lags]; var q = new double[lags * span];
+        foreach (var (g, w) in parts)
+            for (int k = 0; k < lags; k++)
+            {
+                pairs[k] += w * g._pairs[k]; noise[k] += w * g._noise[k];
+                for (int h = 0; h < g._span; h++) q[k * span + h] += w * g._q[k * g._span + h];
+            }
+        return new GapLags(lags, span, pairs, noise, q);
+    }
+
+    /// <summary>Adds the expected sums per unit sigma^2 (<paramref name="signal"/>) and per unit eta^2
+    /// (<paramref name="noise"/>) at lag-1 correlation <paramref name="rho"/>.</summary>
+    public void AddTo(double rho, Span<double> signal, Span<double> noise)
+    {
+        int len = Math.Max(_span, _lags);
+        Span<double> pow = len <= 512 ? stackalloc double[len] : new double[len];
+        pow[0] = 1;
+        for (int h = 1; h < len; h++) pow[h] = pow[h - 1] * rho;
+        for (int k = 0; k < _lags && k < signal.Length; k++)
+        {
+            double s = _pairs[k] * pow[k];
+            int row = k * _span;
+            for (int h = 0; h < _span; h++) s += _q[row + h] * pow[h];
+            signal[k] += s; noise[k] += _noise[k];
+        }
+    }
+
 }

@@ -36,8 +36,9 @@ public sealed record AnalysisOptions
     public int BorderMarginPx { get; init; } = 1;
     /// <summary>Only tracks with at least this many frames enter the statistics (spec: --min-track, 10).</summary>
     public int MinTrackFrames { get; init; } = 10;
-    /// <summary>A track lost for at most this many frames resumes when its cell reappears near its last position (spec: --max-gap, 0).</summary>
-    public int MaxGapFrames { get; init; }
+    /// <summary>A track lost, merged or split for at most this many frames resumes when its cell reappears near its last
+    /// position (--max-gap, default 2; docs/measures.md#one-frame-errors).</summary>
+    public int MaxGapFrames { get; init; } = 2;
     /// <summary>Outline placement.</summary>
     public OutlineMethod Outline { get; init; } = OutlineMethod.Midpoint;
     /// <summary>Overlap fraction that makes two masks in consecutive frames candidates for the same cell.</summary>

@@ -13,8 +13,9 @@ public static class AnalysisWarnings
     /// <param name="DefectTracks">Defect tracks found.</param>
     /// <param name="PlusTracksUsed">+1/2 defect tracks followed for 3 or more frames.</param>
     /// <param name="HypothesisDefectTracks">+1/2 defect tracks with a local anisotropy in the hypothesis test.</param>
+    /// <param name="MaxGapFrames">--max-gap (docs/measures.md#one-frame-errors).</param>
     public sealed record Inputs(AnalysisCounts Counts, int MinTrackFrames, bool SokalWindowReached, int MaxLag, double Coverage,
-        int DefectTracks, int PlusTracksUsed, int HypothesisDefectTracks)
+        int DefectTracks, int PlusTracksUsed, int HypothesisDefectTracks, int MaxGapFrames = 2)
     {
         /// <summary>Cell flow at the +1/2 cores over the defects' own speed (Nematic.HeadwardStatistics.CoreFlowRatio); NaN = not checked.</summary>
         public double CoreFlowRatio { get; init; } = double.NaN;
@@ -26,13 +27,19 @@ public static class AnalysisWarnings
     /// partly carried by the local flow (docs/defects.md#drift).</summary>
     public const double MaxCoreFlowRatio = 0.5;
 
+    /// <summary>Share of outlines flagged as one-frame outliers above which the segmentation is questioned.</summary>
+    public const double MaxOutlierShare = 0.05;
+    /// <summary>Fragments per used track above which the tracks are said to break up.</summary>
+    public const double MaxFragmentShare = 0.1;
+
     /// <summary>Cell coverage below which the nematic field's confluence assumption is flagged.</summary>
     public const double MinCoverage = 0.7;
 
     /// <summary>The warnings of nine rules: no used track; fewer than 10; over 10% non-star-shaped outlines; over 25% of
     /// used tracks below the noise floor; Sokal window not reached; coverage below 70%; no +1/2 defect followed for 3
     /// frames; fewer than 3 defect tracks for the hypothesis test; cell flow at the +1/2 cores above half the defects'
-    /// own speed (docs/defects.md#drift).</summary>
+    /// own speed (docs/defects.md#drift); then, for one-frame segmentation errors (docs/measures.md#one-frame-errors),
+    /// over 5% of outlines outliers and fragments over 10% of the used tracks.</summary>
     public static List<string> Of(Inputs x)
     {
         var w = new List<string>();
@@ -54,6 +61,12 @@ public static class AnalysisWarnings
         if (x.CoreFlowRatio > MaxCoreFlowRatio)
             w.Add($"cells at the +1/2 cores move at {x.CoreFlowRatio:0.00} times the defects' own speed{(x.DriftRemoved ? " (stage drift removed)" : " (drift kept, --keep-drift)")}: " +
                   "the defects are partly carried by the local flow, so their headward speed mixes their own motion with transport; compare it with the flow headward speed");
+        int seen = c.Outlines + c.Outliers;
+        if (seen > 0 && c.Outliers > MaxOutlierShare * seen)
+            w.Add($"{c.Outliers} of {seen} outlines are one-frame outliers (segmentation errors, left out of the statistics): check the segmentation");
+        if (used > 0 && c.Fragments > MaxFragmentShare * used)
+            w.Add($"{c.Fragments} tracks end and a new track starts next to them (fragments): segmentation errors last longer than --max-gap {x.MaxGapFrames} frames"
+                + (x.MaxGapFrames == 0 ? " (gap closing is off)" : ""));
         return w;
     }
 }

@@ -90,6 +90,9 @@ public static class MovieAnalyzer
             throw new InputException(info.Path, $"has {tally.Frames} frame(s); fluctuations need a movie of at least 2 frames");
         times.Time("fluctuations", () => { tracker.Finish(); Collect(); return 0; });
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
+        // One-frame outliers leave every statistic and the nematic field (docs/measures.md#one-frame-errors).
+        var trackCounts = tracker.Counts();
+        if (trackCounts.Outliers > 0) tally.Cells.RemoveAll(c => tracker.IsOutlier(c.TrackId, c.Frame));
 
         progress?.Report(new Progress(0, 3, "fluctuation statistics"));
         // Field coverage, per frame: covered pixels (labelled ones and the background in gaps of at most Coverage.MaxGapPx
@@ -103,7 +106,12 @@ public static class MovieAnalyzer
         var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
         int used = 0;
         foreach (var t in tracks) if (t.Used) used++;
-        var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference));
+        var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference)) with
+        {
+            Divisions = trackCounts.Divisions, Merges = trackCounts.Merges, Outliers = trackCounts.Outliers,
+            BridgedMerges = trackCounts.BridgedMerges, BridgedSplits = trackCounts.BridgedSplits,
+            Fragments = TrackFragments.Count(tracks, tracking.MaxGapFrames),
+        };
         var cells = tally.Cells;
         double r0 = tally.MeanCellRadiusPx();
         progress?.Report(new Progress(1, 3, "correlation times"));
@@ -124,7 +132,7 @@ public static class MovieAnalyzer
             hypothesis = hypothesis with { Status = EstimateStatus.NotApplicable };
         }
         warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
-            coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks)
+            coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks, tracking.MaxGapFrames)
         { CoreFlowRatio = defects.NotApplicableReason is null ? defects.CoreFlowRatio : double.NaN, DriftRemoved = defects.DriftRemoved }));
         progress?.Report(new Progress(3, 3, "done"));
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
@@ -159,10 +167,9 @@ public static class MovieAnalyzer
     /// <summary>Cell records and the counts of what was seen and excluded, frame by frame.</summary>
     private sealed class FrameTally
     {
-        private int _objects, _border, _small, _nonStar, _divisions, _merges;
+        private int _objects, _border, _small, _nonStar;
         public int Frames { get; private set; }
         public List<CellRecord> Cells { get; } = [];
-        public double AreaSumPx2 { get; private set; }
         public double LabelledAreaSumPx2 { get; private set; }
         public double CoveredAreaSumPx2 { get; private set; }
 
@@ -179,21 +186,24 @@ public static class MovieAnalyzer
                 if (!sh.StarShaped) _nonStar++;
                 Cells.Add(new CellRecord(fo.Index, o.Label, p.TrackId, sh.Shape, p.ThetaContinuousRad, sh.StarShaped,
                     p.Modes![0].Real, 2 * p.Modes[2].Magnitude, o.Vertices.Length));
-                AreaSumPx2 += sh.Shape.AreaPx2;
                 outlineAreaPx2 += sh.Shape.AreaPx2;
             }
             // Label movies: pixel counts of the mask; outline tables: the outline areas, with no gap closing.
             LabelledAreaSumPx2 += fo.LabelledPx >= 0 ? fo.LabelledPx : outlineAreaPx2;
             CoveredAreaSumPx2 += fo.CoveredPx >= 0 ? fo.CoveredPx : outlineAreaPx2;
-            if (fo.Links is not null) { _divisions += fo.Divisions; _merges += fo.Merges; }
             Frames++;
         }
 
         /// <summary>R0 = sqrt(mean area / pi) over the analysed outlines (NaN when there are none).</summary>
-        public double MeanCellRadiusPx() => Cells.Count > 0 ? Math.Sqrt(AreaSumPx2 / Cells.Count / Math.PI) : double.NaN;
+        public double MeanCellRadiusPx()
+        {
+            double sum = 0;
+            foreach (var c in Cells) sum += c.Shape.AreaPx2;   // the outlines still analysed (one-frame outliers removed)
+            return Cells.Count > 0 ? Math.Sqrt(sum / Cells.Count / Math.PI) : double.NaN;
+        }
 
         public AnalysisCounts Counts(int tracks, int used, int below)
-            => new(Frames, _objects, Cells.Count, _border, _small, _nonStar, tracks, used, below, _divisions, _merges);
+            => new(Frames, _objects, Cells.Count, _border, _small, _nonStar, tracks, used, below, 0, 0);   // divisions and merges: the tracker's, of analysed cells
     }
 
     private static int[] PixelCounts(LabelScan s)

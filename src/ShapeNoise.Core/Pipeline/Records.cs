@@ -4,9 +4,11 @@ using ShapeNoise.Tracking;
 
 namespace ShapeNoise.Pipeline;
 
-/// <summary>Counts of what was seen and excluded.</summary>
+/// <summary>Counts of what was seen and excluded. Divisions and merges count analysed cells only; Outliers,
+/// BridgedMerges, BridgedSplits and Fragments are the one-frame segmentation errors (docs/measures.md#one-frame-errors).</summary>
 public sealed record AnalysisCounts(int Frames, int Objects, int Outlines, int ExcludedBorder, int ExcludedSmall, int NonStarShaped,
-    int Tracks, int TracksUsed, int TracksBelowFloor, int Divisions, int Merges);
+    int Tracks, int TracksUsed, int TracksBelowFloor, int Divisions, int Merges,
+    int Outliers = 0, int BridgedMerges = 0, int BridgedSplits = 0, int Fragments = 0);
 
 /// <summary>Physical scale: pixel size and frame interval, each from metadata, options or unknown.</summary>
 public sealed record Units(double? PixelSizeUm, string PixelSizeSource, double? FrameIntervalMin, string FrameIntervalSource)

@@ -19,4 +19,19 @@ public sealed record FinishedTrack(int Id, TrackEnd End, int[] FrameIndex, doubl
 {
     /// <summary>Number of outlines in the track.</summary>
     public int Frames => FrameIndex.Length;
+
+    /// <summary>The same track without the outlines where <paramref name="drop"/> is true (a gap in its frames there).</summary>
+    public FinishedTrack Without(bool[] drop)
+    {
+        if (drop.Length != Frames) throw new ArgumentException("one flag per outline expected", nameof(drop));
+        var keep = Enumerable.Range(0, Frames).Where(i => !drop[i]).ToArray();
+        T[] K<T>(T[] a) => [.. keep.Select(i => a[i])];
+        var rho = new double[keep.Length * Rays];
+        for (int j = 0; j < keep.Length; j++) Array.Copy(BodyFrameRadiiPx, keep[j] * Rays, rho, j * Rays, Rays);
+        return this with
+        {
+            FrameIndex = K(FrameIndex), LengthPx = K(LengthPx), WidthPx = K(WidthPx), Elongation = K(Elongation), ThetaRad = K(ThetaRad),
+            AreaPx2 = K(AreaPx2), CentroidX = K(CentroidX), CentroidY = K(CentroidY), BodyFrameRadiiPx = rho,
+        };
+    }
 }

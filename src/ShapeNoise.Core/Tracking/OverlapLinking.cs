@@ -11,6 +11,9 @@ public sealed record FrameLinks(int[] Predecessor, bool[] Divided, bool[] Merged
     public int Divisions { get { int n = 0; foreach (var d in Divided) if (d) n++; return n; } }
     /// <summary>Number of objects of the later frame that formed by merging (count of true in <see cref="Merged"/>).</summary>
     public int Merges { get { int n = 0; foreach (var m in Merged) if (m) n++; return n; } }
+    /// <summary>Every significant pair (earlier object, later object), or null when the links were built without them
+    /// (outline tables); the tracker needs them to bridge merges and splits that revert (docs/measures.md#one-frame-errors).</summary>
+    public (int Earlier, int Later)[]? Pairs { get; init; }
 }
 
 /// <summary>One-to-one linking of label masks in consecutive frames by pixel overlap; label ids need not be stable.</summary>
@@ -49,10 +52,12 @@ public static class OverlapLinking
 
         var succCount = new int[np]; var succOf = new int[np];
         var predCount = new int[nc]; var predOf = new int[nc];
+        var pairs = new List<(int, int)>();
         foreach (var (key, o) in overlap)
         {
             int a = (int)(key / nc), b = (int)(key % nc);
             if (o < minOverlapFraction * Math.Min(prevCount[a], curCount[b])) continue;
+            pairs.Add((a, b));
             succCount[a]++; succOf[a] = b;
             predCount[b]++; predOf[b] = a;
         }
@@ -71,6 +76,7 @@ public static class OverlapLinking
                 if (succCount[a] == 1 && succOf[a] == b) pred[b] = a;
             }
         }
-        return new FrameLinks(pred, divided, merged, succ);
+        pairs.Sort();
+        return new FrameLinks(pred, divided, merged, succ) { Pairs = [.. pairs] };
     }
 }

@@ -96,7 +96,7 @@ public class GapClosingTests
             }
             frames.Add(img);
         }
-        var noGap = ShapeNoise.Pipeline.MovieAnalyzer.Run(new Support.MemoryMovie(w, h, frames), new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 0, MinTrackFrames = 5 });
+        var noGap = ShapeNoise.Pipeline.MovieAnalyzer.Run(new Support.MemoryMovie(w, h, frames), new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 0, MinTrackFrames = 5, MaxGapFrames = 0 });
         var gap = ShapeNoise.Pipeline.MovieAnalyzer.Run(new Support.MemoryMovie(w, h, frames), new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 0, MinTrackFrames = 5, MaxGapFrames = 1 });
         Assert.Equal(4, noGap.Counts.Tracks);                  // blob 2 splits into two tracks at the gap
         Assert.Equal(3, gap.Counts.Tracks);                    // with --max-gap 1 it is one track

@@ -142,7 +142,7 @@ public class TrackerTests
     [Fact]
     public void Step_Division_EndsTheMotherTrackWithDivision()
     {
-        using var tracker = new Tracker(Rays, new TrackingOptions());
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 0));   // without --max-gap: ends at once
         Step(tracker, 0, [Ellipse(1, 40, 40)], null);
         // Two significant successors: divided, no one-to-one link.
         var placed = Step(tracker, 1, [Ellipse(1, 34, 40), Ellipse(2, 46, 40)], new FrameLinks([-1, -1], [true], [false, false], [-1]));
@@ -154,12 +154,95 @@ public class TrackerTests
     [Fact]
     public void Step_Merge_EndsBothTracksWithMerge()
     {
-        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 3));   // a merge is no gap: no resuming
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 0));   // without --max-gap: ends at once
         Step(tracker, 0, [Ellipse(1, 30, 40), Ellipse(2, 50, 40)], null);
         var placed = Step(tracker, 1, [Ellipse(1, 40, 40)], new FrameLinks([-1], [false, false], [true], [0, 0]));
         var ended = tracker.TakeFinished().OrderBy(t => t.Id).ToList();
         Assert.Equal([(1, TrackEnd.Merge), (2, TrackEnd.Merge)], ended.Select(t => (t.Id, t.End)));
         Assert.Equal(3, placed[0].TrackId);
+    }
+
+    /// <summary>Links with their significant pairs (earlier, later), as the overlap rule gives them.</summary>
+    private static FrameLinks WithPairs(int earlier, int later, params (int A, int B)[] pairs)
+    {
+        var succCount = new int[earlier]; var predCount = new int[later]; var succOf = new int[earlier]; var predOf = new int[later];
+        foreach (var (a, b) in pairs) { succCount[a]++; succOf[a] = b; predCount[b]++; predOf[b] = a; }
+        var pred = new int[later]; var succ = new int[earlier];
+        for (int a = 0; a < earlier; a++) succ[a] = succCount[a] == 1 ? succOf[a] : -1;
+        for (int b = 0; b < later; b++) pred[b] = predCount[b] == 1 && succCount[predOf[b]] == 1 ? predOf[b] : -1;
+        return new FrameLinks(pred, [.. succCount.Select(c => c >= 2)], [.. predCount.Select(c => c >= 2)], succ) { Pairs = pairs };
+    }
+
+    [Fact]
+    public void Step_MergeThatSplitsBackWithinMaxGap_BridgesBothTracksAndDropsTheMerge()
+    {
+        // docs/measures.md#one-frame-errors: A and B merge into M in frame 1, M splits back into A and B in frame 2.
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 2, minTrackFrames: 3));
+        Step(tracker, 0, [Ellipse(1, 30, 40), Ellipse(2, 50, 40)], null);
+        Step(tracker, 1, [Ellipse(1, 40, 40)], WithPairs(2, 1, (0, 0), (1, 0)));
+        var placed = Step(tracker, 2, [Ellipse(1, 30, 40), Ellipse(2, 50, 40)], WithPairs(1, 2, (0, 0), (0, 1)));
+        Step(tracker, 3, [Ellipse(1, 30, 40), Ellipse(2, 50, 40)], OneToOne(2, 0, 1));
+        tracker.Finish();
+        var done = tracker.TakeFinished().OrderBy(t => t.Id).ToList();
+        Assert.Equal([1, 2], placed.Select(p => p.TrackId));
+        Assert.Equal([1, 2], done.Select(t => t.Id));                     // M (track 3) is not handed over
+        Assert.All(done, t => Assert.Equal([0, 2, 3], t.FrameIndex));     // bridged across frame 1
+        var c = tracker.Counts();
+        Assert.Equal((1, 0, 1, 0, 0), (c.BridgedMerges, c.BridgedSplits, c.Outliers, c.Merges, c.Divisions));
+        Assert.True(tracker.IsOutlier(3, 1));
+    }
+
+    [Fact]
+    public void Step_SplitThatMergesBackWithinMaxGap_BridgesTheTrackAndDropsTheParts()
+    {
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 2, minTrackFrames: 3));
+        Step(tracker, 0, [Ellipse(1, 40, 40)], null);
+        Step(tracker, 1, [Ellipse(1, 34, 40), Ellipse(2, 46, 40)], WithPairs(1, 2, (0, 0), (0, 1)));
+        var placed = Step(tracker, 2, [Ellipse(1, 40, 40)], WithPairs(2, 1, (0, 0), (1, 0)));
+        tracker.Finish();
+        var done = Assert.Single(tracker.TakeFinished());
+        Assert.Equal(1, placed[0].TrackId);
+        Assert.Equal([0, 2], done.FrameIndex);
+        var c = tracker.Counts();
+        Assert.Equal((0, 1, 2, 0, 0), (c.BridgedMerges, c.BridgedSplits, c.Outliers, c.Merges, c.Divisions));
+    }
+
+    [Fact]
+    public void Step_DivisionThatPersists_IsCountedAndTheMotherEndsWithDivision()
+    {
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 2, minTrackFrames: 3));
+        Step(tracker, 0, [Ellipse(1, 40, 40)], null);
+        Step(tracker, 1, [Ellipse(1, 34, 40), Ellipse(2, 46, 40)], WithPairs(1, 2, (0, 0), (0, 1)));
+        for (int f = 2; f < 6; f++) Step(tracker, f, [Ellipse(1, 34, 40), Ellipse(2, 46, 40)], OneToOne(2, 0, 1));
+        tracker.Finish();
+        var done = tracker.TakeFinished().OrderBy(t => t.Id).ToList();
+        Assert.Equal([(1, TrackEnd.Division), (2, TrackEnd.MovieEnd), (3, TrackEnd.MovieEnd)], done.Select(t => (t.Id, t.End)));
+        var c = tracker.Counts();
+        Assert.Equal((1, 0, 0), (c.Divisions, c.BridgedSplits, c.Outliers));
+    }
+
+    [Fact]
+    public void TakeFinished_OneFrameSpikeInAreaThatReverts_DropsThatOutlineAndKeepsTheTrack()
+    {
+        // docs/measures.md#one-frame-errors: frame 5 is outlined 1.6 times too large (one-to-one linked), then reverts.
+        static Outline Scaled(double cx, double a, double b)
+        {
+            var v = new Point2[48];
+            for (int k = 0; k < v.Length; k++) { double t = 2 * Math.PI * k / v.Length; v[k] = new Point2(cx + a * Math.Cos(t), 40 + b * Math.Sin(t)); }
+            return new Outline(1, OutlineStatus.Ok, v, (int)(Math.PI * a * b));
+        }
+        using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 2, minTrackFrames: 3));
+        for (int f = 0; f < 12; f++)
+        {
+            double wiggle = 0.3 * Math.Sin(1.7 * f);
+            var o = f == 5 ? Scaled(40, 16, 9.6) : Scaled(40 + 0.2 * f, 10 + wiggle, 6 - 0.5 * wiggle);
+            Step(tracker, f, [o], f == 0 ? null : OneToOne(1, 0));
+        }
+        tracker.Finish();
+        var t = Assert.Single(tracker.TakeFinished());
+        Assert.Equal(Enumerable.Range(0, 12).Where(f => f != 5), t.FrameIndex);
+        Assert.Equal(1, tracker.Counts().Outliers);
+        Assert.True(tracker.IsOutlier(t.Id, 5));
     }
 
     [Fact]

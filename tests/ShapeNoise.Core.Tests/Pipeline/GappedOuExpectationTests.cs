@@ -1,0 +1,46 @@
+using ShapeNoise.Dynamics;
+
+namespace ShapeNoise.Tests.Pipeline;
+
+/// <summary>
+/// The fast expectation of a gapped track's mean-centred lagged sums (docs/measures.md#one-frame-errors), used once
+/// one-frame outliers and bridged merges leave gaps: E[sum (x_t - xbar)(x_{t+k} - xbar)] = sum [gamma(k) - a_t - a_{t+k} + b]
+/// (Priestley M.B. (1981), Spectral Analysis and Time Series, sec. 5.3) for gamma(h) = rho^|h| + eta^2 [h = 0].
+/// </summary>
+public class GappedOuExpectationTests
+{
+    [Theory]
+    [InlineData(12, 0.8)]
+    [InlineData(30, 0.3)]
+    public void GapLags_ContiguousFrames_MatchTheClosedFormGeometricSums(int n, double rho)
+    {
+        // Without gaps every term is a geometric sum; the closed form is derived independently of the polynomial in rho.
+        const int K = 8;
+        var frames = Enumerable.Range(5, n).ToArray();
+        var cs = new double[K]; var cn = new double[K];
+        OrnsteinUhlenbeckFit.ExpectedSumsContiguous(n, rho, cs, cn);
+        var s = new double[K]; var e = new double[K];
+        GapLags.Sum([(frames, 1)], K).AddTo(rho, s, e);
+        for (int k = 0; k < K; k++) { Assert.Equal(cs[k], s[k], 1e-9); Assert.Equal(cn[k], e[k], 1e-12); }
+    }
+
+    [Fact]
+    public void GapLags_GappedTrackWeighted_MatchesTheDirectSumOverPairsTimesItsWeight()
+    {
+        // The definition summed pair by pair (O(n^2) powers) against the polynomial, for a track with gaps at 3 and 7-8,
+        // counted twice (a bootstrap multiplicity of 2) plus another gapped track once.
+        const int K = 6; const double rho = 0.7;
+        int[] f1 = [0, 1, 2, 4, 5, 6, 9, 10, 11, 12], f2 = [3, 4, 6, 7, 8];
+        var d = new double[K]; var dn = new double[K];
+        foreach (var (f, w) in new[] { (f1, 2), (f2, 1) })
+        {
+            var s = new double[K]; var e = new double[K];
+            OrnsteinUhlenbeckFit.ExpectedSums(f, rho, s, e);
+            for (int k = 0; k < K; k++) { d[k] += w * s[k]; dn[k] += w * e[k]; }
+        }
+        var g = new double[K]; var gn = new double[K];
+        GapLags.Sum([(f1, 2), (f2, 1)], K).AddTo(rho, g, gn);
+        for (int k = 0; k < K; k++) { Assert.Equal(d[k], g[k], 1e-9); Assert.Equal(dn[k], gn[k], 1e-12); }
+        Assert.NotEqual(0, g[1]);
+    }
+}
