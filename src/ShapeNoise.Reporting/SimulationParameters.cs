@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using System.Globalization;
 using System.Text.Json.Nodes;
 using ShapeNoise.Dynamics;

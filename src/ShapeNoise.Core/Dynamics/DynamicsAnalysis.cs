@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using ShapeNoise.Fluctuations;
 using ShapeNoise.Statistics;
 

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 namespace ShapeNoise.Dynamics;
 
 /// <summary>Options of the temporal estimators (docs/dynamics.md); validated on construction. Messages name the property

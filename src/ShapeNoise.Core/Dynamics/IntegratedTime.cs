@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 namespace ShapeNoise.Dynamics;
 
 /// <summary>Integrated autocorrelation time with Sokal's automatic window.</summary>

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 namespace ShapeNoise.Dynamics;
 
 /// <summary>Which model of C_theta(k) was chosen (docs/dynamics.md#orientation-tau_theta-by-model-selection).</summary>

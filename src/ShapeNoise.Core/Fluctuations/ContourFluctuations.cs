@@ -26,9 +26,9 @@ public sealed record TrackContour(int Frames, double VarAlongRaw, double VarAcro
     /// <summary>Lagged sums of the pole-sector residuals for the temporal noise model (docs/measures.md#temporal-noise-model):
     /// Sum[k] = sum over pairs (t, t+k) of frames both present of sum_j W_j n_j(t) n_j(t+k) / sum_j W_j over pole samples j
     /// (W_j = arc weight), so Sum[0] / Frames = <see cref="VarAlongRaw"/>. Null when the contour was built without them.</summary>
-    internal Dynamics.LagSums? AlongLags { get; init; }
+    internal TimeSeries.LagSums? AlongLags { get; init; }
     /// <summary>The same over the flank samples (Sum[0] / Frames = <see cref="VarAcrossRaw"/>).</summary>
-    internal Dynamics.LagSums? AcrossLags { get; init; }
+    internal TimeSeries.LagSums? AcrossLags { get; init; }
 
     /// <summary>Floor-corrected var_along = raw - floor.</summary>
     public double VarAlong => VarAlongRaw - FloorAlong;
@@ -125,7 +125,7 @@ public static class ContourFluctuations
 
     /// <summary>Per sector, sum over present pairs (t, t+k) of sum_j W_j n_j(t) n_j(t+k) / sum_j W_j, n_j(t) = (rho_j(t) -
     /// mean_j) cos g_j, W_j = pole (or flank) share times arc weight; pairs counted once per frame pair.</summary>
-    private static (Dynamics.LagSums Along, Dynamics.LagSums Across) SectorLagSums(ReadOnlySpan<double> rho, double[] mean, double[] cosG,
+    private static (TimeSeries.LagSums Along, TimeSeries.LagSums Across) SectorLagSums(ReadOnlySpan<double> rho, double[] mean, double[] cosG,
         double[] weight, double[] poleW, int frames, int m, int[]? frameIndex, int maxLag)
     {
         var f = frameIndex ?? Enumerable.Range(0, frames).ToArray();
@@ -153,7 +153,7 @@ public static class ContourFluctuations
                 }
                 sa[lag] += a / wPole; sc[lag] += c / wFlank; pa[lag]++; pc[lag]++;
             }
-        return (new Dynamics.LagSums(sa, pa), new Dynamics.LagSums(sc, pc));
+        return (new TimeSeries.LagSums(sa, pa), new TimeSeries.LagSums(sc, pc));
     }
 
     /// <summary>Convenience overload: computes the Fourier modes of each row first.</summary>

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using System.Collections.Concurrent;
 using ShapeNoise.Dynamics;
 using ShapeNoise.Statistics;

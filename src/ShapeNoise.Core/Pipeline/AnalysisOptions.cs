@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using System.Text.Json.Serialization;
 using ShapeNoise.Dynamics;
 using ShapeNoise.Fluctuations;

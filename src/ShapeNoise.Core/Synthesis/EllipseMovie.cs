@@ -147,7 +147,7 @@ public sealed class EllipseMovie
     {
         int n = a.Length, T = a[0].Length;
         double sL = 0, sW = 0, sAl = 0, sAc = 0, sArea = 0;
-        var frames = new int[n][]; var qSums = new List<Dynamics.LagSums>(); var lSums = new List<Dynamics.LagSums>(); var wSums = new List<Dynamics.LagSums>(); var thSums = new List<Dynamics.LagSums>();
+        var frames = new int[n][]; var qSums = new List<TimeSeries.LagSums>(); var lSums = new List<TimeSeries.LagSums>(); var wSums = new List<TimeSeries.LagSums>(); var thSums = new List<TimeSeries.LagSums>();
         int maxLag = Math.Min(30, T - 1), fitLags = Math.Min(maxLag, Math.Max(4, T / 3));
         var rho = new double[T * m];
         var twoA = new double[T]; var twoB = new double[T];
@@ -162,20 +162,20 @@ public sealed class EllipseMovie
             frames[i] = Enumerable.Range(0, T).ToArray();
             var q = new double[T];
             for (int t = 0; t < T; t++) q[t] = (a[i][t] - b[i][t]) / (a[i][t] + b[i][t]);
-            qSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], q), maxLag));
-            lSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], (double[])twoA.Clone()), maxLag));
-            wSums.Add(Dynamics.PooledAutocovariance.Of(new Dynamics.TrackSeries(frames[i], (double[])twoB.Clone()), maxLag));
-            thSums.Add(Dynamics.OrientationCorrelation.Of(new Dynamics.TrackSeries(frames[i], th[i]), maxLag));
+            qSums.Add(TimeSeries.PooledAutocovariance.Of(new TimeSeries.TrackSeries(frames[i], q), maxLag));
+            lSums.Add(TimeSeries.PooledAutocovariance.Of(new TimeSeries.TrackSeries(frames[i], (double[])twoA.Clone()), maxLag));
+            wSums.Add(TimeSeries.PooledAutocovariance.Of(new TimeSeries.TrackSeries(frames[i], (double[])twoB.Clone()), maxLag));
+            thSums.Add(Dynamics.OrientationCorrelation.Of(new TimeSeries.TrackSeries(frames[i], th[i]), maxLag));
             sL += Descriptive.PopulationVariance(twoA);
             sW += Descriptive.PopulationVariance(twoB);
             var c = ContourFluctuations.Of(rho, T, m);
             sAl += c.VarAlongRaw; sAc += c.VarAcrossRaw;
         }
         // Realised correlation times: the same estimators on the noise-free continuous shapes.
-        double tauQ = Dynamics.OrnsteinUhlenbeckFit.Fit(qSums, frames, [], fitLags).TauFrames;
-        var fitL = Dynamics.OrnsteinUhlenbeckFit.Fit(lSums, frames, [], fitLags);
+        double tauQ = TimeSeries.OrnsteinUhlenbeckFit.Fit(qSums, frames, [], fitLags).TauFrames;
+        var fitL = TimeSeries.OrnsteinUhlenbeckFit.Fit(lSums, frames, [], fitLags);
         double tauL = fitL.TauFrames;
-        double signalRatio = fitL.SignalVariance / Dynamics.OrnsteinUhlenbeckFit.Fit(wSums, frames, [], fitLags).SignalVariance;
+        double signalRatio = fitL.SignalVariance / TimeSeries.OrnsteinUhlenbeckFit.Fit(wSums, frames, [], fitLags).SignalVariance;
         double tauTh = Dynamics.OrientationCorrelation.FitTracks(thSums, [], maxLag, 20.0 * T).TauFrames;
         // Every track has T frames, so the frame-weighted pooled mean is the plain mean over cells.
         return new EllipseTruth(sL / sW, sAl / sAc, sL / n, sW / n, sAl / n, sAc / n, o.TauFrames, o.SigmaAlongPx, o.SigmaAcrossPx,

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using MathNet.Numerics.Distributions;
 using ShapeNoise.Dynamics;
 using ShapeNoise.Fluctuations;

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using ShapeNoise.Pipeline;
 using ShapeNoise.Synthesis;
 using ShapeNoise.Tests.Support;

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using MathNet.Numerics.LinearAlgebra;
 using ShapeNoise.Dynamics;
 using ShapeNoise.Fluctuations;

@@ -1,3 +1,4 @@
+using ShapeNoise.TimeSeries;
 using ShapeNoise.Dynamics;
 
 namespace ShapeNoise.Tests.Pipeline;

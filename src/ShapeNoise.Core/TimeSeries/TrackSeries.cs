@@ -1,4 +1,4 @@
-namespace ShapeNoise.Dynamics;
+namespace ShapeNoise.TimeSeries;
 
 /// <summary>One track's samples of a scalar quantity at the frames where the cell was seen (frames ascending, gaps allowed).</summary>
 internal readonly record struct TrackSeries(int[] Frames, double[] Values)

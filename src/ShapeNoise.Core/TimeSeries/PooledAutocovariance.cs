@@ -1,4 +1,4 @@
-namespace ShapeNoise.Dynamics;
+namespace ShapeNoise.TimeSeries;
 
 /// <summary>Autocovariance pooled over many short tracks, using only pairs of samples that are both present.</summary>
 /// <remarks>

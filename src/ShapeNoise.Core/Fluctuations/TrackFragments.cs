@@ -1,6 +1,6 @@
-using ShapeNoise.Fluctuations;
+using ShapeNoise.Tracking;
 
-namespace ShapeNoise.Tracking;
+namespace ShapeNoise.Fluctuations;
 
 /// <summary>
 /// Fragments left after gap closing (docs/measures.md#one-frame-errors): a track that ends Lost, Merge or Division is a

@@ -1,4 +1,4 @@
-namespace ShapeNoise.Dynamics;
+namespace ShapeNoise.TimeSeries;
 
 /// <summary>Result of fitting the mean-subtracted autocovariance of an Ornstein-Uhlenbeck signal plus white noise.</summary>
 /// <param name="Rho">Lag-1 correlation of the signal, exp(-dt/tau).</param>
