@@ -48,6 +48,33 @@ public class SimParamsRoundTripTests
         }
     }
 
+    [Fact]
+    public void SynthFrom_NoiseAboveRenderNoise_ReanalysisRecoversNoiseVariance()
+    {
+        using var d = new TempDir();
+        var a1 = Support.Cli.Run("analyze", Path.Combine(Root(), "demo-data", "ellipses", "labels.tif"), "--out", d["a1"], "--bootstrap", "50");
+        Assert.True(a1.ExitCode == 0, a1.Stderr);
+        // Invented targets for a recovery test: white measurement noise e2_L = 0.1 um2, e2_W = 0.05 um2 (the demo has none).
+        var o = JsonNode.Parse(File.ReadAllText(d["a1/sim-params.json"]))!;
+        o["fluctuations"]!["L"]!["noise_variance_um2"]!["value"] = 0.1;
+        o["fluctuations"]!["W"]!["noise_variance_um2"]!["value"] = 0.05;
+        File.WriteAllText(d["noisy.json"], o.ToJsonString());
+        var s = Support.Cli.Run("synth", "ellipses", "--from", d["noisy.json"], "--cells", "200", "--seed", "11", "--out", d["sim"]);
+        Assert.True(s.ExitCode == 0, s.Stderr);
+        var a2 = Support.Cli.Run("analyze", d["sim/labels.tif"], "--out", d["a2"], "--bootstrap", "200");
+        Assert.True(a2.ExitCode == 0, a2.Stderr);
+        var f2 = Fluct(d["a2/sim-params.json"]);
+        foreach (var (c, target) in new[] { ("L", 0.1), ("W", 0.05) })
+        {
+            var ci = f2[c]!["noise_variance_um2"]!["ci95"]!;
+            double lo = ci[0]!.GetValue<double>(), hi = ci[1]!.GetValue<double>();
+            Assert.True(lo <= target && target <= hi, $"{c}: requested e2 {target}, re-analysis 95 % interval [{lo:G4}, {hi:G4}]");
+        }
+        // The added noise must not leak into the signal: s2_L still within 10 % of the first analysis.
+        double s1 = V(Fluct(d["a1/sim-params.json"]), "L", "variance_um2"), s2 = V(f2, "L", "variance_um2");
+        Assert.True(Math.Abs(s2 / s1 - 1) < 0.10, $"s2_L first {s1:G4}, with noise {s2:G4}");
+    }
+
     [Theory]
     [InlineData("{\"schema\": \"something-else\"}", "schema")]
     [InlineData("{\"schema\": \"shapenoise.sim-params\", \"units\": {\"length\": \"um\", \"time\": \"min\"}}", "fluctuations")]
