@@ -156,6 +156,47 @@ public static class SimulationParameters
         return o;
     }
 
+    /// <summary>Reads the parameters a simulation of fluctuating ellipses needs from a sim-params.json written by
+    /// <see cref="Build"/> (docs/sim-params.md#round-trip), converted to px and frames: the file's lengths are divided by the
+    /// pixel size p and its times by the frame interval dt (s2 / p^2, e2 / p^2, tau / dt). p and dt are taken from
+    /// provenance.options (PixelSizeUm, FrameIntervalMin) when the analysis set them; otherwise, for a file in um / min,
+    /// from <paramref name="pixelSizeUm"/> / <paramref name="frameIntervalMin"/> (the movie's own metadata, which sim-params
+    /// does not record); for a file in px / frame they are 1.</summary>
+    /// <exception cref="ShapeNoise.Reading.InputException">The file is not a ShapeNoise sim-params, lacks the fluctuations
+    /// block, or a needed estimate (L, W: tau, variance, noise_variance) is missing or not ok; the message names the key.</exception>
+    public static SimulationInput Read(string path, double pixelSizeUm, double frameIntervalMin)
+    {
+        JsonNode? root;
+        try { root = JsonNode.Parse(File.ReadAllText(path)); }
+        catch (System.Text.Json.JsonException e) { throw new ShapeNoise.Reading.InputException(path, $"not JSON ({e.Message.Split('\n')[0]})"); }
+        catch (IOException e) { throw new ShapeNoise.Reading.InputException(path, e.Message); }
+        if (root is not JsonObject o || (o["schema"] as JsonValue)?.TryGetValue<string>(out var schema) != true || schema != "shapenoise.sim-params")
+            throw new ShapeNoise.Reading.InputException(path, "not a ShapeNoise sim-params file (key \"schema\" is not \"shapenoise.sim-params\")");
+        string Str(string key, string name) => (o["units"]?[key] as JsonValue)?.TryGetValue<string>(out var v) == true ? v
+            : throw new ShapeNoise.Reading.InputException(path, $"key \"units.{key}\" is missing ({name})");
+        bool um = Str("length", "um or px") == "um", min = Str("time", "min or frame") == "min";
+        if (o["fluctuations"] is not JsonObject f) throw new ShapeNoise.Reading.InputException(path, "key \"fluctuations\" is missing");
+        double? Opt(string key) => (o["provenance"]?["options"]?[key] as JsonValue)?.TryGetValue<double>(out var v) == true ? v : null;
+        double p = um ? Opt("PixelSizeUm") ?? pixelSizeUm : 1, dt = min ? Opt("FrameIntervalMin") ?? frameIntervalMin : 1;
+        string area = um ? "um2" : "px2", time = min ? "min" : "frames";
+        double Get(string coord, string key)
+        {
+            string full = $"fluctuations.{coord}.{key}";
+            var e = f[coord]?[key];
+            if (e is not JsonObject eo) throw new ShapeNoise.Reading.InputException(path, $"key \"{full}\" is missing");
+            string status = (eo["status"] as JsonValue)?.TryGetValue<string>(out var st) == true ? st : "missing";
+            if (status != "ok") throw new ShapeNoise.Reading.InputException(path, $"key \"{full}\" has status \"{status}\", not ok");
+            return (eo["value"] as JsonValue)?.TryGetValue<double>(out var v) == true && double.IsFinite(v) ? v
+                : throw new ShapeNoise.Reading.InputException(path, $"key \"{full}\" has no finite value");
+        }
+        double r0 = (o["scales"]?[$"R0_{(um ? "um" : "px")}"] as JsonValue)?.TryGetValue<double>(out var rv) == true && rv > 0 ? rv : double.NaN;
+        return new SimulationInput(
+            Get("L", $"tau_{time}") / dt, Get("W", $"tau_{time}") / dt,
+            Get("L", $"variance_{area}") / (p * p), Get("W", $"variance_{area}") / (p * p),
+            Get("L", $"noise_variance_{area}") / (p * p), Get("W", $"noise_variance_{area}") / (p * p),
+            r0 / p, um ? p : double.NaN, min ? dt : double.NaN);
+    }
+
     /// <summary>The same content as TOML (nulls become nan; TOML has no null).</summary>
     public static string ToToml(JsonObject o) => Tomlyn.TomlSerializer.Serialize(ToTable(o), typeof(TomlTable), (Tomlyn.TomlSerializerOptions?)null);
 
@@ -195,3 +236,16 @@ public static class SimulationParameters
         return arr;
     }
 }
+
+/// <summary>What a simulation of fluctuating ellipses takes from sim-params (<see cref="SimulationParameters.Read"/>), in px and frames.</summary>
+/// <param name="TauLFrames">tau of L (frames).</param>
+/// <param name="TauWFrames">tau of W (frames).</param>
+/// <param name="SignalVarianceLPx2">s2_L (px^2).</param>
+/// <param name="SignalVarianceWPx2">s2_W (px^2).</param>
+/// <param name="NoiseVarianceLPx2">e2_L, white measurement noise of L (px^2).</param>
+/// <param name="NoiseVarianceWPx2">e2_W (px^2).</param>
+/// <param name="R0Px">R0 = sqrt(mean cell area / pi) (px), NaN when absent.</param>
+/// <param name="PixelSizeUm">The pixel size used to convert (um/px), NaN when the file is in px.</param>
+/// <param name="FrameIntervalMin">The frame interval used to convert (min), NaN when the file is in frames.</param>
+public sealed record SimulationInput(double TauLFrames, double TauWFrames, double SignalVarianceLPx2, double SignalVarianceWPx2,
+    double NoiseVarianceLPx2, double NoiseVarianceWPx2, double R0Px, double PixelSizeUm, double FrameIntervalMin);

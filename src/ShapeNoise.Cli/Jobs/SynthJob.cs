@@ -32,6 +32,49 @@ public static class SynthJob
         return movie;
     }
 
+    /// <summary>Ellipse options that simulate what a sim-params file describes (docs/sim-params.md#round-trip), in px and frames:
+    /// L = 2a and W = 2b to first order, so sigma_a = sqrt(s2_L) / 2, sigma_b = sqrt(s2_W) / 2, tau_a = tau_L, tau_b = tau_W;
+    /// the mean semi-axes keep the ratio of <paramref name="o"/> and are scaled so sqrt(a0 b0) = R0; the white noise on the
+    /// semi-axes is eta_a^2 = max(0, e2_L - e2_render,L) / 4 (likewise b with W), where e2_render is the noise variance the
+    /// analysis finds in the same movie rendered without added noise (pixelation). e2_render is measured only when e2_L or
+    /// e2_W is above 0. Returns the options and the measured e2_render (px^2; NaN when not measured).</summary>
+    public static (EllipseMovieOptions Options, double RenderNoiseLPx2, double RenderNoiseWPx2) FromSimParams(EllipseMovieOptions o, SimulationInput p)
+    {
+        double a0 = o.SemiMajorPx, b0 = o.SemiMinorPx;
+        if (double.IsFinite(p.R0Px)) { double k = p.R0Px / Math.Sqrt(a0 * b0); a0 *= k; b0 *= k; }
+        var sim = o with
+        {
+            SemiMajorPx = a0, SemiMinorPx = b0,
+            SigmaAlongPx = Math.Sqrt(p.SignalVarianceLPx2) / 2, SigmaAcrossPx = Math.Sqrt(p.SignalVarianceWPx2) / 2,
+            TauFrames = p.TauLFrames, TauAlongFrames = p.TauLFrames, TauAcrossFrames = p.TauWFrames,
+            PixelSizeUm = double.IsFinite(p.PixelSizeUm) ? p.PixelSizeUm : o.PixelSizeUm,
+            FrameIntervalMin = double.IsFinite(p.FrameIntervalMin) ? p.FrameIntervalMin : o.FrameIntervalMin,
+            NoiseAlongPx = 0, NoiseAcrossPx = 0,
+        };
+        if (!(p.NoiseVarianceLPx2 > 0 || p.NoiseVarianceWPx2 > 0)) return (sim.Validated(), double.NaN, double.NaN);
+        var clean = EllipseMovie.Generate(sim.Validated());
+        using var movie = new RenderedMovie(clean);
+        var r = ShapeNoise.Pipeline.MovieAnalyzer.Run(movie, new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 50, Seed = 1 });
+        double eL = r.Pooled.Temporal?.L.NoiseVariancePx2.Value ?? 0, eW = r.Pooled.Temporal?.W.NoiseVariancePx2.Value ?? 0;
+        if (!double.IsFinite(eL)) eL = 0;
+        if (!double.IsFinite(eW)) eW = 0;
+        var noisy = sim with
+        {
+            NoiseAlongPx = Math.Sqrt(Math.Max(0, p.NoiseVarianceLPx2 - eL) / 4),
+            NoiseAcrossPx = Math.Sqrt(Math.Max(0, p.NoiseVarianceWPx2 - eW) / 4),
+        };
+        return (noisy.Validated(), eL, eW);
+    }
+
+    /// <summary>An ellipse movie's frames as a label movie in memory (px, frames: no calibration), rendered one frame at a time.</summary>
+    private sealed class RenderedMovie(EllipseMovie m) : ShapeNoise.Reading.ILabelMovie
+    {
+        public ShapeNoise.Reading.MovieInfo Info { get; } = new("rendered", m.Width, m.Height, m.Options.Frames, null, null, "in-memory");
+        public IReadOnlyList<string> Files { get; } = [];
+        public IEnumerable<ShapeNoise.Reading.LabelFrame> Frames() { for (int t = 0; t < m.Options.Frames; t++) yield return new(t, m.Width, m.Height, m.RenderFrame(t)); }
+        public void Dispose() { }
+    }
+
     /// <summary>Renders raw.tif (the junction-marker movie, uint16, same OME-XML) from a written labels.tif, page by page.</summary>
     public static void WriteRaw(string labelsTif, string rawTif, RawRenderOptions o)
     {

@@ -1,3 +1,4 @@
+using System.Text.Json.Serialization;
 using MathNet.Numerics.Distributions;
 using ShapeNoise.Fluctuations;
 using ShapeNoise.Shape;
@@ -22,6 +23,15 @@ public sealed record EllipseMovieOptions
     public double SigmaAcrossPx { get; init; } = 0.5;
     /// <summary>Correlation time of the semi-axis processes (frames).</summary>
     public double TauFrames { get; init; } = 5;
+    /// <summary>Correlation time of a(t) alone (frames); null = <see cref="TauFrames"/>.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? TauAlongFrames { get; init; }
+    /// <summary>Correlation time of b(t) alone (frames); null = <see cref="TauFrames"/>.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? TauAcrossFrames { get; init; }
+    /// <summary>Standard deviation eta_a of white measurement noise added to the rendered a(t) every frame (px); 0 = none.
+    /// The truth stays the noise-free signal.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double NoiseAlongPx { get; init; }
+    /// <summary>Standard deviation eta_b of white measurement noise added to the rendered b(t) every frame (px); 0 = none.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double NoiseAcrossPx { get; init; }
     /// <summary>Steady rotation speed of each cell's axis (degrees per frame; sign drawn per cell).</summary>
     public double RotationDegPerFrame { get; init; }
     /// <summary>Correlation time of the axis orientation under rotational diffusion (frames): C_theta(k) = exp(-k / tau_theta),
@@ -49,6 +59,9 @@ public sealed record EllipseMovieOptions
         if (SigmaAlongPx < 0 || SigmaAcrossPx < 0) throw new ArgumentException("--sigma-along and --sigma-across must be >= 0");
         if (SemiMinorPx - 4 * SigmaAcrossPx < 1) throw new ArgumentException("--sigma-across is too large for --b (b - 4 sigma must stay above 1 px)");
         if (!(TauFrames > 0)) throw new ArgumentException("--tau must be > 0 frames");
+        if (TauAlongFrames is { } ta && !(ta > 0) || TauAcrossFrames is { } tb && !(tb > 0)) throw new ArgumentException("the semi-axis correlation times must be > 0 frames");
+        if (!(NoiseAlongPx >= 0) || !(NoiseAcrossPx >= 0)) throw new ArgumentException("the semi-axis measurement noise must be >= 0 px");
+        if (SemiMinorPx - 4 * Math.Sqrt(SigmaAcrossPx * SigmaAcrossPx + NoiseAcrossPx * NoiseAcrossPx) < 1) throw new ArgumentException("the measurement noise is too large for --b (b - 4 sd must stay above 1 px)");
         if (TauThetaFrames < 0) throw new ArgumentException("--tau-theta must be >= 0 frames (0 = no rotational diffusion)");
         if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
         if (Width < 0 || Height < 0) throw new ArgumentException("--width and --height must be >= 0");
@@ -88,8 +101,10 @@ public sealed class EllipseMovie
     /// <summary>The realised truth of this draw (per-cell centre, semi-axis and angle series and the statistics they realise), for recovery tests.</summary>
     public EllipseTruth Truth { get; }
     private readonly int _slot;
+    private readonly double[][]? _noiseA, _noiseB;
 
-    private EllipseMovie(EllipseMovieOptions o, int w, int h, int slot, EllipseTruth truth) { Options = o; Width = w; Height = h; _slot = slot; Truth = truth; }
+    private EllipseMovie(EllipseMovieOptions o, int w, int h, int slot, EllipseTruth truth, double[][]? noiseA = null, double[][]? noiseB = null)
+    { Options = o; Width = w; Height = h; _slot = slot; Truth = truth; _noiseA = noiseA; _noiseB = noiseB; }
 
     /// <summary>Draws every cell's trajectory (not yet the pixels) and evaluates the truth with <paramref name="rays"/> rays.</summary>
     public static EllipseMovie Generate(EllipseMovieOptions o, int rays = 64)
@@ -103,7 +118,8 @@ public sealed class EllipseMovie
         int fitCols = (w - 4) / slot, fitRows = (h - 4) / slot;
         if (fitCols * fitRows < o.Cells) throw new ArgumentException($"a {w}x{h} canvas holds at most {fitCols * fitRows} such cells without overlap");
         int n = o.Cells, T = o.Frames;
-        double rho = Math.Exp(-1.0 / o.TauFrames), innov = Math.Sqrt(1 - rho * rho);
+        double rho = Math.Exp(-1.0 / (o.TauAlongFrames ?? o.TauFrames)), innov = Math.Sqrt(1 - rho * rho);
+        double rhoB = Math.Exp(-1.0 / (o.TauAcrossFrames ?? o.TauFrames)), innovB = Math.Sqrt(1 - rhoB * rhoB);
         double rhoD = Math.Exp(-1.0 / 20), innovD = Math.Sqrt(1 - rhoD * rhoD);
         var cx = Jagged(n, T); var cy = Jagged(n, T); var a = Jagged(n, T); var b = Jagged(n, T); var th = Jagged(n, T);
         for (int i = 0; i < n; i++)
@@ -117,7 +133,7 @@ public sealed class EllipseMovie
                 if (t > 0)
                 {
                     x = rho * x + innov * Normal.Sample(rng, 0, 1);
-                    y = rho * y + innov * Normal.Sample(rng, 0, 1);
+                    y = rhoB * y + innovB * Normal.Sample(rng, 0, 1);
                     dx = rhoD * dx + innovD * Normal.Sample(rng, 0, 1);
                     dy = rhoD * dy + innovD * Normal.Sample(rng, 0, 1);
                 }
@@ -137,7 +153,16 @@ public sealed class EllipseMovie
             for (int i = 0; i < n; i++) { int id; do id = 1 + rng.Next(65535); while (!used.Add(id)); labels[t][i] = id; }
         }
         var truth = EvaluateTruth(o, rays, cx, cy, a, b, th, labels);
-        return new EllipseMovie(o, w, h, slot, truth);
+        // White measurement noise on the rendered semi-axes, from its own stream so the signal is the same draw with or without it.
+        double[][]? na = null, nb = null;
+        if (o.NoiseAlongPx > 0 || o.NoiseAcrossPx > 0)
+        {
+            var nrng = new Random(unchecked(o.Seed * 7919 + 104729));
+            na = Jagged(n, T); nb = Jagged(n, T);
+            for (int i = 0; i < n; i++)
+                for (int t = 0; t < T; t++) { na[i][t] = o.NoiseAlongPx * Normal.Sample(nrng, 0, 1); nb[i][t] = o.NoiseAcrossPx * Normal.Sample(nrng, 0, 1); }
+        }
+        return new EllipseMovie(o, w, h, slot, truth, na, nb);
     }
 
     private static double[][] Jagged(int n, int t) { var r = new double[n][]; for (int i = 0; i < n; i++) r[i] = new double[t]; return r; }
@@ -189,7 +214,7 @@ public sealed class EllipseMovie
         var tr = Truth;
         for (int i = 0; i < Options.Cells; i++)
         {
-            double x0 = tr.CentreX[i][t], y0 = tr.CentreY[i][t], a = tr.A[i][t], b = tr.B[i][t], c = Math.Cos(tr.Theta[i][t]), s = Math.Sin(tr.Theta[i][t]);
+            double x0 = tr.CentreX[i][t], y0 = tr.CentreY[i][t], a = tr.A[i][t] + (_noiseA?[i][t] ?? 0), b = tr.B[i][t] + (_noiseB?[i][t] ?? 0), c = Math.Cos(tr.Theta[i][t]), s = Math.Sin(tr.Theta[i][t]);
             int id = tr.LabelOfCell[t][i];
             int xmin = Math.Max(0, (int)Math.Floor(x0 - a - 1)), xmax = Math.Min(Width - 1, (int)Math.Ceiling(x0 + a + 1));
             int ymin = Math.Max(0, (int)Math.Floor(y0 - a - 1)), ymax = Math.Min(Height - 1, (int)Math.Ceiling(y0 + a + 1));
