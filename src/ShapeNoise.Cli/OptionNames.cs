@@ -25,6 +25,8 @@ public static partial class OptionNames
         ["CoarseWidth"] = "--coarse",
         ["GridSpacing"] = "--grid",
         ["MaxDisplacementPx"] = "--max-displacement",
+        ["NoiseModel"] = "--noise-model",
+        ["KeepDrift"] = "--keep-drift",
     };
 
     [GeneratedRegex(@"\b[A-Z][A-Za-z]+\b")]

@@ -10,7 +10,7 @@ public class OptionParsingTests
     /// <summary>Each command with one misspelt option; the placeholder {out} is the output folder that must not appear.</summary>
     public static TheoryData<string, string, string> Misspelt => new()
     {
-        { "synth ellipses --frm 5 --out {out}", "--frm", "--frames" },
+        { "synth ellipses --frmes 5 --out {out}", "--frmes", "--frames" },
         { "synth monolayer --out {out} --motoin tailward", "--motoin", "--motion" },
         { "analyze {in} --out {out} --bootstrp 10", "--bootstrp", "--bootstrap" },
         { "segment {in} --out {out} --cell-diamter 8", "--cell-diamter", "--cell-diameter" },
