@@ -85,6 +85,9 @@ public static class SimulationParameters
                 ["R0_definition"] = "sqrt(mean cell area / pi)",
                 [$"T_{Tn}"] = Num(T),
                 ["T_definition"] = tName,
+                // The scale the run used (option or movie metadata), so a simulation can convert back to px and frames.
+                ["pixel_size_um"] = r.Units.PixelSizeUm is { } ps ? Num(ps) : null,
+                ["frame_interval_min"] = r.Units.FrameIntervalMin is { } fi ? Num(fi) : null,
             },
             ["tracks"] = d.Tracks,
             ["max_lag_frames"] = d.MaxLag,
@@ -159,9 +162,10 @@ public static class SimulationParameters
     /// <summary>Reads the parameters a simulation of fluctuating ellipses needs from a sim-params.json written by
     /// <see cref="Build"/> (docs/sim-params.md#round-trip), converted to px and frames: the file's lengths are divided by the
     /// pixel size p and its times by the frame interval dt (s2 / p^2, e2 / p^2, tau / dt). p and dt are taken from
-    /// provenance.options (PixelSizeUm, FrameIntervalMin) when the analysis set them; otherwise, for a file in um / min,
-    /// from <paramref name="pixelSizeUm"/> / <paramref name="frameIntervalMin"/> (the movie's own metadata, which sim-params
-    /// does not record); for a file in px / frame they are 1.</summary>
+    /// provenance.options (PixelSizeUm, FrameIntervalMin) when the analysis set them, else from scales.pixel_size_um /
+    /// scales.frame_interval_min (the scale the run used, recorded since schema version 1 files of 2026-12-02); otherwise,
+    /// for a file in um / min, from <paramref name="pixelSizeUm"/> / <paramref name="frameIntervalMin"/>; for a file in
+    /// px / frame they are 1.</summary>
     /// <exception cref="ShapeNoise.Reading.InputException">The file is not a ShapeNoise sim-params, lacks the fluctuations
     /// block, or a needed estimate (L, W: tau, variance, noise_variance) is missing or not ok; the message names the key.</exception>
     public static SimulationInput Read(string path, double pixelSizeUm, double frameIntervalMin)
@@ -177,7 +181,8 @@ public static class SimulationParameters
         bool um = Str("length", "um or px") == "um", min = Str("time", "min or frame") == "min";
         if (o["fluctuations"] is not JsonObject f) throw new ShapeNoise.Reading.InputException(path, "key \"fluctuations\" is missing");
         double? Opt(string key) => (o["provenance"]?["options"]?[key] as JsonValue)?.TryGetValue<double>(out var v) == true ? v : null;
-        double p = um ? Opt("PixelSizeUm") ?? pixelSizeUm : 1, dt = min ? Opt("FrameIntervalMin") ?? frameIntervalMin : 1;
+        double? Scale(string key) => (o["scales"]?[key] as JsonValue)?.TryGetValue<double>(out var v) == true && v > 0 ? v : null;
+        double p = um ? Opt("PixelSizeUm") ?? Scale("pixel_size_um") ?? pixelSizeUm : 1, dt = min ? Opt("FrameIntervalMin") ?? Scale("frame_interval_min") ?? frameIntervalMin : 1;
         string area = um ? "um2" : "px2", time = min ? "min" : "frames";
         double Get(string coord, string key)
         {
