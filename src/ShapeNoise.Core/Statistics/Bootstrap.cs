@@ -153,10 +153,12 @@ public static class Bootstrap
             if (double.IsFinite(s)) stats.Add(s);
         }
         var e = Interval(value, stats, plan.Units, plan.UnitName);
-        if (!e.IsOk || plan.ItemX is null || plan.ItemY is null || !(plan.EdgeRadiusPx > 0)) return e;
-        double f = EdgeInflation(plan, statistic, value);
-        return f > 1 ? Estimate.Judged(value, value - f * (value - e.Low), value + f * (e.High - value), plan.Units, plan.UnitName) : e;
+        return e.IsOk && plan.EdgeCorrected ? Widened(e, EdgeInflation(plan, statistic)) : e;
     }
+
+    /// <summary>f = sqrt((W + C) / W) clamped to [1, 2]; 1 when W is not positive (docs/statistics.md#block-edges).</summary>
+    private static double InflationFactor(double within, double cross)
+        => within > 0 ? Math.Clamp(Math.Sqrt(Math.Max(0, (within + cross) / within)), 1, 2) : 1;
 
     /// <summary>
     /// Block-edge inflation from the delete-one-block jackknife (docs/statistics.md#block-edges), for statistics too
@@ -176,10 +178,9 @@ public static class Bootstrap
         var u = new double[k];
         double within = 0;
         for (int i = 0; i < k; i++) { u[i] = (k - 1) * (mean - leaveOneBlockOut[i]); within += u[i] * u[i]; }
-        if (!(within > 0)) return 1;
         double cross = 0;
         foreach (var (a, b) in neighbours) cross += 2 * u[a] * u[b];
-        return Math.Clamp(Math.Sqrt(Math.Max(0, (within + cross) / within)), 1, 2);
+        return InflationFactor(within, cross);
     }
 
     /// <summary>An ok interval widened about its value by <paramref name="f"/> (other statuses unchanged).</summary>
@@ -197,7 +198,7 @@ public static class Bootstrap
     /// the cross-unit covariance within a distance band is the spatial heteroskedasticity-and-autocorrelation-consistent
     /// variance of Conley T.G. (1999), "GMM estimation with cross sectional dependence", J. Econometrics 92:1-45; the
     /// block-edge bias of order xi / block side is discussed in Lahiri S.N. (2003), Resampling Methods for Dependent Data, ch. 12.</remarks>
-    public static double EdgeInflation(ResamplingPlan plan, Func<int[], double> statistic, double value)
+    public static double EdgeInflation(ResamplingPlan plan, Func<int[], double> statistic)
     {
         int n = plan.Items;
         if (n < 3) return 1;
@@ -225,8 +226,7 @@ public static class Bootstrap
                 double dx = x[i] - x[j], dy = y[i] - y[j];
                 if (dx * dx + dy * dy <= r2) cross += 2 * u[i] * u[j];
             }
-        if (!(within > 0)) return 1;
-        return Math.Clamp(Math.Sqrt(Math.Max(0, (within + cross) / within)), 1, 2);
+        return InflationFactor(within, cross);
     }
 
     /// <summary>The resamples themselves: for each, every unit's multiplicity (units drawn with replacement from one

@@ -31,10 +31,10 @@ public class BlockResamplingTests
             unit[2 * p] = 2 * p; unit[2 * p + 1] = 2 * p + 1;
         }
         var plan = ResamplingPlan.OverGroups("spatial blocks", unit, n, 10, 1, 1) with { ItemX = px, ItemY = py, EdgeRadiusPx = 5 };
-        Assert.Equal(Math.Sqrt(2), Bootstrap.EdgeInflation(plan, w => Mean(x, w), Mean(x, Enumerable.Repeat(1, n).ToArray())), 9);
+        Assert.Equal(Math.Sqrt(2), Bootstrap.EdgeInflation(plan, w => Mean(x, w)), 9);
         // Far apart (beyond the radius) nothing is added.
         var far = plan with { EdgeRadiusPx = 0.5 };
-        Assert.Equal(1.0, Bootstrap.EdgeInflation(far, w => Mean(x, w), 0), 12);
+        Assert.Equal(1.0, Bootstrap.EdgeInflation(far, w => Mean(x, w)), 12);
     }
 
     /// <summary>
