@@ -43,16 +43,13 @@ public sealed record FrameDefects(int Frame, List<Defect> Defects, (double Vx, d
         return new FrameDefects(frame, defects, flow, ens) { Alignment = AlignmentOf(field, samples, widthPx, heightPx, gridPx, coarsePx) };
     }
 
-    /// <summary>See <see cref="Alignment"/>: the magnitudes are coarse-grained with the same kernel as Q.</summary>
+    /// <summary>See <see cref="Alignment"/>: the magnitudes are coarse-grained with the same kernel as Q (on the grid and
+    /// weights of <paramref name="field"/>).</summary>
     public static double AlignmentOf(NematicGrid field, ReadOnlySpan<CellSample> samples, int widthPx, int heightPx, double gridPx, double coarsePx)
     {
-        var mags = new CellSample[samples.Length];
-        for (int i = 0; i < samples.Length; i++)
-        {
-            var c = samples[i];
-            mags[i] = new CellSample(c.X, c.Y, Math.Sqrt(c.Qxx * c.Qxx + c.Qxy * c.Qxy), 0, double.NaN, double.NaN);
-        }
-        var m = CoarseGraining.Of(mags, widthPx, heightPx, gridPx, coarsePx);
+        var mags = new double[samples.Length];
+        for (int i = 0; i < samples.Length; i++) mags[i] = Math.Sqrt(samples[i].Qxx * samples[i].Qxx + samples[i].Qxy * samples[i].Qxy);
+        var m = CoarseGraining.MeanOf(samples, mags, field, coarsePx);
         double num = 0, den = 0;
         for (int j = 0; j < field.Ny; j++)
             for (int i = 0; i < field.Nx; i++)
@@ -62,7 +59,7 @@ public sealed record FrameDefects(int Frame, List<Defect> Defects, (double Vx, d
                 int k = j * field.Nx + i;
                 double w = field.Weight[k];
                 if (!(w > 1e-9)) continue;
-                num += w * 0.5 * field.Order(k); den += w * m.Qxx[k];
+                num += w * 0.5 * field.Order(k); den += w * m[k];
             }
         return den > 0 ? num / den : double.NaN;
     }

@@ -80,22 +80,17 @@ public static class CoarseGraining
         int n = nx * ny;
         var w = new double[n]; var qxx = new double[n]; var qxy = new double[n];
         var wv = new double[n]; var vx = new double[n]; var vy = new double[n];
+        Span<(int K, double F)> corners = stackalloc (int, double)[4];
         foreach (var c in cells)
         {
-            double gx = c.X / spacingPx, gy = c.Y / spacingPx;
-            int i = (int)Math.Floor(gx), j = (int)Math.Floor(gy);
-            double fx = gx - i, fy = gy - j;
             bool hasV = double.IsFinite(c.Vx) && double.IsFinite(c.Vy);
-            for (int dj = 0; dj <= 1; dj++)
-                for (int di = 0; di <= 1; di++)
-                {
-                    int ii = i + di, jj = j + dj;
-                    if (ii < 0 || jj < 0 || ii >= nx || jj >= ny) continue;
-                    double f = (di == 0 ? 1 - fx : fx) * (dj == 0 ? 1 - fy : fy);
-                    int k = jj * nx + ii;
-                    w[k] += f; qxx[k] += f * c.Qxx; qxy[k] += f * c.Qxy;
-                    if (hasV) { wv[k] += f; vx[k] += f * c.Vx; vy[k] += f * c.Vy; }
-                }
+            int nc = Corners(c.X, c.Y, spacingPx, nx, ny, corners);
+            for (int q = 0; q < nc; q++)
+            {
+                var (k, f) = corners[q];
+                w[k] += f; qxx[k] += f * c.Qxx; qxy[k] += f * c.Qxy;
+                if (hasV) { wv[k] += f; vx[k] += f * c.Vx; vy[k] += f * c.Vy; }
+            }
         }
         double s = sigmaPx / spacingPx;
         foreach (var field in new[] { w, qxx, qxy, wv, vx, vy }) Smooth(field, nx, ny, s);
@@ -105,6 +100,42 @@ public static class CoarseGraining
             if (wv[k] > 1e-9) { vx[k] /= wv[k]; vy[k] /= wv[k]; } else { vx[k] = double.NaN; vy[k] = double.NaN; }
         }
         return new NematicGrid(nx, ny, spacingPx, qxx, qxy, w, vx, vy, wv);
+    }
+
+    /// <summary>The coarse-grained mean of one value per cell on the grid of <paramref name="field"/> (made from the same
+    /// cells with the same width): sum_c w v_c / sum_c w, reusing the field's smoothed weights; 0 where they vanish.</summary>
+    public static double[] MeanOf(ReadOnlySpan<CellSample> cells, ReadOnlySpan<double> values, NematicGrid field, double sigmaPx)
+    {
+        int nx = field.Nx, ny = field.Ny;
+        var acc = new double[nx * ny];
+        Span<(int K, double F)> corners = stackalloc (int, double)[4];
+        for (int c = 0; c < cells.Length; c++)
+        {
+            int nc = Corners(cells[c].X, cells[c].Y, field.SpacingPx, nx, ny, corners);
+            for (int q = 0; q < nc; q++) acc[corners[q].K] += corners[q].F * values[c];
+        }
+        Smooth(acc, nx, ny, sigmaPx / field.SpacingPx);
+        var w = field.Weight;
+        for (int k = 0; k < acc.Length; k++) acc[k] = w[k] > 1e-9 ? acc[k] / w[k] : 0;
+        return acc;
+    }
+
+    /// <summary>Bilinear weights of the point (x, y) on the grid nodes around it (node index, weight), in row then column
+    /// order, nodes outside the grid left out; returns how many were written to <paramref name="into"/> (at most 4).</summary>
+    private static int Corners(double x, double y, double spacingPx, int nx, int ny, Span<(int K, double F)> into)
+    {
+        double gx = x / spacingPx, gy = y / spacingPx;
+        int i = (int)Math.Floor(gx), j = (int)Math.Floor(gy);
+        double fx = gx - i, fy = gy - j;
+        int n = 0;
+        for (int dj = 0; dj <= 1; dj++)
+            for (int di = 0; di <= 1; di++)
+            {
+                int ii = i + di, jj = j + dj;
+                if (ii < 0 || jj < 0 || ii >= nx || jj >= ny) continue;
+                into[n++] = (jj * nx + ii, (di == 0 ? 1 - fx : fx) * (dj == 0 ? 1 - fy : fy));
+            }
+        return n;
     }
 
     /// <summary>In-place separable Gaussian smoothing (sigma in grid units, kernel to 3 sigma, zero outside).</summary>
