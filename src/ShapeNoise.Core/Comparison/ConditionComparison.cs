@@ -6,7 +6,7 @@ namespace ShapeNoise.Comparison;
 /// <summary>One measure in one condition: value with hierarchical-bootstrap interval, and the movie-level values.</summary>
 public sealed record ConditionMeasure(string Condition, string Measure, int Movies, int Units, Estimate Value, double[] MovieValues, string[] MovieNames);
 
-/// <summary>One measure for a pair of conditions: a - b and a / b with intervals, and a Welch t test on movie-level values.</summary>
+/// <summary>One measure for a pair of conditions: a - b and a / b with intervals, and a Student t test on movie-level values.</summary>
 public sealed record MeasureDifference(string Measure, string A, string B, Estimate Difference, Estimate Ratio, double PValue, int MoviesA, int MoviesB)
 {
     /// <summary>Movie-level effect from the Student t test on y_m (<see cref="ConditionComparison.MovieQuantity"/>): the ratio exp(mean_a - mean_b) for log-scale measures, the difference mean_a - mean_b otherwise, with its t interval; too_few below <see cref="ConditionComparison.MinMovies"/> movies in either condition.</summary>
@@ -27,11 +27,12 @@ public sealed record ComparisonResult(IReadOnlyList<ConditionMeasure> Conditions
 
 /// <summary>
 /// Compares conditions without pseudo-replication: every interval comes from a hierarchical bootstrap (movies within a
-/// condition, then tracks or defect tracks within each drawn movie), and p-values from a Welch t test on movie-level values.
+/// condition, then tracks or defect tracks within each drawn movie), and p-values from a Student t test on movie-level values
+/// (<see cref="MovieTest"/>).
 /// </summary>
 /// <remarks>Saravanan V., Berman G.J. and Sober S.J. (2020), Neurons, Behavior, Data analysis, and Theory 3(5) (hierarchical
 /// bootstrap); Lord S.J. et al. (2020), "SuperPlots: communicating reproducibility and variability in cell biology",
-/// J. Cell Biol. 219:e202001064; Welch B.L. (1947), Biometrika 34:28-35 (unequal-variance t test).</remarks>
+/// J. Cell Biol. 219:e202001064; Student (1908), Biometrika 6:1-25.</remarks>
 public static class ConditionComparison
 {
     /// <summary>The measures compared, in report order.</summary>
@@ -164,7 +165,7 @@ public static class ConditionComparison
         return (count, Measures.Select((k, j) => (k, units[j])).ToDictionary(x => x.k, x => x.Item2));
     }
 
-    /// <summary>Compares every pair of conditions on every measure in <see cref="Measures"/>: per condition the value with a 95% percentile interval from <paramref name="resamples"/> hierarchical resamples (one stream seeded by <paramref name="seed"/>, drawn in condition order), per pair a - b and a / b with intervals and the Welch p-value on movie-level values. Throws <see cref="Reading.InputException"/> when the movies are in different units.</summary>
+    /// <summary>Compares every pair of conditions on every measure in <see cref="Measures"/>: per condition the value with a 95% percentile interval from <paramref name="resamples"/> hierarchical resamples (one stream seeded by <paramref name="seed"/>, drawn in condition order), per pair a - b and a / b with intervals and the Student p-value on movie-level values (<see cref="MovieTest"/>). Throws <see cref="Reading.InputException"/> when the movies are in different units.</summary>
     public static ComparisonResult Run(IReadOnlyList<MovieData> movies, int resamples, int seed)
     {
         var units = movies.Select(m => (m.LengthUnit, m.TimeUnit)).Distinct().ToList();
@@ -256,17 +257,5 @@ public static class ConditionComparison
         bool same = (anis.Effect.Value > 1) == (head.Effect.Value > 0);
         return $"{pair}: " + (same ? "the condition with the higher anisotropy also has the higher headward speed, as the shape-noise hypothesis predicts"
                                    : "the condition with the higher anisotropy has the lower headward speed, against the shape-noise hypothesis") + "; both movie-level 95% intervals exclude no difference.";
-    }
-
-    /// <summary>Two-sided Welch t test p-value on two samples (NaN with fewer than 2 finite values in either).</summary>
-    public static double Welch(double[] a, double[] b)
-    {
-        var x = a.Where(double.IsFinite).ToArray(); var y = b.Where(double.IsFinite).ToArray();
-        if (x.Length < 2 || y.Length < 2) return double.NaN;
-        double vx = Descriptive.SampleVariance(x) / x.Length, vy = Descriptive.SampleVariance(y) / y.Length;
-        if (vx + vy == 0) return Descriptive.Mean(x) == Descriptive.Mean(y) ? 1 : 0;
-        double t = (Descriptive.Mean(x) - Descriptive.Mean(y)) / Math.Sqrt(vx + vy);
-        double df = (vx + vy) * (vx + vy) / (vx * vx / (x.Length - 1) + vy * vy / (y.Length - 1));
-        return 2 * (1 - StudentT.CDF(0, 1, df, Math.Abs(t)));
     }
 }

@@ -39,7 +39,7 @@ public class ComparisonTests(ITestOutputHelper log)
             "iso,1,pilot-iso/r0\niso,2,pilot-iso/r1\niso,3,movies/iso-2/labels.tif\n");
         var r = CompareJob.Compare(d["conditions.csv"], d["cmp"], new AnalysisOptions { BootstrapResamples = 300 }, LabelMovies.Open);
         var diff = r.Differences.Single(x => x.Measure == "anisotropy");
-        log.WriteLine($"anisotropy aniso - iso = {diff.Difference.Value:F3} (95% CI {diff.Difference.Low:F3} to {diff.Difference.High:F3}), ratio {diff.Ratio.Value:F2}, Welch p {diff.PValue:G3}");
+        log.WriteLine($"anisotropy aniso - iso = {diff.Difference.Value:F3} (95% CI {diff.Difference.Low:F3} to {diff.Difference.High:F3}), ratio {diff.Ratio.Value:F2}, Student p {diff.PValue:G3}");
         Assert.True(diff.Difference.Low > 0, "the interval must exclude 0");
         Assert.InRange(diff.Ratio.Value, 2.5, 6);
         foreach (var f in new[] { "comparison.csv", "differences.csv", "comparison.md", "superplot-anisotropy.png", "superplot-anisotropy_contour.png", "run.json", "report.html" })
@@ -92,13 +92,19 @@ public class ComparisonTests(ITestOutputHelper log)
     }
 
     [Fact]
-    public void Welch_KnownSamples_MatchesHandComputation()
+    public void MovieTest_KnownSamples_MatchesHandComputation()
     {
-        // Hand computation: a = (1,2,3,4), b = (2,4,6,8,10): means 2.5, 6; s^2 1.6667, 10; se^2 = 0.41667 + 2 = 2.41667;
-        // t = -3.5 / 1.5546 = -2.2514; Welch-Satterthwaite df = 2.41667^2 / (0.41667^2/3 + 2^2/4) = 5.84028 / 1.05787 = 5.5208.
-        double p = ConditionComparison.Welch([1, 2, 3, 4], [2, 4, 6, 8, 10]);
-        double expected = 2 * (1 - MathNet.Numerics.Distributions.StudentT.CDF(0, 1, 5.5208, 2.2514));
-        Assert.Equal(expected, p, 4);
+        // Hand computation (Student's pooled two-sample t): a = (1,2,3,4), b = (2,4,6,8,10): means 2.5, 6; s^2 1.6667, 10;
+        // s_p^2 = (3 x 1.6667 + 4 x 10) / 7 = 6.4286; se = sqrt(6.4286 x (1/4 + 1/5)) = 1.70084; t = -3.5 / 1.70084 = -2.05780;
+        // df = 7; the interval is -3.5 +- t_{0.975,7} se with t_{0.975,7} = 2.36462 (from memory; MathNet's quantile below).
+        var r = ConditionComparison.MovieTest([1, 2, 3, 4], [2, 4, 6, 8, 10])!.Value;
+        double expected = 2 * (1 - MathNet.Numerics.Distributions.StudentT.CDF(0, 1, 7, 2.05780));
+        Assert.Equal(expected, r.PValue, 4);
+        Assert.Equal(-3.5, r.Difference, 12);
+        double crit = MathNet.Numerics.Distributions.StudentT.InvCDF(0, 1, 7, 0.975);
+        Assert.Equal(2.36462, crit, 4);
+        Assert.Equal(-3.5 - crit * 1.70084, r.Low, 4);
+        Assert.Equal(-3.5 + crit * 1.70084, r.High, 4);
     }
 
     /// <summary>A stand-in analysis folder: summary.json and a run.json whose inputs carry the given SHA-256 values.</summary>
