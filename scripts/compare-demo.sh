@@ -7,7 +7,12 @@ bash scripts/ensure-deps.sh
 dotnet build src/ShapeNoise.Cli -c Release -nologo -v quiet >/dev/null
 sn=(dotnet src/ShapeNoise.Cli/bin/Release/net10.0/shapenoise.dll)
 out=runs/compare-demo
-rm -rf "$out"; mkdir -p "$out"
+# Replace only a folder this script made (it leaves a marker); anything else there is the user's and is kept.
+marker="$out/.made-by-$(basename "$0")"
+if [ -e "$out" ] && [ ! -f "$marker" ]; then
+  echo "$(basename "$0"): $out exists and was not made by this script; move it away first" >&2; exit 3
+fi
+rm -rf "$out"; mkdir -p "$out"; touch "$marker"
 echo "condition,replicate,path" > "$out/conditions.csv"
 for i in 1 2 3; do
   "${sn[@]}" synth ellipses --out "$out/movies/wt-$i" --cells 24 --frames 40 --sigma-along 1.0 --sigma-across 0.5 --seed $((10 + i)) >/dev/null

@@ -6,7 +6,12 @@ bash scripts/ensure-deps.sh
 dotnet build src/ShapeNoise.Cli -c Release -nologo -v quiet >/dev/null
 sn=(dotnet src/ShapeNoise.Cli/bin/Release/net10.0/shapenoise.dll)
 t=runs/tutorial
-rm -rf "$t"; mkdir -p "$t"
+# Replace only a folder this script made (it leaves a marker); anything else there is the user's and is kept.
+marker="$t/.made-by-$(basename "$0")"
+if [ -e "$t" ] && [ ! -f "$marker" ]; then
+  echo "$(basename "$0"): $t exists and was not made by this script; move it away first" >&2; exit 3
+fi
+rm -rf "$t"; mkdir -p "$t"; touch "$marker"
 echo "condition,replicate,path" > "$t/conditions.csv"
 for i in 1 2 3; do
   # Two invented conditions: anisotropic shape noise (12 % along vs 6 % across the long axis) and isotropic (8 % both).

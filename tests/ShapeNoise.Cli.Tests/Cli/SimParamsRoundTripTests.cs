@@ -38,9 +38,11 @@ public class SimParamsRoundTripTests
                 double x1 = V(f1, c, k), x2 = V(f2, c, k);
                 Assert.True(Math.Abs(x2 / x1 - 1) < 0.10, $"{c}.{k}: first {x1:G4}, round trip {x2:G4}");
             }
-        // Noise variances of L and W: the demo's are 0 (at the bound), so compare by absolute difference, within the first
-        // analysis' own 95 % interval upper end (the largest noise the first analysis could not exclude).
-        foreach (var c in new[] { "L", "W" })
+        // Noise variances: the demo's L and W noise is 0 (at the bound) and its along / across noise is the renderer's
+        // pixelation, poorly determined from 40 cells (ci95 of along [0, 0.021] um2; the same scenario at 200 cells gives
+        // 0.011, 0.015, 0.013 um2 for seeds 11-13, docs/sim-params.md#round-trip), so a 10 % match is not a property the
+        // data can show: compare by absolute difference within the first analysis' own 95 % interval upper end.
+        foreach (var c in new[] { "L", "W", "along", "across" })
         {
             double e1 = V(f1, c, "noise_variance_um2"), e2 = V(f2, c, "noise_variance_um2");
             double tol = f1[c]!["noise_variance_um2"]!["ci95"]![1]!.GetValue<double>();
