@@ -49,4 +49,26 @@ public static class MovingBlockBootstrap
         }
         return Bootstrap.Interval(value, r, units, "time blocks");
     }
+
+    /// <summary>Moving-block resamples of one series of <paramref name="frames"/> samples: each resample lays ceil(n / l)
+    /// blocks of <paramref name="blockLength"/> consecutive samples with starts drawn uniformly from 0 .. n - l (cut back to n)
+    /// and gives every sample its multiplicity (docs/statistics.md#time-blocks). A statistic made of per-sample sums is then
+    /// re-weighted, not recomputed.</summary>
+    /// <remarks>Künsch H.R. (1989), Ann. Statist. 17:1217-1241.</remarks>
+    public static double[][] FrameWeights(int frames, int blockLength, int resamples, int seed)
+    {
+        int l = Math.Clamp(blockLength, 1, Math.Max(1, frames));
+        var rng = new Random(seed);
+        var w = new double[resamples][];
+        for (int b = 0; b < resamples; b++)
+        {
+            w[b] = new double[frames];
+            for (int filled = 0; filled < frames;)
+            {
+                int start = rng.Next(frames - l + 1);
+                for (int k = 0; k < l && filled < frames; k++, filled++) w[b][start + k]++;
+            }
+        }
+        return w;
+    }
 }

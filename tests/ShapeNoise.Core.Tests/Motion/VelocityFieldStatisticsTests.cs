@@ -41,7 +41,7 @@ public class VelocityFieldStatisticsTests
     }
 
     /// <summary>J0 by its power series sum_m (-1)^m (x/2)^(2m) / (m!)^2 (Abramowitz and Stegun 9.1.10); converges fast for x &lt; 6.</summary>
-    static double J0(double x)
+    internal static double J0(double x)
     {
         double term = 1, sum = 1, q = x * x / 4;
         for (int m = 1; m < 40; m++) { term *= -q / (m * m); sum += term; }
