@@ -122,6 +122,12 @@ public static class AnalysisFolder
     public const string Drift = "drift.csv";
     /// <summary>defect-flow.csv: mean flow and director around +1/2 defects.</summary>
     public const string DefectFlow = "defect-flow.csv";
+    /// <summary>velocity-correlation.csv: radial velocity, vorticity and nematic correlations (docs/motion.md).</summary>
+    public const string VelocityCorrelation = "velocity-correlation.csv";
+    /// <summary>motion.csv: collective-motion numbers per frame (docs/motion.md).</summary>
+    public const string Motion = "motion.csv";
+    /// <summary>velocity-autocorrelation.csv: the cells' temporal velocity autocorrelation per lag (docs/motion.md).</summary>
+    public const string VelocityAutocorrelation = "velocity-autocorrelation.csv";
     /// <summary>sim-params.json (--sim-format json).</summary>
     public const string SimParamsJson = "sim-params.json";
     /// <summary>sim-params.toml (--sim-format toml).</summary>
@@ -135,7 +141,8 @@ public static class AnalysisFolder
     /// <summary>Figure files.</summary>
     public const string SpectrumFigure = "spectrum.png", AnisotropyFigure = "anisotropy.png", ProfileFigure = "profile.png",
         AutocorrelationFigure = "autocorrelation.png", HeadwardFigure = "headward.png", DefectFlowFigure = "defect-flow.png",
-        DriftFigure = "drift.png";
+        DriftFigure = "drift.png", VelocityCorrelationFigure = "velocity-correlation.png", PolarOrderFigure = "polar-order.png",
+        VorticityFigure = "vorticity.png";
     /// <summary>The file name of the defect overlay drawn on frame <paramref name="frame"/> (defects-frame-NNN.png).</summary>
     public static string DefectFrameFigure(int frame) => $"defects-frame-{frame:D3}.png";
 

@@ -49,6 +49,7 @@ public static class HtmlReport
         if (double.IsFinite(df.DriftSpeedPx))
             h.Add($"The tissue drifts at {Round(u.Speed(df.DriftSpeedPx))} {u.SpeedLabel} on average (median cell velocity); "
                   + (df.DriftRemoved ? "defect speeds and cell flows are relative to the tissue." : "the drift is kept in defect speeds and cell flows (--keep-drift)."));
+        h.Add(MotionReport.Sentence(r));
         return h;
     }
 
@@ -133,6 +134,9 @@ public static class HtmlReport
             foreach (var w in r.Warnings) sb.Append("<li>").Append(E(w)).Append("</li>\n");
             sb.Append("</ul></div>\n");
         }
+        // Collective motion (docs/motion.md): every estimate with its n and status.
+        sb.Append("<h2>Collective motion</h2>\n<p>").Append(E($"Intervals over {r.Motion.BlockFrames}-frame time blocks (moving-block bootstrap); speeds and the velocity autocorrelation from the cells' velocities, correlations and enstrophy from the coarse-grained field on a {Round(u.Length(r.Motion.CorrelationSpacingPx))} {u.LengthName} grid."
+            + (r.Motion.FieldNotApplicableReason is { } why ? $" Field measures not applicable: {why}." : ""))).Append("</p>\n").Append(MotionReport.HtmlTable(r));
         double fa = p.VarAlongRaw > 0 ? p.FloorAlong / p.VarAlongRaw : double.NaN, fc = p.VarAcrossRaw > 0 ? p.FloorAcross / p.VarAcrossRaw : double.NaN;
         sb.Append("<h2>Noise floor</h2>\n<p>").Append(E(p.NoiseModel == ShapeNoise.Fluctuations.NoiseModel.Temporal ? TemporalSentence(r)
             : r.FloorReference is null

@@ -11,6 +11,14 @@ public enum UnitKind
     Time,
     /// <summary>A speed: um/min … px/frame.</summary>
     Speed,
+    /// <summary>A length: um or px.</summary>
+    Length,
+    /// <summary>A squared rate (enstrophy): 1/min² or 1/frame².</summary>
+    PerTimeSquared,
+    /// <summary>A number per area: per 1000 um² (or per 1000 px²).</summary>
+    Density,
+    /// <summary>A number per area and time: per 1000 um² per h (or per 1000 px² per frame).</summary>
+    Rate,
 }
 
 /// <summary>One measure of the output contract (docs/measures.md#definitions): its summary.json key, unit kind and what it is.</summary>
@@ -52,8 +60,32 @@ public static class Measures
     /// <summary>Mean headward cell flow at +1/2 defect cores.</summary>
     public static readonly Measure FlowHeadwardSpeed = new("flow_headward_speed", UnitKind.Speed, "");
 
+    /// <summary>Polar order of the cell velocities (docs/motion.md#polar-order).</summary>
+    public static readonly Measure PolarOrder = new("polar_order", UnitKind.Ratio, "|sum v| / sum |v|");
+    /// <summary>Mean cell speed after drift removal.</summary>
+    public static readonly Measure MeanSpeed = new("mean_speed", UnitKind.Speed, "drift removed");
+    /// <summary>Rms of the cell velocity about the frame mean.</summary>
+    public static readonly Measure RmsSpeed = new("rms_speed", UnitKind.Speed, "about the frame mean");
+    /// <summary>First zero of the velocity correlation.</summary>
+    public static readonly Measure VelocityCorrelationLength = new("velocity_correlation_length", UnitKind.Length, "first zero of C_vv");
+    /// <summary>1/e length of the velocity correlation.</summary>
+    public static readonly Measure VelocityCorrelationLength1e = new("velocity_correlation_length_1e", UnitKind.Length, "C_vv = 1/e");
+    /// <summary>First zero of the vorticity correlation.</summary>
+    public static readonly Measure VorticityCorrelationLength = new("vorticity_correlation_length", UnitKind.Length, "first zero of C_ww");
+    /// <summary>Enstrophy of the coarse velocity field.</summary>
+    public static readonly Measure Enstrophy = new("enstrophy", UnitKind.PerTimeSquared, "<w²>/2");
+    /// <summary>1/e time of the cell velocity autocorrelation.</summary>
+    public static readonly Measure VelocityAutocorrelationTime = new("velocity_autocorrelation_time", UnitKind.Time, "1/e");
+    /// <summary>1/e length of the nematic correlation.</summary>
+    public static readonly Measure NematicCorrelationLength = new("nematic_correlation_length", UnitKind.Length, "C_QQ = 1/e");
+
+    /// <summary>The collective-motion measures (docs/motion.md), in report order.</summary>
+    public static IReadOnlyList<Measure> Motion { get; } = [PolarOrder, MeanSpeed, RmsSpeed, VelocityCorrelationLength, VelocityCorrelationLength1e,
+        VorticityCorrelationLength, Enstrophy, VelocityAutocorrelationTime, NematicCorrelationLength];
+
     /// <summary>Every measure of the table.</summary>
-    public static IReadOnlyList<Measure> All { get; } = [Anisotropy, AnisotropyContour, VarL, VarW, VarAlong, VarAcross, TauQ, TauTheta, DefectHeadwardSpeed, FlowHeadwardSpeed];
+    public static IReadOnlyList<Measure> All { get; } = [Anisotropy, AnisotropyContour, VarL, VarW, VarAlong, VarAcross, TauQ, TauTheta, DefectHeadwardSpeed, FlowHeadwardSpeed,
+        .. Motion];
 
     /// <summary>The measure named <paramref name="name"/>; an <see cref="ArgumentException"/> for a name not in the table.</summary>
     public static Measure Get(string name)

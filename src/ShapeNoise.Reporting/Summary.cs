@@ -56,7 +56,7 @@ public static class Summary
         double s = us.LengthFactor, s2 = us.AreaFactor;
         var warnings = new JsonArray();
         foreach (var w in r.Warnings) warnings.Add(w);
-        return new JsonObject
+        var summary = new JsonObject
         {
             ["tool_version"] = Provenance.ToolVersion,
             ["input"] = Path.GetFileName(r.Movie.Path.TrimEnd('/')),
@@ -144,8 +144,10 @@ public static class Summary
             ["dynamics"] = SimulationParameters.Dynamics(r),
             ["rays"] = r.Options.Rays,
             ["outline_method"] = r.Options.Outline.ToString().ToLowerInvariant(),
-            ["warnings"] = warnings,
         };
+        MotionReport.AddTo(summary, r);   // docs/motion.md
+        summary["warnings"] = warnings;
+        return summary;
     }
 
     /// <summary>floor.json: this run's pooled raw fluctuations in px^2, to be used as the floor of another run (--floor-from).</summary>

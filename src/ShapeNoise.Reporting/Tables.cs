@@ -320,5 +320,6 @@ public static class Tables
         Write(Path.Combine(dir, AnalysisFolder.Defects), Defects(r), new DefectMap(c));
         Write(Path.Combine(dir, AnalysisFolder.DefectFlow), DefectFlow(r), new FlowMap(c));
         Write(Path.Combine(dir, AnalysisFolder.Drift), Drift(r), new DriftMap(c));
+        MotionReport.WriteTables(r, dir);
     }
 }

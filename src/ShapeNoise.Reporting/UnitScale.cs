@@ -31,6 +31,21 @@ public sealed record UnitScale(bool PixelSizeKnown, bool FrameIntervalKnown, dou
     /// <summary>Diffusion-coefficient factor: s² / dt.</summary>
     public double DiffusionFactor => UmPerPx * UmPerPx / MinPerFrame;
 
+    /// <summary>Squared-rate factor (enstrophy): 1 / dt².</summary>
+    public double PerTimeSquaredFactor => 1 / (MinPerFrame * MinPerFrame);
+    /// <summary>Density factor: per px² to per 1000 um² (1000 / s²; per 1000 px² when the pixel size is unknown).</summary>
+    public double DensityFactor => 1000 / (UmPerPx * UmPerPx);
+    /// <summary>Rate factor: per px² per frame to per 1000 um² per h (per frame when the frame interval is unknown).</summary>
+    public double RateFactor => DensityFactor * (FrameIntervalKnown ? 60 / MinPerFrame : 1);
+    /// <summary>The factor of a unit kind (1 for a ratio).</summary>
+    public double Factor(UnitKind kind) => kind switch
+    {
+        UnitKind.Area => AreaFactor, UnitKind.Time => TimeFactor, UnitKind.Speed => SpeedFactor, UnitKind.Length => LengthFactor,
+        UnitKind.PerTimeSquared => PerTimeSquaredFactor, UnitKind.Density => DensityFactor, UnitKind.Rate => RateFactor, _ => 1,
+    };
+    /// <summary>An estimate in px and frames scaled to the run's unit of <paramref name="kind"/>.</summary>
+    public Estimate Of(UnitKind kind, Estimate e) => e.Scale(Factor(kind));
+
     /// <summary>A length in px in the run's unit.</summary>
     public double Length(double px) => px * LengthFactor;
     /// <summary>An area or variance in px² in the run's unit.</summary>
@@ -69,6 +84,10 @@ public sealed record UnitScale(bool PixelSizeKnown, bool FrameIntervalKnown, dou
         UnitKind.Area => AreaSuffix,
         UnitKind.Time => TimeName,
         UnitKind.Speed => SpeedLabel,
+        UnitKind.Length => LengthName,
+        UnitKind.PerTimeSquared => $"1/{TimeName}²",
+        UnitKind.Density => $"per 1000 {AreaLabel}",
+        UnitKind.Rate => $"per 1000 {AreaLabel} per {(FrameIntervalKnown ? "h" : "frame")}",
         _ => "ratio",
     };
 

@@ -12,10 +12,13 @@ namespace ShapeNoise.Motion;
 internal sealed record FrameSums(MotionFrame Numbers, double SpeedSum, double FluctuationSqSum, int MovingCells, double MeanVx, double MeanVy,
     double VorticitySqSum, long VorticityNodes, double OrderSum, long OrderNodes, RadialSums Velocity, RadialSums Vorticity, RadialSums Nematic)
 {
+    /// <summary>The frame's vorticity on the correlation grid (NaN where undefined), kept only when asked for (the figure's frame).</summary>
+    public VorticityMap? Map { get; init; }
+
     /// <summary>The sums of one frame. <paramref name="samples"/> carry the raw cell velocities; the tissue velocity u
     /// (<see cref="TissueDrift.Of"/>) is removed from the speeds and the field when <paramref name="removeDrift"/>.</summary>
     public static FrameSums Of(int frame, CellSample[] samples, int widthPx, int heightPx, double gridPx, double coarsePx, int stride,
-        bool removeDrift, bool fields)
+        bool removeDrift, bool fields, bool keepMap = false)
     {
         var (driftX, driftY, nu) = TissueDrift.Of(samples);
         double ux = removeDrift && nu > 0 ? driftX : 0, uy = removeDrift && nu > 0 ? driftY : 0;
@@ -31,11 +34,11 @@ internal sealed record FrameSums(MotionFrame Numbers, double SpeedSum, double Fl
         foreach (var c in samples)
             if (double.IsFinite(c.Vx) && double.IsFinite(c.Vy)) sq += (c.Vx - mx) * (c.Vx - mx) + (c.Vy - my) * (c.Vy - my);
         double phi = sAbs > 0 ? Math.Sqrt(sx * sx + sy * sy) / sAbs : double.NaN;
-        var g = fields ? GridSums.Of(Drifted(samples, ux, uy), widthPx, heightPx, gridPx, coarsePx, stride) : GridSums.None;
+        var g = fields ? GridSums.Of(frame, Drifted(samples, ux, uy), widthPx, heightPx, gridPx, coarsePx, stride, keepMap) : GridSums.None;
         var numbers = new MotionFrame(frame, samples.Length, phi, moving > 0 ? speed / moving : double.NaN, moving > 0 ? Math.Sqrt(sq / moving) : double.NaN,
             nu > 0 ? driftX : double.NaN, nu > 0 ? driftY : double.NaN,
             g.VortNodes > 0 ? g.VortSq / (2 * g.VortNodes) : double.NaN, g.OrderNodes > 0 ? g.Order / g.OrderNodes : double.NaN);
-        return new FrameSums(numbers, speed, sq, moving, mx, my, g.VortSq, g.VortNodes, g.Order, g.OrderNodes, g.Velocity, g.Vorticity, g.Nematic);
+        return new FrameSums(numbers, speed, sq, moving, mx, my, g.VortSq, g.VortNodes, g.Order, g.OrderNodes, g.Velocity, g.Vorticity, g.Nematic) { Map = g.Map };
     }
 
     private static CellSample[] Drifted(CellSample[] samples, double ux, double uy)
@@ -47,9 +50,15 @@ internal sealed record FrameSums(MotionFrame Numbers, double SpeedSum, double Fl
     }
 }
 
+/// <summary>One frame's vorticity omega (1/frame) on a grid of nx x ny nodes at x = i h, y = j h (px); NaN where undefined.</summary>
+public sealed record VorticityMap(int Frame, int Nx, int Ny, double SpacingPx, double[] Omega);
+
 /// <summary>The coarse-field part of <see cref="FrameSums"/>.</summary>
 internal sealed record GridSums(double VortSq, long VortNodes, double Order, long OrderNodes, RadialSums Velocity, RadialSums Vorticity, RadialSums Nematic)
 {
+    /// <summary>The vorticity map, when asked for.</summary>
+    public VorticityMap? Map { get; init; }
+
     public static GridSums None { get; } = new(0, 0, 0, 0, RadialSums.Zero(1), RadialSums.Zero(1), RadialSums.Zero(1));
 
     /// <summary>Number of radial bins for a correlation grid of nx x ny nodes: half the shorter side.</summary>
@@ -58,7 +67,7 @@ internal sealed record GridSums(double VortSq, long VortNodes, double Order, lon
     /// <summary>Coarse-grains the frame (<see cref="CoarseGraining.Of"/>) and takes the sums on every <paramref name="stride"/>-th
     /// node at least one coarse width from the border: velocity fluctuation dv = v - frame mean, vorticity by central
     /// differences on the full grid (nodes whose four neighbours have a velocity), Q and its order.</summary>
-    public static GridSums Of(CellSample[] samples, int widthPx, int heightPx, double gridPx, double coarsePx, int stride)
+    public static GridSums Of(int frame, CellSample[] samples, int widthPx, int heightPx, double gridPx, double coarsePx, int stride, bool keepMap)
     {
         var field = CoarseGraining.Of(samples, widthPx, heightPx, gridPx, coarsePx);
         int nx = (field.Nx + stride - 1) / stride, ny = (field.Ny + stride - 1) / stride, n = nx * ny, bins = Bins(nx, ny);
@@ -80,11 +89,19 @@ internal sealed record GridSums(double VortSq, long VortNodes, double Order, lon
             }
         double h = gridPx * stride;
         Centre(vx, kv); Centre(vy, kv);
-        double vortSq = SumSq(om, ko); Centre(om, ko);
+        double vortSq = SumSq(om, ko);
+        VorticityMap? map = null;
+        if (keepMap)
+        {
+            var w = new double[n];
+            for (int k = 0; k < n; k++) w[k] = ko[k] > 0 ? om[k] : double.NaN;
+            map = new VorticityMap(frame, nx, ny, h, w);
+        }
+        Centre(om, ko);
         double order = 0; long orderNodes = 0;
         for (int k = 0; k < n; k++) if (kq[k] > 0) { order += 2 * Math.Sqrt(qxx[k] * qxx[k] + qxy[k] * qxy[k]); orderNodes++; }
         return new GridSums(vortSq, Count(ko), order, orderNodes, FieldCorrelation.Of(nx, ny, h, vx, vy, kv, bins),
-            FieldCorrelation.Of(nx, ny, h, om, null, ko, bins), FieldCorrelation.Of(nx, ny, h, qxx, qxy, kq, bins));
+            FieldCorrelation.Of(nx, ny, h, om, null, ko, bins), FieldCorrelation.Of(nx, ny, h, qxx, qxy, kq, bins)) { Map = map };
     }
 
     private static bool HasVelocity(NematicGrid f, int k) => f.VelocityWeight[k] > 1e-6 && double.IsFinite(f.Vx[k]) && double.IsFinite(f.Vy[k]);

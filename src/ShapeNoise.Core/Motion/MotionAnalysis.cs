@@ -31,6 +31,9 @@ public sealed record MotionResult(Estimate PolarOrder, Estimate MeanSpeed, Estim
     Estimate NematicCorrelationLength, Estimate MeanOrder, RadialCorrelation Velocity, RadialCorrelation Vorticity, RadialCorrelation Nematic,
     double[] VelocityAutocorrelation, IReadOnlyList<MotionFrame> Frames, double CorrelationSpacingPx, int BlockFrames)
 {
+    /// <summary>The vorticity of the middle frame on the correlation grid (for a figure); null when the fields do not apply.</summary>
+    public VorticityMap? VorticitySnapshot { get; init; }
+
     /// <summary>Why the coarse-field measures (correlations, enstrophy, order) do not apply, or null when they do.</summary>
     public string? FieldNotApplicableReason { get; init; }
 
@@ -67,7 +70,7 @@ public static class MotionAnalysis
         var runs = FrameRuns.Of(cells);
         var frames = new FrameSums[runs.Count];
         Parallel.For(0, runs.Count, f => frames[f] = FrameSums.Of(runs[f].Frame, Samples(cells, runs[f], velocityOf), widthPx, heightPx,
-            gridPx, coarsePx, stride, !o.KeepDrift, fieldNotApplicable is null));
+            gridPx, coarsePx, stride, !o.KeepDrift, fieldNotApplicable is null, keepMap: f == runs.Count / 2));
         var lags = LagSums.Of(cells, runs, frames, velocityOf, o.MaxLagFrames);
         return Summarise(frames, lags, gridPx * stride, o, fieldNotApplicable);
     }
@@ -104,7 +107,7 @@ public static class MotionAnalysis
         return new MotionResult(E(m => m.PolarOrder), E(m => m.MeanSpeed), E(m => m.RmsSpeed),
             Field(Length(m => m.VelocityZero)), Field(Length(m => m.Velocity1e)), Field(Length(m => m.VorticityZero)), Field(E(m => m.Enstrophy)),
             tau, Field(Length(m => m.Nematic1e)), Field(E(m => m.MeanOrder)), point.Velocity, point.Vorticity, point.Nematic, point.Autocorrelation,
-            Array.ConvertAll(frames, f => f.Numbers), spacingPx, block) { FieldNotApplicableReason = fieldNotApplicable };
+            Array.ConvertAll(frames, f => f.Numbers), spacingPx, block) { FieldNotApplicableReason = fieldNotApplicable, VorticitySnapshot = frames[n / 2].Map };
     }
 
     private static double[] Select(Measures[] m, Func<Measures, double> f)

@@ -14,6 +14,17 @@ public interface IVelocitySource
     Func<CellRecord, (double Vx, double Vy)> Bind(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks);
 }
 
+/// <summary>A source already bound to one run (<see cref="IVelocitySource.Bind"/> called once), so that several stages share
+/// one binding (an optical-flow source reads the raw movie when bound).</summary>
+public sealed class BoundVelocities(Func<CellRecord, (double Vx, double Vy)> velocityOf) : IVelocitySource
+{
+    /// <summary>The bound lookup.</summary>
+    public Func<CellRecord, (double Vx, double Vy)> VelocityOf { get; } = velocityOf;
+
+    /// <inheritdoc/>
+    public Func<CellRecord, (double Vx, double Vy)> Bind(IReadOnlyList<CellRecord> cells, IReadOnlyList<TrackRecord> tracks) => VelocityOf;
+}
+
 /// <summary>
 /// Velocities from tracked centroids: central differences along the cell's track, (c(t+1) - c(t-1)) / 2, one-sided at
 /// the ends or next to a gap, NaN for a cell with no neighbour frame in its track (docs/measures.md#nematic-field-and-defects).

@@ -89,6 +89,8 @@ public sealed record AnalysisOptions
         new(Nematic.LengthSpec.Parse(CoarseWidth, "--coarse"), Nematic.LengthSpec.Parse(GridSpacing, "--grid"), BootstrapResamples, Seed, keepDrift: KeepDrift);
     /// <summary>The dynamics stage's options (checked when built).</summary>
     [JsonIgnore] public DynamicsOptions ForDynamics => new(MaxLagFrames, BootstrapResamples, Seed);
+    /// <summary>The collective-motion stage's options (docs/motion.md).</summary>
+    [JsonIgnore] public Motion.MotionOptions ForMotion => new(BootstrapResamples, Seed, MaxLagFrames, KeepDrift);
 
     /// <summary>Throws <see cref="ArgumentException"/> when a value is out of range: builds every stage's options (which
     /// check themselves) and checks the rest. Messages start with the property's name (<c>nameof</c>); the CLI turns it

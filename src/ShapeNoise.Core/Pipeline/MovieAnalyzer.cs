@@ -118,10 +118,14 @@ public static class MovieAnalyzer
         var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options.ForDynamics, spatial.Plan));
         progress?.Report(new Progress(2, 3, "nematic field and defects"));
         var defectOptions = options.ToDefectOptions();
-        var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, defectOptions, velocities));
+        // One binding of the velocity source for the defect and motion stages (optical flow reads the raw movie when bound).
+        var bound = new Nematic.BoundVelocities((velocities ?? Nematic.CentroidVelocities.Instance).Bind(cells, tracks));
+        var defects = times.Time("defects", () => Nematic.DefectAnalysis.Run(info.Width, info.Height, cells, tracks, r0, units.S, defectOptions, bound));
         var hypothesis = times.Time("defects", () => Nematic.ShapeNoiseHypothesis.Test(cells, tracks, defects, defectOptions));
         // Defects only where the tissue is confluent (docs/defects.md#where-defects-apply).
-        string? why = !(coverage >= SpatialBlocks.ConfluentCoverage)
+        string? notConfluent = !(coverage >= SpatialBlocks.ConfluentCoverage)
+            ? $"cells cover {100 * coverage:0} % of the field (coarse-grained fields need a confluent tissue, at least {100 * SpatialBlocks.ConfluentCoverage:0} %)" : null;
+        string? why = notConfluent is not null
             ? $"cells cover {100 * coverage:0} % of the field (defects need a confluent tissue, at least {100 * SpatialBlocks.ConfluentCoverage:0} %)"
             : double.IsFinite(defects.MeanAlignment) && defects.MeanAlignment < Nematic.DefectAnalysis.MinAlignment
                 ? $"cell axes are not aligned over the coarse width (mean alignment {defects.MeanAlignment:0.00}, defects need at least {Nematic.DefectAnalysis.MinAlignment:0.00})"
@@ -131,6 +135,10 @@ public static class MovieAnalyzer
             defects = defects.NotApplicable(why);
             hypothesis = hypothesis with { Status = EstimateStatus.NotApplicable };
         }
+        // Collective motion (docs/motion.md): cell velocities always, coarse-grained fields only in a confluent tissue.
+        var motion = times.Time("motion", () => double.IsFinite(defects.CoarsePx)
+            ? ShapeNoise.Motion.MotionAnalysis.Run(info.Width, info.Height, cells, bound.VelocityOf, defects.CoarsePx, defects.GridPx, options.ForMotion, notConfluent)
+            : ShapeNoise.Motion.MotionResult.Empty("no cells or no mean cell radius"));
         warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
             coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks, tracking.MaxGapFrames)
         { CoreFlowRatio = defects.NotApplicableReason is null ? defects.CoreFlowRatio : double.NaN, DriftRemoved = defects.DriftRemoved }));
@@ -138,7 +146,7 @@ public static class MovieAnalyzer
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
         {
             Coverage = coverage, CoverageRaw = coverageRaw,
-            ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
+            Motion = motion, ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
         };
     }
 
