@@ -175,7 +175,22 @@ public static class AnalysisFolder
             ? summary["defects_reason"]?.GetValue<string>() ?? "the defect stage did not apply" : null;
         if (notApplicable is not null) { headward = []; flow = []; headFrames = []; flowFrames = []; }
         return new MovieData(condition, replicate, folder, scale.LengthName, scale.TimeName, ReadTracks(tracksPath, col), tau, headward, flow)
-        { DefectsNotApplicable = notApplicable, DefectHeadwardFrames = headFrames, FlowHeadwardFrames = flowFrames };
+        { DefectsNotApplicable = notApplicable, DefectHeadwardFrames = headFrames, FlowHeadwardFrames = flowFrames, MovieLevel = MovieLevel(summary) };
+    }
+
+    /// <summary>The movie-level estimates of summary.json (<see cref="ConditionComparison.MovieLevelMeasures"/>): value when ok,
+    /// status and reason; a key missing from an older summary counts as not applicable.</summary>
+    private static Dictionary<string, MovieValue> MovieLevel(JsonNode summary)
+    {
+        var d = new Dictionary<string, MovieValue>();
+        foreach (var k in ConditionComparison.MovieLevelMeasures)
+        {
+            var o = summary[k];
+            string status = o?["status"]?.GetValue<string>() ?? "not_applicable";
+            double v = status == "ok" ? o?["value"]?.GetValue<double?>() ?? double.NaN : double.NaN;
+            d[k] = new MovieValue(v, status, o?["reason"]?.GetValue<string>() ?? (o is null ? "not in this analysis folder (made by an older version)" : null));
+        }
+        return d;
     }
 
     private static TrackUnit[] ReadTracks(string tracksPath, AnalysisColumns col)

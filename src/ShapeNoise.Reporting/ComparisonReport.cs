@@ -65,6 +65,13 @@ public static class ComparisonReport
                 Figures.Png(superAnisotropy, 720, 520)),
             new("superplot-anisotropy_contour.png", "The same for the floor-corrected contour ratio var_along / var_across.", Figures.Png(superContour, 720, 520)),
         };
+        var panels = ConditionComparison.MovieLevelMeasures.Select(m => MoviePlot(r, m)).ToList();
+        try
+        {
+            figures.Add(new("superplot-motion.png", "Collective motion and nematic order: each replicate's value (large markers, coloured by replicate) and each condition's value with its 95% bootstrap interval over movies (black bar); measures without an ok value in a movie show no marker for it.",
+                Figures.Grid(panels, 3, 420, 320)));
+        }
+        finally { foreach (var p in panels) p.Dispose(); }
         Figures.Save(figures, dir);
         string narrative = Narrative(r);
         File.WriteAllText(Path.Combine(dir, "comparison.md"), narrative);
@@ -107,6 +114,36 @@ public static class ComparisonReport
         plt.Title($"{Measures.Get(measure).Statistic} per track (small), per replicate (large)");
         plt.YLabel($"{measure} (log scale)");
         plt.ShowLegend(Alignment.UpperRight);
+        return plt;
+    }
+
+    /// <summary>A movie-level measure (docs/motion.md#comparing-conditions): one marker per replicate, the condition's value
+    /// and 95% interval as a bar.</summary>
+    public static Plot MoviePlot(ComparisonResult r, string measure)
+    {
+        var plt = new Plot();
+        var conditions = r.Conditions.Select(x => x.Condition).Distinct().ToList();
+        var palette = new ScottPlot.Palettes.Category10();
+        for (int ci = 0; ci < conditions.Count; ci++)
+        {
+            var movies = r.Movies.Where(m => m.Condition == conditions[ci]).ToList();
+            for (int mi = 0; mi < movies.Count; mi++)
+            {
+                double v = ConditionComparison.Statistic(measure, [movies[mi]], [1], null);
+                if (!double.IsFinite(v)) continue;
+                var big = plt.Add.Marker(ci + (mi - (movies.Count - 1) / 2.0) * 0.08, v); big.Color = palette.GetColor(mi); big.Size = 11;
+            }
+            var cm = r.Conditions.First(x => x.Condition == conditions[ci] && x.Measure == measure).Value;
+            if (cm.IsOk)
+            {
+                var bar = plt.Add.Line(ci + 0.3, cm.Low, ci + 0.3, cm.High); bar.Color = Colors.Black; bar.LineWidth = 3;
+                var mid = plt.Add.Marker(ci + 0.3, cm.Value); mid.Color = Colors.Black; mid.Size = 9; mid.Shape = MarkerShape.FilledSquare;
+            }
+        }
+        plt.Axes.Bottom.TickGenerator = new ScottPlot.TickGenerators.NumericManual(Enumerable.Range(0, conditions.Count).Select(i => (double)i).ToArray(), conditions.ToArray());
+        string unit = Measures.Get(measure).Kind == UnitKind.Ratio ? "" : $" ({UnitOf(measure, r)})";
+        plt.Title(measure);
+        plt.YLabel($"{measure}{unit}");
         return plt;
     }
 

@@ -35,8 +35,18 @@ public sealed record ComparisonResult(IReadOnlyList<ConditionMeasure> Conditions
 /// J. Cell Biol. 219:e202001064; Student (1908), Biometrika 6:1-25.</remarks>
 public static class ConditionComparison
 {
+    /// <summary>Measures with one value per movie read from summary.json (docs/motion.md): compared across movies like tau_q,
+    /// with no within-movie units in the hierarchical bootstrap.</summary>
+    public static readonly string[] MovieLevelMeasures = ["polar_order", "mean_speed", "rms_speed", "velocity_correlation_length",
+        "velocity_correlation_length_1e", "vorticity_correlation_length", "enstrophy", "velocity_autocorrelation_time", "nematic_correlation_length"];
+
     /// <summary>The measures compared, in report order.</summary>
-    public static readonly string[] Measures = ["anisotropy", "anisotropy_contour", "tau_q", "defect_headward_speed", "flow_headward_speed"];
+    public static readonly string[] Measures = ["anisotropy", "anisotropy_contour", "tau_q", "defect_headward_speed", "flow_headward_speed", .. MovieLevelMeasures];
+
+    /// <summary>Movie-level measures compared on a log scale (positive scales: speeds, lengths, times, enstrophy); the
+    /// polar order (bounded in [0, 1]) is compared linearly.</summary>
+    private static readonly string[] LogScaleMovieLevel = ["mean_speed", "rms_speed", "velocity_correlation_length",
+        "velocity_correlation_length_1e", "vorticity_correlation_length", "enstrophy", "velocity_autocorrelation_time", "nematic_correlation_length"];
 
     /// <summary>The primary measure: its p-value is reported unadjusted, the others Holm-adjusted (docs/statistics.md, "Comparing conditions").</summary>
     public const string Primary = "anisotropy";
@@ -45,7 +55,7 @@ public static class ConditionComparison
     public const int MinMovies = 3;
 
     /// <summary>Whether <paramref name="measure"/> is compared on a log scale (ratios and tau_q) rather than linearly (speeds).</summary>
-    public static bool IsLogScale(string measure) => measure is "anisotropy" or "anisotropy_contour" or "tau_q";
+    public static bool IsLogScale(string measure) => measure is "anisotropy" or "anisotropy_contour" or "tau_q" || LogScaleMovieLevel.Contains(measure);
 
     /// <summary>
     /// The one movie-level quantity y_m per measure, used by compare and by plan alike: ln of the movie's frame-weighted
@@ -123,7 +133,8 @@ public static class ConditionComparison
                 case "tau_q":
                     if (double.IsFinite(mv.TauQ)) { num += count[m] * mv.TauQ; den += count[m]; }
                     break;
-                default:
+                case "defect_headward_speed":
+                case "flow_headward_speed":
                 {
                     var v = measure == "defect_headward_speed" ? mv.DefectHeadward : mv.FlowHeadward;
                     var frames = measure == "defect_headward_speed" ? mv.DefectHeadwardFrames : mv.FlowHeadwardFrames;
@@ -135,6 +146,10 @@ public static class ConditionComparison
                     }
                     break;
                 }
+                default:
+                    // Movie-level measures: the mean over movies of their ok values (docs/motion.md#comparing-conditions).
+                    if (mv.MovieLevel.TryGetValue(measure, out var mvv) && double.IsFinite(mvv.Value)) { num += count[m] * mvv.Value; den += count[m]; }
+                    break;
             }
         }
         return den > 0 ? num / den : double.NaN;
@@ -144,6 +159,11 @@ public static class ConditionComparison
     /// applicable (the first movie's reason, e.g. "cells cover 14 % of the field") — or null.</summary>
     public static string? NotApplicable(string measure, IReadOnlyList<MovieData> movies)
     {
+        if (MovieLevelMeasures.Contains(measure) && movies.Count > 0)
+        {
+            foreach (var m in movies) if (!m.MovieLevel.TryGetValue(measure, out var v) || v.Status != "not_applicable") return null;
+            return $"not applicable in these movies: {movies[0].MovieLevel[measure].Reason}";
+        }
         if (measure is not ("defect_headward_speed" or "flow_headward_speed") || movies.Count == 0) return null;
         foreach (var m in movies) if (m.DefectsNotApplicable is null) return null;
         return $"defects not analysed in these movies: {movies[0].DefectsNotApplicable}";
@@ -152,9 +172,9 @@ public static class ConditionComparison
     private static int UnitCount(string measure, MovieData m) => measure switch
     {
         "anisotropy" or "anisotropy_contour" => m.Tracks.Length,
-        "tau_q" => 0,
         "defect_headward_speed" => m.DefectHeadward.Length,
-        _ => m.FlowHeadward.Length,
+        "flow_headward_speed" => m.FlowHeadward.Length,
+        _ => 0,   // tau_q and the movie-level measures: one value per movie
     };
 
     /// <summary>One hierarchical resample of a condition: movie draw counts, then unit multiplicities per measure.</summary>

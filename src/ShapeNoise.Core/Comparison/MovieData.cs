@@ -19,7 +19,14 @@ public sealed record MovieData(string Condition, string Replicate, string Folder
     /// <summary>Why the movie's defect stage did not apply (summary.json defects_reason), or null when it did; such a
     /// movie contributes no defect speeds (docs/defects.md#where-defects-apply).</summary>
     public string? DefectsNotApplicable { get; init; }
+    /// <summary>The movie-level measures read from summary.json (collective motion, defect statistics; docs/motion.md), by
+    /// key: one value per movie with its status; compared across movies like tau_q.</summary>
+    public IReadOnlyDictionary<string, MovieValue> MovieLevel { get; init; } = new Dictionary<string, MovieValue>();
 }
+
+/// <summary>One movie-level estimate as read back from summary.json: its value (NaN unless the status is ok), status name
+/// (ok, too_few, at_bound, not_applicable) and reason.</summary>
+public readonly record struct MovieValue(double Value, string Status, string? Reason);
 
 /// <summary>One row of conditions.csv: condition, replicate, path (an analysis folder or a movie to analyse); Line is its line number in the file.</summary>
 public sealed record ConditionRow(string Condition, string Replicate, string Path, long Line = 0)
