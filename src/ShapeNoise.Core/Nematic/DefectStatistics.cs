@@ -185,8 +185,9 @@ public static class DefectStatistics
         double exposure = ctx.EventAreaPx2 * ctx.FrameIntervals;
         int creations = 0, annihilations = 0;
         foreach (var e in events) if (e.Kind == DefectEventKind.Creation) creations++; else annihilations++;
-        var msd = Msd(ctx, paths);
-        var (alpha, fitLags) = MsdExponent(ctx, paths, msd, bootstrapResamples, seed);
+        var perTrack = MsdPerTrack(ctx, paths);
+        var msd = Msd(perTrack);
+        var (alpha, fitLags) = MsdExponent(ctx, paths, perTrack, msd, bootstrapResamples, seed);
         var result = new DefectStatisticsResult(plus, minus, net, lifetime, curve, PoissonInterval.Rate(creations, exposure),
             PoissonInterval.Rate(annihilations, exposure), events, rows, msd, alpha, fitLags, ctx.SearchAreaPx2, ctx.EventAreaPx2,
             ctx.FrameIntervals, unpairedStarts, unpairedEnds);
@@ -363,7 +364,7 @@ public static class DefectStatistics
         return partner;
     }
 
-    /// <summary>Per +1/2 track with at least two members: for each lag the sum of squared displacements relative to the
+    /// <summary>Per +1/2 track with at least two members (in track order): for each lag the sum of squared displacements relative to the
     /// tissue and the number of pairs.</summary>
     private static List<(Dictionary<int, double> Sum, Dictionary<int, int> Pairs)> MsdPerTrack(Context ctx, Dictionary<int, List<Member>> paths)
     {
@@ -389,9 +390,8 @@ public static class DefectStatistics
     }
 
     /// <summary>MSD(tau) = sum over every +1/2 track and pair of members tau frames apart of |r_j - r_i|^2 / pairs.</summary>
-    private static List<MsdPoint> Msd(Context ctx, Dictionary<int, List<Member>> paths)
+    private static List<MsdPoint> Msd(List<(Dictionary<int, double> Sum, Dictionary<int, int> Pairs)> perTrack)
     {
-        var perTrack = MsdPerTrack(ctx, paths);
         var sum = new SortedDictionary<int, (double S, int P, int T)>();
         foreach (var (s, p) in perTrack)
             foreach (var (lag, count) in p)
@@ -407,9 +407,9 @@ public static class DefectStatistics
     /// <summary>alpha = least-squares slope of log MSD on log tau over tau = 1..L, L = min(floor(<see cref="MsdFitFraction"/>
     /// x median +1/2 track span), largest lag held by at least <see cref="Estimate.MinUnits"/> tracks), at least 2 lags;
     /// percentile bootstrap over +1/2 tracks (each resample recomputes the pooled MSD at the same lags).</summary>
-    private static (Estimate Alpha, int Lags) MsdExponent(Context ctx, Dictionary<int, List<Member>> paths, List<MsdPoint> msd, int resamples, int seed)
+    private static (Estimate Alpha, int Lags) MsdExponent(Context ctx, Dictionary<int, List<Member>> paths,
+        List<(Dictionary<int, double> Sum, Dictionary<int, int> Pairs)> perTrack, List<MsdPoint> msd, int resamples, int seed)
     {
-        var perTrack = MsdPerTrack(ctx, paths);
         int k = perTrack.Count;
         const string unit = "defect tracks";
         if (k == 0) return (Estimate.TooFewUnits(0, unit, "no +1/2 defect track followed for two frames"), 0);

@@ -261,6 +261,13 @@ public class DefectStatisticsTests(ITestOutputHelper log)
         Assert.Equal(2.0, s.PlusMsdExponent.Low, 9);    // every resample gives 2 up to rounding: no real spread
         Assert.Equal(2.0, s.PlusMsdExponent.High, 9);
         Assert.Equal(7, s.MsdFitLags);   // a quarter of the 30-frame span
+        // The same through the overload that takes frames and D(t) from the defect stage's drift record (constant u: the
+        // trapezoid rule is exact) - and in the lab frame when the drift was kept.
+        var drift = Frames(30).Select(f => new TissueDriftFrame(f, 0.8, -0.4, 100)).ToArray();
+        var viaDrift = DefectStatistics.Of(Result(tracks) with { Drift = drift, DriftRemoved = true }, W, H, W * H, 50, 7);
+        Assert.Equal(0.57 * 25, viaDrift.PlusMsd[4].MsdPx2, 1e-9);
+        var kept = DefectStatistics.Of(Result(tracks) with { Drift = drift, DriftRemoved = false }, W, H, W * H, 50, 7);
+        Assert.True(kept.PlusMsd[4].MsdPx2 > viaDrift.PlusMsd[4].MsdPx2);
     }
 
     /// <summary>
