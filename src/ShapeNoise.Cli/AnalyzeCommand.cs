@@ -134,6 +134,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         t.AddRow("+1/2 / -1/2 defects per frame", df.NotApplicableReason is { } why ? $"not applicable: {why}".EscapeMarkup() : $"{df.PlusPerFrame:G3} / {df.MinusPerFrame:G3}", "", "", df.NotApplicableReason is null ? "" : "not_applicable");
         Row(Measures.DefectHeadwardSpeed, us.Speed(df.HeadwardSpeed));
         Row(Measures.FlowHeadwardSpeed, us.Speed(df.FlowHeadwardSpeed));
+        if (r.DefectStatistics is { } ds) foreach (var (measure, e) in DefectStatisticsReport.Estimates(ds)) Row(measure, us.Of(measure.Kind, e));
         foreach (var (measure, e) in MotionReport.Estimates(r.Motion)) Row(measure, us.Of(measure.Kind, e));   // docs/motion.md
         t.AddRow("noise model", ShapeNoise.Fluctuations.Pooling.Name(r.Pooled.NoiseModel), "", "", "");
         t.AddRow("tracks used / tracked", $"{r.Counts.TracksUsed} / {r.Counts.Tracks}", "");

@@ -128,6 +128,12 @@ public static class AnalysisFolder
     public const string Motion = "motion.csv";
     /// <summary>velocity-autocorrelation.csv: the cells' temporal velocity autocorrelation per lag (docs/motion.md).</summary>
     public const string VelocityAutocorrelation = "velocity-autocorrelation.csv";
+    /// <summary>defect-tracks.csv: one row per defect track with its lifetime and censoring (docs/motion.md#defect-lifetime).</summary>
+    public const string DefectTracks = "defect-tracks.csv";
+    /// <summary>defect-survival.csv: the Kaplan-Meier curve of the defect lifetimes.</summary>
+    public const string DefectSurvival = "defect-survival.csv";
+    /// <summary>defect-msd.csv: mean-squared displacement of +1/2 defects relative to the tissue.</summary>
+    public const string DefectMsd = "defect-msd.csv";
     /// <summary>sim-params.json (--sim-format json).</summary>
     public const string SimParamsJson = "sim-params.json";
     /// <summary>sim-params.toml (--sim-format toml).</summary>
@@ -142,7 +148,7 @@ public static class AnalysisFolder
     public const string SpectrumFigure = "spectrum.png", AnisotropyFigure = "anisotropy.png", ProfileFigure = "profile.png",
         AutocorrelationFigure = "autocorrelation.png", HeadwardFigure = "headward.png", DefectFlowFigure = "defect-flow.png",
         DriftFigure = "drift.png", VelocityCorrelationFigure = "velocity-correlation.png", PolarOrderFigure = "polar-order.png",
-        VorticityFigure = "vorticity.png";
+        VorticityFigure = "vorticity.png", DefectSurvivalFigure = "defect-survival.png";
     /// <summary>The file name of the defect overlay drawn on frame <paramref name="frame"/> (defects-frame-NNN.png).</summary>
     public static string DefectFrameFigure(int frame) => $"defects-frame-{frame:D3}.png";
 

@@ -49,6 +49,7 @@ public static class HtmlReport
         if (double.IsFinite(df.DriftSpeedPx))
             h.Add($"The tissue drifts at {Round(u.Speed(df.DriftSpeedPx))} {u.SpeedLabel} on average (median cell velocity); "
                   + (df.DriftRemoved ? "defect speeds and cell flows are relative to the tissue." : "the drift is kept in defect speeds and cell flows (--keep-drift)."));
+        if (df.NotApplicableReason is null) h.Add(DefectStatisticsReport.Sentence(r));
         h.Add(MotionReport.Sentence(r));
         return h;
     }

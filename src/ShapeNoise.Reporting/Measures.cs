@@ -79,13 +79,27 @@ public static class Measures
     /// <summary>1/e length of the nematic correlation.</summary>
     public static readonly Measure NematicCorrelationLength = new("nematic_correlation_length", UnitKind.Length, "C_QQ = 1/e");
 
+    /// <summary>+1/2 defects per area of tissue.</summary>
+    public static readonly Measure PlusHalfDensity = new("plus_half_density", UnitKind.Density, "per frame");
+    /// <summary>-1/2 defects per area of tissue.</summary>
+    public static readonly Measure MinusHalfDensity = new("minus_half_density", UnitKind.Density, "per frame");
+    /// <summary>Kaplan-Meier median lifetime of defect tracks.</summary>
+    public static readonly Measure DefectLifetime = new("defect_lifetime", UnitKind.Time, "Kaplan-Meier median");
+    /// <summary>Creations of +-1/2 pairs per area and time.</summary>
+    public static readonly Measure DefectCreationRate = new("defect_creation_rate", UnitKind.Rate, "");
+    /// <summary>Annihilations of +-1/2 pairs per area and time.</summary>
+    public static readonly Measure DefectAnnihilationRate = new("defect_annihilation_rate", UnitKind.Rate, "");
+
+    /// <summary>The defect statistics (docs/motion.md#defect-statistics), in report order.</summary>
+    public static IReadOnlyList<Measure> DefectStatistics { get; } = [PlusHalfDensity, MinusHalfDensity, DefectLifetime, DefectCreationRate, DefectAnnihilationRate];
+
     /// <summary>The collective-motion measures (docs/motion.md), in report order.</summary>
     public static IReadOnlyList<Measure> Motion { get; } = [PolarOrder, MeanSpeed, RmsSpeed, VelocityCorrelationLength, VelocityCorrelationLength1e,
         VorticityCorrelationLength, Enstrophy, VelocityAutocorrelationTime, NematicCorrelationLength];
 
     /// <summary>Every measure of the table.</summary>
     public static IReadOnlyList<Measure> All { get; } = [Anisotropy, AnisotropyContour, VarL, VarW, VarAlong, VarAcross, TauQ, TauTheta, DefectHeadwardSpeed, FlowHeadwardSpeed,
-        .. Motion];
+        .. Motion, .. DefectStatistics];
 
     /// <summary>The measure named <paramref name="name"/>; an <see cref="ArgumentException"/> for a name not in the table.</summary>
     public static Measure Get(string name)

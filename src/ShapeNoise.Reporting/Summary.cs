@@ -146,6 +146,7 @@ public static class Summary
             ["outline_method"] = r.Options.Outline.ToString().ToLowerInvariant(),
         };
         MotionReport.AddTo(summary, r);   // docs/motion.md
+        DefectStatisticsReport.AddTo(summary, r);
         summary["warnings"] = warnings;
         return summary;
     }

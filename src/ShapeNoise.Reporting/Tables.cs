@@ -321,5 +321,6 @@ public static class Tables
         Write(Path.Combine(dir, AnalysisFolder.DefectFlow), DefectFlow(r), new FlowMap(c));
         Write(Path.Combine(dir, AnalysisFolder.Drift), Drift(r), new DriftMap(c));
         MotionReport.WriteTables(r, dir);
+        DefectStatisticsReport.WriteTables(r, dir);
     }
 }

@@ -38,15 +38,16 @@ public static class ConditionComparison
     /// <summary>Measures with one value per movie read from summary.json (docs/motion.md): compared across movies like tau_q,
     /// with no within-movie units in the hierarchical bootstrap.</summary>
     public static readonly string[] MovieLevelMeasures = ["polar_order", "mean_speed", "rms_speed", "velocity_correlation_length",
-        "velocity_correlation_length_1e", "vorticity_correlation_length", "enstrophy", "velocity_autocorrelation_time", "nematic_correlation_length"];
+        "velocity_correlation_length_1e", "vorticity_correlation_length", "enstrophy", "velocity_autocorrelation_time", "nematic_correlation_length",
+        "plus_half_density", "minus_half_density", "defect_lifetime", "defect_creation_rate", "defect_annihilation_rate"];
 
     /// <summary>The measures compared, in report order.</summary>
     public static readonly string[] Measures = ["anisotropy", "anisotropy_contour", "tau_q", "defect_headward_speed", "flow_headward_speed", .. MovieLevelMeasures];
 
     /// <summary>Movie-level measures compared on a log scale (positive scales: speeds, lengths, times, enstrophy); the
-    /// polar order (bounded in [0, 1]) is compared linearly.</summary>
+    /// polar order (bounded in [0, 1]) and the defect densities and rates (which can be 0) are compared linearly.</summary>
     private static readonly string[] LogScaleMovieLevel = ["mean_speed", "rms_speed", "velocity_correlation_length",
-        "velocity_correlation_length_1e", "vorticity_correlation_length", "enstrophy", "velocity_autocorrelation_time", "nematic_correlation_length"];
+        "velocity_correlation_length_1e", "vorticity_correlation_length", "enstrophy", "velocity_autocorrelation_time", "nematic_correlation_length", "defect_lifetime"];
 
     /// <summary>The primary measure: its p-value is reported unadjusted, the others Holm-adjusted (docs/statistics.md, "Comparing conditions").</summary>
     public const string Primary = "anisotropy";

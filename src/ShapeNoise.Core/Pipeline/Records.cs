@@ -46,6 +46,8 @@ public sealed record AnalysisResult(Reading.MovieInfo Movie, AnalysisOptions Opt
     public double BlockSizePx { get; init; } = double.NaN;
     /// <summary>Estimated correlation length xi of the shape fluctuations (px); NaN for the track bootstrap.</summary>
     public double ShapeCorrelationLengthPx { get; init; } = double.NaN;
+    /// <summary>Defect densities, lifetimes, creation and annihilation, +1/2 mean-squared displacement (docs/motion.md#defect-statistics); null when not computed.</summary>
+    public Nematic.DefectStatisticsResult? DefectStatistics { get; init; }
     /// <summary>Collective motion and nematic order (docs/motion.md).</summary>
     public ShapeNoise.Motion.MotionResult Motion { get; init; } = ShapeNoise.Motion.MotionResult.Empty("not computed");
 }
