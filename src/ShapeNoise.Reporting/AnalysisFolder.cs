@@ -84,6 +84,9 @@ public sealed class AnalysisColumns(UnitScale u)
     /// <summary>u_x and u_y of drift.csv in the run's speed unit (u_x_um_per_min …); null when that unit is px/frame
     /// (u_x_px_per_frame, u_y_px_per_frame are always written).</summary>
     public (string X, string Y)? DriftRun => u.SpeedSuffix == "px_per_frame" ? null : ($"u_x_{u.SpeedSuffix}", $"u_y_{u.SpeedSuffix}");
+    /// <summary>cells.csv's extra centroid columns in px (x_px, y_px) when the run is in um; null in a px run, whose
+    /// centroid columns are already x_px, y_px.</summary>
+    public (string X, string Y)? CellPx => u.PixelSizeKnown ? ("x_px", "y_px") : null;
     /// <summary>x_um and y_um of defects.csv when the pixel size is known (x_px, y_px are always written); null otherwise.</summary>
     public (string X, string Y)? DefectUm => u.PixelSizeKnown ? ("x_um", "y_um") : null;
     /// <summary>tau_min or tau_frames (sim-params and summary.json "dynamics").</summary>

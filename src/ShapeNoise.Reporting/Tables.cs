@@ -7,10 +7,11 @@ using ShapeNoise.Pipeline;
 
 namespace ShapeNoise.Reporting;
 
-/// <summary>cells.csv: one row per analysed outline.</summary>
+/// <summary>cells.csv: one row per analysed outline; the centroid in the run's length unit (X, Y) and in px (XPx, YPx,
+/// the image's row/column frame, for overlays and tracks layers; docs/python.md#napari-tracks).</summary>
 public sealed record CellRow(int Frame, double Time, int Label, int TrackId, bool InStatistics, double X, double Y, double Area,
     double Perimeter, double Length, double Width, double AspectRatio, double Elongation, double ThetaRad, double MeanRadius,
-    double Mode2Amplitude, bool StarShaped, int Vertices);
+    double Mode2Amplitude, bool StarShaped, int Vertices, double XPx, double YPx);
 
 /// <summary>tracks.csv: one row per track.</summary>
 public sealed record TrackRow(int TrackId, int FirstFrame, int LastFrame, int Frames, double Duration, string End, bool InStatistics,
@@ -112,6 +113,9 @@ internal sealed class CellMap : ClassMap<CellRow>
         Map(r => r.AspectRatio).Name("aspect_ratio"); Map(r => r.Elongation).Name("elongation_q"); Map(r => r.ThetaRad).Name("theta_rad");
         Map(r => r.MeanRadius).Name(c.MeanRadius); Map(r => r.Mode2Amplitude).Name(c.Mode2Amplitude);
         Map(r => r.StarShaped).Name("star_shaped"); Map(r => r.Vertices).Name("vertices");
+        // x_px, y_px close the row when the run is in um (a run in px already has them as its x_px, y_px above).
+        if (c.CellPx is { } px) { Map(r => r.XPx).Name(px.X); Map(r => r.YPx).Name(px.Y); }
+        else { Map(r => r.XPx).Ignore(); Map(r => r.YPx).Ignore(); }
     }
 }
 
@@ -167,7 +171,7 @@ public static class Tables
             if (th <= -Math.PI / 2) th += Math.PI;
             yield return new CellRow(c.Frame, c.Frame * dt, c.Label, c.TrackId, used.Contains(c.TrackId), sh.CentroidX * s, sh.CentroidY * s,
                 sh.AreaPx2 * s2, sh.PerimeterPx * s, sh.LengthPx * s, sh.WidthPx * s, sh.AspectRatio, sh.Elongation, th,
-                c.MeanRadiusPx * s, c.Mode2AmplitudePx * s, c.StarShaped, c.Vertices);
+                c.MeanRadiusPx * s, c.Mode2AmplitudePx * s, c.StarShaped, c.Vertices, sh.CentroidX, sh.CentroidY);
         }
     }
 

@@ -105,14 +105,23 @@ public static class TiffWriter
         return ms.ToArray();
     }
 
-    /// <summary>OME-XML for a single-channel time series with the given pixel size (um) and frame interval (min).</summary>
+    /// <summary>OME-XML (2016-06 schema) for a single-channel time series, SizeZ = SizeC = 1, DimensionOrder XYZCT, one
+    /// IFD per frame from IFD 0: PhysicalSizeX = PhysicalSizeY = <paramref name="pixelSizeUm"/> with unit "µm" and
+    /// TimeIncrement = <paramref name="frameIntervalMin"/> with unit "min". A scale that is unknown (null, not finite or
+    /// not above 0) is left out, never guessed, so readers fall back to pixels and frames (docs/inputs.md#written-tiffs).</summary>
+    /// <remarks>Open Microscopy Environment, OME Data Model and File Formats, schema 2016-06 (Pixels, Channel, TiffData);
+    /// Goldberg et al. (2005), Genome Biology 6:R47; Linkert et al. (2010), J. Cell Biol. 189:777.</remarks>
     public static string OmeXml(int width, int height, int frames, string pixelType, double? pixelSizeUm, double? frameIntervalMin)
     {
         var ci = System.Globalization.CultureInfo.InvariantCulture;
-        string size = pixelSizeUm is { } s ? $" PhysicalSizeX=\"{s.ToString("R", ci)}\" PhysicalSizeXUnit=\"µm\" PhysicalSizeY=\"{s.ToString("R", ci)}\" PhysicalSizeYUnit=\"µm\"" : "";
-        string dt = frameIntervalMin is { } t ? $" TimeIncrement=\"{(t * 60).ToString("R", ci)}\" TimeIncrementUnit=\"s\"" : "";
+        string size = pixelSizeUm is { } s && double.IsFinite(s) && s > 0
+            ? $" PhysicalSizeX=\"{s.ToString("R", ci)}\" PhysicalSizeXUnit=\"µm\" PhysicalSizeY=\"{s.ToString("R", ci)}\" PhysicalSizeYUnit=\"µm\"" : "";
+        string dt = frameIntervalMin is { } t && double.IsFinite(t) && t > 0
+            ? $" TimeIncrement=\"{t.ToString("R", ci)}\" TimeIncrementUnit=\"min\"" : "";
         return "<?xml version=\"1.0\" encoding=\"UTF-8\"?>" +
-               "<OME xmlns=\"http://www.openmicroscopy.org/Schemas/OME/2016-06\">" +
+               "<OME xmlns=\"http://www.openmicroscopy.org/Schemas/OME/2016-06\"" +
+               " xmlns:xsi=\"http://www.w3.org/2001/XMLSchema-instance\"" +
+               " xsi:schemaLocation=\"http://www.openmicroscopy.org/Schemas/OME/2016-06 http://www.openmicroscopy.org/Schemas/OME/2016-06/ome.xsd\">" +
                "<Image ID=\"Image:0\" Name=\"labels\">" +
                $"<Pixels ID=\"Pixels:0\" DimensionOrder=\"XYZCT\" Type=\"{pixelType}\" SizeX=\"{width}\" SizeY=\"{height}\" SizeZ=\"1\" SizeC=\"1\" SizeT=\"{frames}\"{size}{dt}>" +
                "<Channel ID=\"Channel:0:0\" SamplesPerPixel=\"1\"/>" +

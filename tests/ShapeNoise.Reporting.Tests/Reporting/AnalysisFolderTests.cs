@@ -42,6 +42,7 @@ public class AnalysisFolderTests
         Assert.Equal("flow_headward_speed_px_per_frame", c.FlowHeadwardSpeed);
         Assert.Null(c.Lag);          // lag_frames alone
         Assert.Null(c.DefectUm);     // x_px, y_px alone
+        Assert.Null(c.CellPx);       // cells.csv's centroid columns are x_px, y_px already
         Assert.Equal(1.0, u.SpeedFactor);
     }
 
@@ -56,7 +57,7 @@ public class AnalysisFolderTests
         var headers = File.ReadLines(Path.Combine(root, "tests", "ShapeNoise.Reporting.Tests", "Golden", "ellipses.csv-headers.txt")).Where(l => !l.StartsWith('#'))
             .ToDictionary(l => l[..l.IndexOf(':')], l => l[(l.IndexOf(':') + 2)..].Split(','));
         Assert.Equal(new[] { "frame", c.Time, "label", "track_id", "in_statistics", c.X, c.Y, c.Area, c.Perimeter, c.Length, c.Width, "aspect_ratio",
-            "elongation_q", "theta_rad", c.MeanRadius, c.Mode2Amplitude, "star_shaped", "vertices" }, headers[AnalysisFolder.Cells]);
+            "elongation_q", "theta_rad", c.MeanRadius, c.Mode2Amplitude, "star_shaped", "vertices", c.CellPx!.Value.X, c.CellPx!.Value.Y }, headers[AnalysisFolder.Cells]);
         Assert.Equal(new[] { "track_id", "first_frame", "last_frame", "frames", c.Duration, "end", "in_statistics", c.MeanArea, c.MeanLength, c.MeanWidth,
             c.VarL, c.VarW, c.VarAlongRaw, c.VarAcrossRaw, c.FloorAlong, c.FloorAcross, c.VarAlong, c.VarAcross, "below_floor" }, headers[AnalysisFolder.Tracks]);
         Assert.Contains(c.HeadwardSpeed, headers[AnalysisFolder.Defects]);
