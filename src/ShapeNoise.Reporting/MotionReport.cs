@@ -168,7 +168,7 @@ public static class MotionReport
         double max = 0;
         foreach (var w in map.Omega) if (double.IsFinite(w)) max = Math.Max(max, Math.Abs(w));
         double perTime = 1 / u.TimeFactor;
-        for (int j = 0; j < map.Ny; j++) for (int i = 0; i < map.Nx; i++) z[map.Ny - 1 - j, i] = map.Omega[j * map.Nx + i] * perTime;
+        for (int j = 0; j < map.Ny; j++) for (int i = 0; i < map.Nx; i++) z[j, i] = map.Omega[j * map.Nx + i] * perTime;   // heatmap row 0 is drawn at the top, like the image's row 0
         max *= perTime;
         var hm = plt.Add.Heatmap(z);
         hm.Colormap = new ScottPlot.Colormaps.Balance();
@@ -181,7 +181,7 @@ public static class MotionReport
         }
         plt.Add.ColorBar(hm);
         plt.Title($"Vorticity, frame {map.Frame} (1/{u.TimeName})");
-        plt.XLabel($"x ({u.LengthName})"); plt.YLabel($"y ({u.LengthName}, image rows downward)");
+        plt.XLabel($"x ({u.LengthName})"); plt.YLabel($"y ({u.LengthName}, from the image bottom)");
         return plt;
     }
 
