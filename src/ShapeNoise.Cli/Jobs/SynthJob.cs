@@ -123,11 +123,47 @@ public static class SynthJob
                 ["pairs"] = o.Pairs,
                 ["plus_defects"] = PlusDefects(t, o),
             };
+            if (o.Flow != TissueFlow.Uniform) truth["flow"] = FlowJson(movie);
             File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
             var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
             File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("synth monolayer", [], opts, commandLine).ToJsonString(Summary.Indented));
         });
         return movie;
+    }
+
+    private static JsonValue? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+
+    /// <summary>truth.json's "flow" block for a flock or a swirl (docs/motion.md#synthetic-flows): the realised polar order,
+    /// mean and rms speed of the cells' imposed velocities, and the field's velocity correlation on the truth grid with its
+    /// first zero, 1/e length and J0's analytic first zero 2.405 / k; lengths in px and um, speeds in px/frame and um/min.</summary>
+    private static JsonObject FlowJson(MonolayerMovie movie)
+    {
+        var o = movie.Options; var f = movie.FlowStatistics();
+        double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
+        var c = f.Correlation;
+        var rPx = new JsonArray(); var rUm = new JsonArray(); var cv = new JsonArray(); var pairs = new JsonArray();
+        for (int b = 0; b < c.R.Length; b++) { rPx.Add(c.R[b]); rUm.Add(c.R[b] * s); cv.Add(Num(c.C[b])); pairs.Add(c.Pairs[b]); }
+        return new JsonObject
+        {
+            ["kind"] = o.Flow.ToString().ToLowerInvariant(),
+            ["description"] = o.Flow == TissueFlow.Flock
+                ? "uniform velocity plus an incompressible random field of plane waves (psi = A sum_j cos(k e_j . x + phi_j(t))), periodic canvas; values realised from the imposed velocities"
+                : "incompressible random field of plane waves of one wavenumber (psi = A sum_j cos(k e_j . x + phi_j(t)), v = (dpsi/dy, -dpsi/dx)), periodic canvas; values realised from the imposed velocities",
+            ["flock_vx_px_per_frame"] = movie.Truth.FlowVx, ["flock_vy_px_per_frame"] = movie.Truth.FlowVy,
+            ["flock_vx_um_per_min"] = movie.Truth.FlowVx * sv, ["flock_vy_um_per_min"] = movie.Truth.FlowVy * sv,
+            ["waves"] = MonolayerMovieOptions.FlowWaves,
+            ["wavelength_px"] = f.WavelengthPx, ["wavelength_um"] = f.WavelengthPx * s,
+            ["field_tau_frames"] = f.TauFrames, ["field_tau_min"] = f.TauFrames * o.FrameIntervalMin,
+            ["polar_order"] = Num(f.PolarOrder),
+            ["mean_speed_px_per_frame"] = Num(f.MeanSpeedPx), ["mean_speed_um_per_min"] = Num(f.MeanSpeedPx * sv),
+            ["rms_speed_px_per_frame"] = Num(f.RmsSpeedPx), ["rms_speed_um_per_min"] = Num(f.RmsSpeedPx * sv),
+            ["field_rms_speed_px_per_frame"] = Num(f.FieldRmsSpeedPx), ["field_rms_speed_um_per_min"] = Num(f.FieldRmsSpeedPx * sv),
+            ["correlation_first_zero_px"] = Num(f.FirstZeroPx), ["correlation_first_zero_um"] = Num(f.FirstZeroPx * s),
+            ["correlation_one_over_e_px"] = Num(f.OneOverEPx), ["correlation_one_over_e_um"] = Num(f.OneOverEPx * s),
+            ["analytic_first_zero_px"] = Num(f.AnalyticFirstZeroPx), ["analytic_first_zero_um"] = Num(f.AnalyticFirstZeroPx * s),
+            ["grid_spacing_px"] = f.GridSpacingPx,
+            ["velocity_correlation"] = new JsonObject { ["r_px"] = rPx, ["r_um"] = rUm, ["c"] = cv, ["pairs"] = pairs },
+        };
     }
 
     /// <summary>Every prescribed +1/2 defect: region level z, its var_L/var_W factor, signed headward speed, path and heads.</summary>
