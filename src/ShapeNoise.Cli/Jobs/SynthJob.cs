@@ -162,6 +162,9 @@ public static class SynthJob
             ["correlation_one_over_e_px"] = Num(f.OneOverEPx), ["correlation_one_over_e_um"] = Num(f.OneOverEPx * s),
             ["analytic_first_zero_px"] = Num(f.AnalyticFirstZeroPx), ["analytic_first_zero_um"] = Num(f.AnalyticFirstZeroPx * s),
             ["grid_spacing_px"] = f.GridSpacingPx,
+            ["realised_polar_order"] = Num(f.RealisedPolarOrder),
+            ["realised_rms_speed_px_per_frame"] = Num(f.RealisedRmsSpeedPx), ["realised_rms_speed_um_per_min"] = Num(f.RealisedRmsSpeedPx * sv),
+            ["realised_follow_slope"] = Num(f.FollowSlope),
             ["velocity_correlation"] = new JsonObject { ["r_px"] = rPx, ["r_um"] = rUm, ["c"] = cv, ["pairs"] = pairs },
         };
     }

@@ -178,9 +178,12 @@ public sealed record CellFrame(double[] X, double[] Y, double[] Vx, double[] Vy,
 /// <param name="WavelengthPx">Wavelength of the random field (px; NaN for a uniform flow).</param>
 /// <param name="GridSpacingPx">Spacing of the truth grid (px).</param>
 /// <param name="TauFrames">Correlation time of the random field (frames; NaN for a uniform flow).</param>
+/// <param name="RealisedPolarOrder">Polar order of the seeds' actual steps x_i(t + 1) - x_i(t) (imposed flow plus relaxation), mean over frames.</param>
+/// <param name="RealisedRmsSpeedPx">Rms about the frame mean of the seeds' actual steps (px/frame).</param>
+/// <param name="FollowSlope">sum d_i . v_i / sum v_i . v_i over cells and frames: how much of the imposed velocity the seeds' steps d realise.</param>
 public sealed record FlowTruth(TissueFlow Kind, double PolarOrder, double MeanSpeedPx, double RmsSpeedPx, double FieldRmsSpeedPx,
     RadialCorrelation Correlation, double FirstZeroPx, double OneOverEPx, double AnalyticFirstZeroPx, double WavelengthPx,
-    double GridSpacingPx, double TauFrames);
+    double GridSpacingPx, double TauFrames, double RealisedPolarOrder, double RealisedRmsSpeedPx, double FollowSlope);
 
 /// <summary>One prescribed +1/2 defect: position and unit head direction per frame (px), signed headward speed (px/frame),
 /// and its region's shape-noise level z in [-1, 1] with the factor G^(2 z) on var_L / var_W.</summary>
@@ -225,6 +228,8 @@ public sealed class MonolayerMovie
     public const double BesselJ0FirstZero = 2.404825557695773;
     /// <summary>Lloyd steps per frame that let the packing follow the moving field.</summary>
     public const int RelaxStepsPerFrame = 4;
+    /// <summary>Lloyd steps per frame with a flock or a swirl, each with its smooth part removed (<see cref="RemoveSmoothPart"/>).</summary>
+    public const int FlowRelaxStepsPerFrame = 2;
 
     private MonolayerMovie(MonolayerMovieOptions o, int w, int h, MonolayerTruth truth, double a, double b, PlaneWaveFlow? flow)
     { Options = o; Width = w; Height = h; Truth = truth; _a = a; _b = b; _flow = flow; }
@@ -422,7 +427,7 @@ public sealed class MonolayerMovie
                     x = Wrap(x + vx, Width); y = Wrap(y + vy, Height);
                     seeds[i] = (x, y);
                 }
-                for (int it = 0; it < RelaxStepsPerFrame; it++) { Assign(seeds, t, owner); Relax(seeds, owner); }
+                for (int it = 0; it < (_flow is null ? RelaxStepsPerFrame : FlowRelaxStepsPerFrame); it++) { Assign(seeds, t, owner); Relax(seeds, owner); }
             }
             Assign(seeds, t, owner);
             var ids = new int[seeds.Count];
@@ -484,13 +489,38 @@ public sealed class MonolayerMovie
             double r = VelocityFieldStatistics.RmsSpeed(vx, vy);
             fieldMs += r * r;
         }
+        var (rPhi, rRms, slope) = Realised();
         var meanC = new double[bins];
         for (int b = 0; b < bins; b++) meanC[b] = count[b] > 0 ? sumC[b] / count[b] : double.NaN;
         var corr = new RadialCorrelation(r0, meanC, pairs);
         double k = _flow?.WavenumberPerPx ?? double.NaN;
         return new FlowTruth(o.Flow, phi / T, mean / T, Math.Sqrt(ms / T), Math.Sqrt(fieldMs / T), corr,
             VelocityFieldStatistics.FirstZero(corr), VelocityFieldStatistics.CrossingOf(corr, 1 / Math.E), BesselJ0FirstZero / k,
-            _flow is null ? double.NaN : o.WavelengthPx, hs, _flow is null ? double.NaN : o.FlowTauFrames ?? MonolayerMovieOptions.DefaultFlowTauFrames);
+            _flow is null ? double.NaN : o.WavelengthPx, hs, _flow is null ? double.NaN : o.FlowTauFrames ?? MonolayerMovieOptions.DefaultFlowTauFrames,
+            rPhi, rRms, slope);
+    }
+
+    /// <summary>Polar order and rms (about the frame mean) of the seeds' actual steps (nearest periodic image), mean over the
+    /// T - 1 steps, and the regression slope sum d.v / sum v.v of the steps on the imposed velocities.</summary>
+    private (double PolarOrder, double RmsPx, double Slope) Realised()
+    {
+        double phi = 0, ms = 0, dv = 0, vv = 0; int steps = _cells.Count - 1;
+        if (steps < 1) return (double.NaN, double.NaN, double.NaN);
+        for (int t = 0; t < steps; t++)
+        {
+            var a = _cells[t]; var b = _cells[t + 1]; int n = a.X.Length;
+            var dx = new double[n]; var dy = new double[n];
+            for (int i = 0; i < n; i++)
+            {
+                dx[i] = _flow is null ? b.X[i] - a.X[i] : MinImage(b.X[i] - a.X[i], Width);
+                dy[i] = _flow is null ? b.Y[i] - a.Y[i] : MinImage(b.Y[i] - a.Y[i], Height);
+                dv += dx[i] * a.Vx[i] + dy[i] * a.Vy[i]; vv += a.Vx[i] * a.Vx[i] + a.Vy[i] * a.Vy[i];
+            }
+            phi += VelocityFieldStatistics.PolarOrder(dx, dy);
+            double r = VelocityFieldStatistics.RmsSpeed(dx, dy);
+            ms += r * r;
+        }
+        return (phi / steps, Math.Sqrt(ms / steps), vv > 0 ? dv / vv : double.NaN);
     }
 
     private (double[] Vx, double[] Vy) GridVelocity(int t, int nx, int ny, double hs)
@@ -679,6 +709,30 @@ public sealed class MonolayerMovie
         });
     }
 
+    /// <summary>Subtracts from each seed's Lloyd step d_i its Gaussian-weighted neighbourhood mean
+    /// sum_j w_ij d_j / sum_j w_ij, w_ij = exp(-r_ij^2 / 2 l^2) (periodic distances, cut at 3 l; l = half a cell diameter).
+    /// Lloyd steps act on a smooth displacement field like a Laplacian smoothing and would pull the cells back against the
+    /// imposed flow; without their smooth part they only rearrange the packing locally (docs/motion.md#synthetic-flows).</summary>
+    private void RemoveSmoothPart(List<(double X, double Y)> seeds, double[] dx, double[] dy, double l)
+    {
+        int n = seeds.Count;
+        var mx = new double[n]; var my = new double[n];
+        double cut2 = 9 * l * l;
+        Parallel.For(0, n, i =>
+        {
+            double sx = 0, sy = 0, sw = 0;
+            for (int j = 0; j < n; j++)
+            {
+                double ex = MinImage(seeds[j].X - seeds[i].X, Width), ey = MinImage(seeds[j].Y - seeds[i].Y, Height), d2 = ex * ex + ey * ey;
+                if (d2 > cut2) continue;
+                double w = Math.Exp(-d2 / (2 * l * l));
+                sx += w * dx[j]; sy += w * dy[j]; sw += w;
+            }
+            mx[i] = sx / sw; my[i] = sy / sw;
+        });
+        for (int i = 0; i < n; i++) { dx[i] -= mx[i]; dy[i] -= my[i]; }
+    }
+
     /// <summary>One Lloyd step: every seed moves to the centroid of its cell (on the periodic canvas with a flock or a
     /// swirl: the mean of the pixels' nearest-image offsets from the seed, wrapped back onto the canvas).</summary>
     private void Relax(List<(double X, double Y)> seeds, int[] owner)
@@ -692,8 +746,9 @@ public sealed class MonolayerMovie
                     int s = owner[y * Width + x];
                     ox[s] += MinImage(x + 0.5 - seeds[s].X, Width); oy[s] += MinImage(y + 0.5 - seeds[s].Y, Height); cnt[s]++;
                 }
-            for (int s = 0; s < seeds.Count; s++)
-                if (cnt[s] > 0) seeds[s] = (Mod(seeds[s].X + ox[s] / cnt[s], Width), Mod(seeds[s].Y + oy[s] / cnt[s], Height));
+            for (int s = 0; s < seeds.Count; s++) if (cnt[s] > 0) { ox[s] /= cnt[s]; oy[s] /= cnt[s]; }
+            RemoveSmoothPart(seeds, ox, oy, Math.Sqrt(Options.CellAreaPx2 / Math.PI));
+            for (int s = 0; s < seeds.Count; s++) seeds[s] = (Mod(seeds[s].X + ox[s], Width), Mod(seeds[s].Y + oy[s], Height));
             return;
         }
         var sx = new double[seeds.Count]; var sy = new double[seeds.Count]; var n = new int[seeds.Count];
