@@ -40,6 +40,7 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
         [CommandOption("--pairs <N>"), Description("Number of +1/2 / -1/2 defect pairs (more than 1: a many-defect tissue whose regions differ in shape-noise anisotropy).")] public int Pairs { get; init; } = 1;
         [CommandOption("--hypothesis <BOOL>"), Description("With --pairs > 1: true = each +1/2 moves headward or tailward at a speed following its region's anisotropy; false = speeds independent of anisotropy.")] public string Hypothesis { get; init; } = "true";
         [CommandOption("--anisotropy-spread <G>"), Description("With --pairs > 1: regions multiply var_L/var_W by G^(2z), z in [-1, 1].")] public double AnisotropySpread { get; init; } = 1.6;
+        [CommandOption("--from <SIM_PARAMS>"), Description("Simulate the shape noise a sim-params.json of `analyze` describes: sets --sigma-along, --sigma-across, --tau, --tau-across, --cell-area and the scales (docs/sim-params.md#monolayer-round-trip); --aspect is kept; --pixel-size / --frame-interval convert a file in um / min whose analysis read them from the movie's metadata.")] public string? From { get; init; }
         [CommandOption("--seed <N>"), Description("Random seed: the same seed gives the same bytes.")] public int Seed { get; init; } = 11;
 
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
@@ -71,6 +72,12 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
             Flow = flow, FlowNoise = s.FlowNoise, FlowRmsPx = s.FlowRms, FlowWavelengthPx = s.FlowWavelength, FlowTauFrames = s.FlowTau,
             TauAcrossFrames = s.TauAcross,
         }.Validated();
+        if (s.From is { } from)
+        {
+            var p = ShapeNoise.Reporting.SimulationParameters.Read(from, s.PixelSize, s.FrameInterval);
+            o = SynthJob.MonolayerFromSimParams(o, p);
+            AnsiConsole.WriteLine(System.FormattableString.Invariant($"from {from}: sigma_along {o.SigmaAlong:F4}, sigma_across {o.SigmaAcross:F4}, tau {o.TauFrames:F2} frames, tau_across {o.TauAcrossFrames:F2} frames, cell area {o.CellAreaPx2:F1} px2 (aspect {o.Aspect} kept; measurement noise not mapped)"));
+        }
         var m = SynthJob.Monolayer(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
         AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {m.Truth.Cells} cells, {(o.Pairs > 1 ? $"{o.Pairs} defect pairs, speeds {(o.SpeedFollowsAnisotropy ? "following" : "independent of")} anisotropy" : $"+1/2 moving {o.Motion.ToString().ToLowerInvariant()}")}) and truth.json");
         return 0;

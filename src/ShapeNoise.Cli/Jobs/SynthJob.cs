@@ -66,12 +66,61 @@ public static class SynthJob
         return (noisy.Validated(), eL, eW);
     }
 
+    /// <summary>Monolayer options that simulate the shape noise a sim-params file describes (docs/sim-params.md#monolayer-round-trip),
+    /// in px and frames: the mean cell area is pi R0^2; with the aspect ratio alpha of <paramref name="o"/> (not in the file)
+    /// the mean length and width of a cell of that area are L0 = 2 R0 sqrt(alpha) and W0 = 2 R0 / sqrt(alpha), and to first order
+    /// L and W scale with the metric lengths A and B, so sigma_along = sqrt(s2_L) / L0, sigma_across = sqrt(s2_W) / W0;
+    /// tau of A = tau_L, tau of B = tau_W; the scales as for the ellipses. The measurement noise e2 has no monolayer
+    /// parameter and is not mapped. With <paramref name="calibrate"/> the first-order options are corrected once: the same
+    /// movie is generated and analysed (default analysis options, 50 resamples), and sigma_along^2, sigma_across^2, tau_A and
+    /// tau_B are each multiplied by target / measured of s2_L, s2_W, tau_L and tau_W (the tessellation's own response: a
+    /// cell's L and W also follow its neighbours' noise and the packing's slow drift).</summary>
+    public static MonolayerMovieOptions MonolayerFromSimParams(MonolayerMovieOptions o, SimulationInput p, bool calibrate = true)
+    {
+        var first = MonolayerFirstOrder(o, p);
+        if (!calibrate) return first;
+        var movie = MonolayerMovie.Generate(first);
+        using var lm = new MonolayerFrames(movie);
+        var r = ShapeNoise.Pipeline.MovieAnalyzer.Run(lm, new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 50, Seed = 1 });
+        if (r.Pooled.Temporal is not { } tf) return first;
+        static double Ratio(double target, double measured) => double.IsFinite(measured) && measured > 0 && double.IsFinite(target) ? target / measured : 1;
+        double gA = Ratio(p.SignalVarianceLPx2, tf.L.SignalVariancePx2.Value), gB = Ratio(p.SignalVarianceWPx2, tf.W.SignalVariancePx2.Value);
+        double hA = Ratio(p.TauLFrames, tf.L.TauFrames.Value), hB = Ratio(p.TauWFrames, tf.W.TauFrames.Value);
+        return (first with
+        {
+            SigmaAlong = first.SigmaAlong * Math.Sqrt(gA), SigmaAcross = first.SigmaAcross * Math.Sqrt(gB),
+            TauFrames = first.TauFrames * hA, TauAcrossFrames = first.TauAcrossFrames * hB,
+        }).Validated();
+    }
+
+    private static MonolayerMovieOptions MonolayerFirstOrder(MonolayerMovieOptions o, SimulationInput p)
+    {
+        double r0 = double.IsFinite(p.R0Px) ? p.R0Px : Math.Sqrt(o.CellAreaPx2 / Math.PI), sa = Math.Sqrt(o.Aspect);
+        return (o with
+        {
+            CellAreaPx2 = Math.PI * r0 * r0,
+            SigmaAlong = Math.Sqrt(p.SignalVarianceLPx2) / (2 * r0 * sa), SigmaAcross = Math.Sqrt(p.SignalVarianceWPx2) / (2 * r0 / sa),
+            TauFrames = p.TauLFrames, TauAcrossFrames = p.TauWFrames,
+            PixelSizeUm = double.IsFinite(p.PixelSizeUm) ? p.PixelSizeUm : o.PixelSizeUm,
+            FrameIntervalMin = double.IsFinite(p.FrameIntervalMin) ? p.FrameIntervalMin : o.FrameIntervalMin,
+        }).Validated();
+    }
+
     /// <summary>An ellipse movie's frames as a label movie in memory (px, frames: no calibration), rendered one frame at a time.</summary>
     private sealed class RenderedMovie(EllipseMovie m) : ShapeNoise.Reading.ILabelMovie
     {
         public ShapeNoise.Reading.MovieInfo Info { get; } = new("rendered", m.Width, m.Height, m.Options.Frames, null, null, "in-memory");
         public IReadOnlyList<string> Files { get; } = [];
         public IEnumerable<ShapeNoise.Reading.LabelFrame> Frames() { for (int t = 0; t < m.Options.Frames; t++) yield return new(t, m.Width, m.Height, m.RenderFrame(t)); }
+        public void Dispose() { }
+    }
+
+    /// <summary>A monolayer movie's frames as a label movie in memory (px, frames: no calibration).</summary>
+    private sealed class MonolayerFrames(MonolayerMovie m) : ShapeNoise.Reading.ILabelMovie
+    {
+        public ShapeNoise.Reading.MovieInfo Info { get; } = new("monolayer", m.Width, m.Height, m.Options.Frames, null, null, "in-memory");
+        public IReadOnlyList<string> Files { get; } = [];
+        public IEnumerable<ShapeNoise.Reading.LabelFrame> Frames() { int t = 0; foreach (var f in m.Frames()) yield return new(t++, m.Width, m.Height, f); }
         public void Dispose() { }
     }
 
