@@ -66,12 +66,61 @@ public static class SynthJob
         return (noisy.Validated(), eL, eW);
     }
 
+    /// <summary>Monolayer options that simulate the shape noise a sim-params file describes (docs/sim-params.md#monolayer-round-trip),
+    /// in px and frames: the mean cell area is pi R0^2; with the aspect ratio alpha of <paramref name="o"/> (not in the file)
+    /// the mean length and width of a cell of that area are L0 = 2 R0 sqrt(alpha) and W0 = 2 R0 / sqrt(alpha), and to first order
+    /// L and W scale with the metric lengths A and B, so sigma_along = sqrt(s2_L) / L0, sigma_across = sqrt(s2_W) / W0;
+    /// tau of A = tau_L, tau of B = tau_W; the scales as for the ellipses. The measurement noise e2 has no monolayer
+    /// parameter and is not mapped. With <paramref name="calibrate"/> the first-order options are corrected once: the same
+    /// movie is generated and analysed (default analysis options, 50 resamples), and sigma_along^2, sigma_across^2, tau_A and
+    /// tau_B are each multiplied by target / measured of s2_L, s2_W, tau_L and tau_W (the tessellation's own response: a
+    /// cell's L and W also follow its neighbours' noise and the packing's slow drift).</summary>
+    public static MonolayerMovieOptions MonolayerFromSimParams(MonolayerMovieOptions o, SimulationInput p, bool calibrate = true)
+    {
+        var first = MonolayerFirstOrder(o, p);
+        if (!calibrate) return first;
+        var movie = MonolayerMovie.Generate(first);
+        using var lm = new MonolayerFrames(movie);
+        var r = ShapeNoise.Pipeline.MovieAnalyzer.Run(lm, new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 50, Seed = 1 });
+        if (r.Pooled.Temporal is not { } tf) return first;
+        static double Ratio(double target, double measured) => double.IsFinite(measured) && measured > 0 && double.IsFinite(target) ? target / measured : 1;
+        double gA = Ratio(p.SignalVarianceLPx2, tf.L.SignalVariancePx2.Value), gB = Ratio(p.SignalVarianceWPx2, tf.W.SignalVariancePx2.Value);
+        double hA = Ratio(p.TauLFrames, tf.L.TauFrames.Value), hB = Ratio(p.TauWFrames, tf.W.TauFrames.Value);
+        return (first with
+        {
+            SigmaAlong = first.SigmaAlong * Math.Sqrt(gA), SigmaAcross = first.SigmaAcross * Math.Sqrt(gB),
+            TauFrames = first.TauFrames * hA, TauAcrossFrames = first.TauAcrossFrames * hB,
+        }).Validated();
+    }
+
+    private static MonolayerMovieOptions MonolayerFirstOrder(MonolayerMovieOptions o, SimulationInput p)
+    {
+        double r0 = double.IsFinite(p.R0Px) ? p.R0Px : Math.Sqrt(o.CellAreaPx2 / Math.PI), sa = Math.Sqrt(o.Aspect);
+        return (o with
+        {
+            CellAreaPx2 = Math.PI * r0 * r0,
+            SigmaAlong = Math.Sqrt(p.SignalVarianceLPx2) / (2 * r0 * sa), SigmaAcross = Math.Sqrt(p.SignalVarianceWPx2) / (2 * r0 / sa),
+            TauFrames = p.TauLFrames, TauAcrossFrames = p.TauWFrames,
+            PixelSizeUm = double.IsFinite(p.PixelSizeUm) ? p.PixelSizeUm : o.PixelSizeUm,
+            FrameIntervalMin = double.IsFinite(p.FrameIntervalMin) ? p.FrameIntervalMin : o.FrameIntervalMin,
+        }).Validated();
+    }
+
     /// <summary>An ellipse movie's frames as a label movie in memory (px, frames: no calibration), rendered one frame at a time.</summary>
     private sealed class RenderedMovie(EllipseMovie m) : ShapeNoise.Reading.ILabelMovie
     {
         public ShapeNoise.Reading.MovieInfo Info { get; } = new("rendered", m.Width, m.Height, m.Options.Frames, null, null, "in-memory");
         public IReadOnlyList<string> Files { get; } = [];
         public IEnumerable<ShapeNoise.Reading.LabelFrame> Frames() { for (int t = 0; t < m.Options.Frames; t++) yield return new(t, m.Width, m.Height, m.RenderFrame(t)); }
+        public void Dispose() { }
+    }
+
+    /// <summary>A monolayer movie's frames as a label movie in memory (px, frames: no calibration).</summary>
+    private sealed class MonolayerFrames(MonolayerMovie m) : ShapeNoise.Reading.ILabelMovie
+    {
+        public ShapeNoise.Reading.MovieInfo Info { get; } = new("monolayer", m.Width, m.Height, m.Options.Frames, null, null, "in-memory");
+        public IReadOnlyList<string> Files { get; } = [];
+        public IEnumerable<ShapeNoise.Reading.LabelFrame> Frames() { int t = 0; foreach (var f in m.Frames()) yield return new(t++, m.Width, m.Height, f); }
         public void Dispose() { }
     }
 
@@ -123,11 +172,50 @@ public static class SynthJob
                 ["pairs"] = o.Pairs,
                 ["plus_defects"] = PlusDefects(t, o),
             };
+            if (o.Flow != TissueFlow.Uniform) truth["flow"] = FlowJson(movie);
             File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
             var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
             File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("synth monolayer", [], opts, commandLine).ToJsonString(Summary.Indented));
         });
         return movie;
+    }
+
+    private static JsonValue? Num(double v) => double.IsFinite(v) ? JsonValue.Create(v) : null;
+
+    /// <summary>truth.json's "flow" block for a flock or a swirl (docs/motion.md#synthetic-flows): the realised polar order,
+    /// mean and rms speed of the cells' imposed velocities, and the field's velocity correlation on the truth grid with its
+    /// first zero, 1/e length and J0's analytic first zero 2.405 / k; lengths in px and um, speeds in px/frame and um/min.</summary>
+    private static JsonObject FlowJson(MonolayerMovie movie)
+    {
+        var o = movie.Options; var f = movie.FlowStatistics();
+        double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
+        var c = f.Correlation;
+        var rPx = new JsonArray(); var rUm = new JsonArray(); var cv = new JsonArray(); var pairs = new JsonArray();
+        for (int b = 0; b < c.R.Length; b++) { rPx.Add(c.R[b]); rUm.Add(c.R[b] * s); cv.Add(Num(c.C[b])); pairs.Add(c.Pairs[b]); }
+        return new JsonObject
+        {
+            ["kind"] = o.Flow.ToString().ToLowerInvariant(),
+            ["description"] = o.Flow == TissueFlow.Flock
+                ? "uniform velocity plus an incompressible random field of plane waves (psi = A sum_j cos(k e_j . x + phi_j(t))), periodic canvas; values realised from the imposed velocities"
+                : "incompressible random field of plane waves of one wavenumber (psi = A sum_j cos(k e_j . x + phi_j(t)), v = (dpsi/dy, -dpsi/dx)), periodic canvas; values realised from the imposed velocities",
+            ["flock_vx_px_per_frame"] = movie.Truth.FlowVx, ["flock_vy_px_per_frame"] = movie.Truth.FlowVy,
+            ["flock_vx_um_per_min"] = movie.Truth.FlowVx * sv, ["flock_vy_um_per_min"] = movie.Truth.FlowVy * sv,
+            ["waves"] = MonolayerMovieOptions.FlowWaves,
+            ["wavelength_px"] = f.WavelengthPx, ["wavelength_um"] = f.WavelengthPx * s,
+            ["field_tau_frames"] = f.TauFrames, ["field_tau_min"] = f.TauFrames * o.FrameIntervalMin,
+            ["polar_order"] = Num(f.PolarOrder),
+            ["mean_speed_px_per_frame"] = Num(f.MeanSpeedPx), ["mean_speed_um_per_min"] = Num(f.MeanSpeedPx * sv),
+            ["rms_speed_px_per_frame"] = Num(f.RmsSpeedPx), ["rms_speed_um_per_min"] = Num(f.RmsSpeedPx * sv),
+            ["field_rms_speed_px_per_frame"] = Num(f.FieldRmsSpeedPx), ["field_rms_speed_um_per_min"] = Num(f.FieldRmsSpeedPx * sv),
+            ["correlation_first_zero_px"] = Num(f.FirstZeroPx), ["correlation_first_zero_um"] = Num(f.FirstZeroPx * s),
+            ["correlation_one_over_e_px"] = Num(f.OneOverEPx), ["correlation_one_over_e_um"] = Num(f.OneOverEPx * s),
+            ["analytic_first_zero_px"] = Num(f.AnalyticFirstZeroPx), ["analytic_first_zero_um"] = Num(f.AnalyticFirstZeroPx * s),
+            ["grid_spacing_px"] = f.GridSpacingPx,
+            ["realised_polar_order"] = Num(f.RealisedPolarOrder),
+            ["realised_rms_speed_px_per_frame"] = Num(f.RealisedRmsSpeedPx), ["realised_rms_speed_um_per_min"] = Num(f.RealisedRmsSpeedPx * sv),
+            ["realised_follow_slope"] = Num(f.FollowSlope),
+            ["velocity_correlation"] = new JsonObject { ["r_px"] = rPx, ["r_um"] = rUm, ["c"] = cv, ["pairs"] = pairs },
+        };
     }
 
     /// <summary>Every prescribed +1/2 defect: region level z, its var_L/var_W factor, signed headward speed, path and heads.</summary>

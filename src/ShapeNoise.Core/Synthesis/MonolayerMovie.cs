@@ -1,4 +1,20 @@
+using System.Text.Json.Serialization;
+using ShapeNoise.Motion;
+
 namespace ShapeNoise.Synthesis;
+
+/// <summary>The prescribed tissue flow that carries the cells of the synthetic monolayer (docs/motion.md#synthetic-flows).</summary>
+public enum TissueFlow
+{
+    /// <summary>Every cell moves at the same velocity, <see cref="MonolayerMovieOptions.FlowSpeedPx"/> (0 = a still tissue).</summary>
+    Uniform,
+    /// <summary>A flock: the uniform velocity plus a weak incompressible random field (<see cref="PlaneWaveFlow"/>) of rms
+    /// <see cref="MonolayerMovieOptions.FlowNoise"/> times the speed, on a periodic canvas.</summary>
+    Flock,
+    /// <summary>Swirls: an incompressible random field of one wavelength (<see cref="PlaneWaveFlow"/>) of rms speed
+    /// <see cref="MonolayerMovieOptions.FlowRmsPx"/>, on a periodic canvas.</summary>
+    Swirl,
+}
 
 /// <summary>How the +1/2 defect of the synthetic monolayer moves.</summary>
 public enum DefectMotion
@@ -32,6 +48,33 @@ public sealed record MonolayerMovieOptions
     public double FlowSpeedPx { get; init; }
     /// <summary>Direction of the flow relative to the +1/2 defect's head direction (degrees; 0 = headward).</summary>
     public double FlowAngleDeg { get; init; }
+    /// <summary>Kind of tissue flow: uniform (default, at <see cref="FlowSpeedPx"/>), flock or swirl (docs/motion.md#synthetic-flows).</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public TissueFlow Flow { get; init; }
+    /// <summary>Flock only: rms speed of the noise field relative to <see cref="FlowSpeedPx"/>; null = <see cref="DefaultFlowNoise"/>.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? FlowNoise { get; init; }
+    /// <summary>Swirl only: rms speed of the field about its frame mean (px/frame); null = <see cref="DefaultFlowRmsPx"/>.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? FlowRmsPx { get; init; }
+    /// <summary>Flock and swirl: wavelength 2 pi / k of the random field (px); null = <see cref="DefaultFlowWavelengthDiameters"/>
+    /// cell diameters 2 sqrt(area / pi).</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? FlowWavelengthPx { get; init; }
+    /// <summary>Flock and swirl: correlation time of the random field at a fixed point (frames); null = <see cref="DefaultFlowTauFrames"/>.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? FlowTauFrames { get; init; }
+    /// <summary>Correlation time of the shape noise across the long axis (B) in frames; null = <see cref="TauFrames"/> (which
+    /// then sets both; docs/sim-params.md#monolayer-round-trip).</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double? TauAcrossFrames { get; init; }
+
+    /// <summary>Default <see cref="FlowNoise"/>: the flock's noise rms is 0.3 of its speed (polar order about 1 - 0.3^2 / 4 = 0.98).</summary>
+    public const double DefaultFlowNoise = 0.3;
+    /// <summary>Default <see cref="FlowRmsPx"/> (px/frame): cells move a fraction of their radius per frame.</summary>
+    public const double DefaultFlowRmsPx = 0.4;
+    /// <summary>Default <see cref="FlowWavelengthPx"/> in cell diameters.</summary>
+    public const double DefaultFlowWavelengthDiameters = 9;
+    /// <summary>Default <see cref="FlowTauFrames"/> (frames).</summary>
+    public const double DefaultFlowTauFrames = 20;
+    /// <summary>Number of plane waves of the flock's and the swirl's random field.</summary>
+    public const int FlowWaves = 32;
+    /// <summary>The flow's wavelength in effect (px).</summary>
+    public double WavelengthPx => FlowWavelengthPx ?? DefaultFlowWavelengthDiameters * 2 * Math.Sqrt(CellAreaPx2 / Math.PI);
     /// <summary>Canvas width and height; 0 = square, just large enough for the cells.</summary>
     public int Width { get; init; }
     /// <summary>Canvas height (px); 0 = square, just large enough for the cells (see <see cref="Width"/>).</summary>
@@ -80,7 +123,30 @@ public sealed record MonolayerMovieOptions
         if (Pairs > 1 && Motion != DefectMotion.Headward) throw new ArgumentException("--motion applies to a single pair; with --pairs > 1 every +1/2 moves at its region's speed (see --hypothesis)");
         if (Pairs > 1 && FlowSpeedPx != 0) throw new ArgumentException("--flow-speed applies to a single pair (the many-pair field is not periodic)");
         if (!(AnisotropySpread >= 1 && AnisotropySpread <= 4)) throw new ArgumentException($"--anisotropy-spread must be in [1, 4] (got {AnisotropySpread})");
+        if (TauAcrossFrames is { } tb && !(tb > 0)) throw new ArgumentException("the correlation time across the long axis must be > 0 frames");
+        ValidateFlow();
         return this;
+    }
+
+    private void ValidateFlow()
+    {
+        if (Flow == TissueFlow.Uniform)
+        {
+            if (FlowNoise is not null || FlowRmsPx is not null || FlowWavelengthPx is not null || FlowTauFrames is not null)
+                throw new ArgumentException("--flow-noise, --flow-rms, --flow-wavelength and --flow-tau apply to --flow flock or swirl");
+            return;
+        }
+        string kind = Flow.ToString().ToLowerInvariant();
+        if (Pairs > 1) throw new ArgumentException($"--flow {kind} applies to a single pair");
+        if (Flow == TissueFlow.Flock && !(FlowSpeedPx > 0)) throw new ArgumentException("--flow flock needs --flow-speed > 0 (px per frame)");
+        if (Flow == TissueFlow.Swirl && FlowSpeedPx != 0) throw new ArgumentException("--flow swirl takes its speed from --flow-rms, not --flow-speed");
+        if (Flow == TissueFlow.Swirl && FlowNoise is not null) throw new ArgumentException("--flow-noise applies to --flow flock");
+        if (Flow == TissueFlow.Flock && FlowRmsPx is not null) throw new ArgumentException("--flow-rms applies to --flow swirl (the flock's noise is --flow-noise)");
+        if (FlowNoise is { } n && !(n >= 0 && n <= 1)) throw new ArgumentException($"--flow-noise must be in [0, 1] (got {n})");
+        if (FlowRmsPx is { } r && !(r > 0 && r <= 5)) throw new ArgumentException($"--flow-rms must be in (0, 5] px per frame (got {r})");
+        double d = 2 * Math.Sqrt(CellAreaPx2 / Math.PI);
+        if (FlowWavelengthPx is { } l && !(l >= 2 * d)) throw new ArgumentException($"--flow-wavelength must be >= 2 cell diameters ({2 * d:F1} px; got {l})");
+        if (FlowTauFrames is { } t && !(t > 0)) throw new ArgumentException($"--flow-tau must be > 0 frames (got {t})");
     }
 }
 
@@ -93,6 +159,31 @@ public sealed record MonolayerTruth(double[] PlusX, double[] PlusY, double[] Min
     /// <summary>Every -1/2 defect's (fixed) position (px).</summary>
     public IReadOnlyList<(double X, double Y)> Minus { get; init; } = [];
 }
+
+/// <summary>One frame of the cells (Voronoi seeds, index i stable over frames): seed position (px), the velocity the
+/// imposed flow gives it at that position in that frame (px/frame; the step it takes to the next frame before relaxation),
+/// and the label id it is drawn with.</summary>
+public sealed record CellFrame(double[] X, double[] Y, double[] Vx, double[] Vy, int[] Label);
+
+/// <summary>Realised truth of the imposed flow (docs/motion.md#synthetic-flows), px and frames.</summary>
+/// <param name="Kind">The flow kind.</param>
+/// <param name="PolarOrder">Mean over frames of |sum_i v_i| / sum_i |v_i| over the cells' imposed velocities.</param>
+/// <param name="MeanSpeedPx">Mean over frames of the cells' mean |v_i|.</param>
+/// <param name="RmsSpeedPx">sqrt(mean over frames of the cells' mean |v_i - frame mean|^2).</param>
+/// <param name="FieldRmsSpeedPx">The same rms of the field on the truth grid (pooled over frames): what the amplitude was set to.</param>
+/// <param name="Correlation">C_vv(r) of the field on the truth grid, the mean over up to 8 evenly spaced frames.</param>
+/// <param name="FirstZeroPx">First zero crossing of <paramref name="Correlation"/> (px; NaN if none).</param>
+/// <param name="OneOverEPx">Where <paramref name="Correlation"/> first falls to 1/e (px; NaN if none).</param>
+/// <param name="AnalyticFirstZeroPx">2.405 / k, J0's first zero (px; NaN for a uniform flow).</param>
+/// <param name="WavelengthPx">Wavelength of the random field (px; NaN for a uniform flow).</param>
+/// <param name="GridSpacingPx">Spacing of the truth grid (px).</param>
+/// <param name="TauFrames">Correlation time of the random field (frames; NaN for a uniform flow).</param>
+/// <param name="RealisedPolarOrder">Polar order of the seeds' actual steps x_i(t + 1) - x_i(t) (imposed flow plus relaxation), mean over frames.</param>
+/// <param name="RealisedRmsSpeedPx">Rms about the frame mean of the seeds' actual steps (px/frame).</param>
+/// <param name="FollowSlope">sum d_i . v_i / sum v_i . v_i over cells and frames: how much of the imposed velocity the seeds' steps d realise.</param>
+public sealed record FlowTruth(TissueFlow Kind, double PolarOrder, double MeanSpeedPx, double RmsSpeedPx, double FieldRmsSpeedPx,
+    RadialCorrelation Correlation, double FirstZeroPx, double OneOverEPx, double AnalyticFirstZeroPx, double WavelengthPx,
+    double GridSpacingPx, double TauFrames, double RealisedPolarOrder, double RealisedRmsSpeedPx, double FollowSlope);
 
 /// <summary>One prescribed +1/2 defect: position and unit head direction per frame (px), signed headward speed (px/frame),
 /// and its region's shape-noise level z in [-1, 1] with the factor G^(2 z) on var_L / var_W.</summary>
@@ -131,11 +222,33 @@ public sealed class MonolayerMovie
     private readonly double _a, _b;
     private double[]? _noiseA, _noiseB;   // per-seed shape noise of the frame being generated (null while seeding)
     private List<(double X, double Y)> _initial = [];
+    private readonly PlaneWaveFlow? _flow;
+    private readonly List<CellFrame> _cells = [];
+    /// <summary>J0's first zero (Abramowitz and Stegun, table 9.5).</summary>
+    public const double BesselJ0FirstZero = 2.404825557695773;
     /// <summary>Lloyd steps per frame that let the packing follow the moving field.</summary>
     public const int RelaxStepsPerFrame = 4;
+    /// <summary>Lloyd steps per frame with a flock or a swirl, each with its smooth part removed (<see cref="RemoveSmoothPart"/>).</summary>
+    public const int FlowRelaxStepsPerFrame = 2;
 
-    private MonolayerMovie(MonolayerMovieOptions o, int w, int h, MonolayerTruth truth, double a, double b)
-    { Options = o; Width = w; Height = h; Truth = truth; _a = a; _b = b; }
+    private MonolayerMovie(MonolayerMovieOptions o, int w, int h, MonolayerTruth truth, double a, double b, PlaneWaveFlow? flow)
+    { Options = o; Width = w; Height = h; Truth = truth; _a = a; _b = b; _flow = flow; }
+
+    /// <summary>The random field of a flock or a swirl (null for a uniform flow).</summary>
+    public PlaneWaveFlow? FlowField => _flow;
+
+    /// <summary>Every frame's cells with their imposed velocities, filled while <see cref="Frames"/> is enumerated.</summary>
+    public IReadOnlyList<CellFrame> CellFrames => _cells;
+
+    /// <summary>The imposed velocity at (x, y) in frame t (px/frame): the uniform flow U, plus the random field for a flock or a swirl.</summary>
+    public (double Vx, double Vy) Velocity(int t, double x, double y) => Velocity(_flow, Truth.FlowVx, Truth.FlowVy, t, x, y);
+
+    private static (double Vx, double Vy) Velocity(PlaneWaveFlow? flow, double ux, double uy, int t, double x, double y)
+    {
+        if (flow is null) return (ux, uy);
+        var (vx, vy) = flow.Velocity(t, x, y);
+        return (ux + vx, uy + vy);
+    }
 
     /// <summary>Validates <paramref name="o"/>, lays out the defect trajectories and the uniform flow, and seeds the packing
     /// (dart throwing, then 10 Lloyd steps in the anisotropic metric); frames are rendered on demand.</summary>
@@ -146,37 +259,69 @@ public sealed class MonolayerMovie
         int w = o.Width > 0 ? o.Width : side, h = o.Height > 0 ? o.Height : side;
         // Hexagonal packing at unit metric spacing has 0.866 units of area per seed, so A B = area / 0.866.
         double ab = o.CellAreaPx2 / 0.866, b = Math.Sqrt(ab / o.Aspect), a = o.Aspect * b;
-        if (o.Pairs > 1) return Seed(o, w, h, a, b, ManyPairs(o, w, h));
+        if (o.Pairs > 1) return Seed(o, w, h, a, b, ManyPairs(o, w, h), null);
         double d = o.Separation * w, x0 = 0.5 * w - 0.5 * d, y0 = 0.5 * h;
         double headX = -1, headY = 0;                           // theta offset pi/2 puts the head at -x (see the class summary)
         double sgn = o.Motion switch { DefectMotion.Headward => 1, DefectMotion.Tailward => -1, _ => 0 };
         var px = new double[o.Frames]; var py = new double[o.Frames]; var mx = new double[o.Frames]; var my = new double[o.Frames];
-        for (int t = 0; t < o.Frames; t++)
-        {
-            px[t] = x0 + sgn * o.DefectSpeedPx * t * headX; py[t] = y0;
-            mx[t] = x0 + d; my[t] = y0;
-        }
         double fa = o.FlowAngleDeg * Math.PI / 180;
         double fvx = o.FlowSpeedPx * (Math.Cos(fa) * headX - Math.Sin(fa) * headY), fvy = o.FlowSpeedPx * (Math.Sin(fa) * headX + Math.Cos(fa) * headY);
+        var flow = o.Flow == TissueFlow.Uniform ? null : FlowFieldOf(o, w, h);
+        for (int t = 0; t < o.Frames; t++)
+        {
+            if (flow is null || t == 0)
+            {
+                px[t] = x0 + sgn * o.DefectSpeedPx * t * headX; py[t] = y0;
+                mx[t] = x0 + d; my[t] = y0;
+                continue;
+            }
+            // Flock or swirl: both cores are carried by the flow where they are (defects fixed in the tissue), the +1/2 also
+            // moves by its own speed along its head (docs/motion.md#synthetic-flows).
+            var (pvx, pvy) = Velocity(flow, fvx, fvy, t - 1, Mod(px[t - 1], w), Mod(py[t - 1], h));
+            var (mvx, mvy) = Velocity(flow, fvx, fvy, t - 1, Mod(mx[t - 1], w), Mod(my[t - 1], h));
+            px[t] = px[t - 1] + sgn * o.DefectSpeedPx * headX + pvx; py[t] = py[t - 1] + sgn * o.DefectSpeedPx * headY + pvy;
+            mx[t] = mx[t - 1] + mvx; my[t] = my[t - 1] + mvy;
+        }
         var truth = new MonolayerTruth(px, py, mx, my, headX, headY, sgn * o.DefectSpeedPx, fvx, fvy, fvx * headX + fvy * headY, Math.PI / 2, 0)
         {
             Plus = [new PlusDefectTruth(px, py, Fill(o.Frames, headX), Fill(o.Frames, headY), sgn * o.DefectSpeedPx, 0, 1)],
             Minus = [(mx[0], my[0])],
         };
-        return Seed(o, w, h, a, b, truth);
+        return Seed(o, w, h, a, b, truth, flow);
+    }
+
+    private static double Mod(double v, int size) => v - size * Math.Floor(v / size);
+
+    /// <summary>The truth grid of a flow: spacing h = max(1, wavelength / 24) px, covering the canvas up to 6 wavelengths a side.</summary>
+    public static (int Nx, int Ny, double SpacingPx) TruthGrid(MonolayerMovieOptions o, int width, int height)
+    {
+        double lambda = o.WavelengthPx, hs = Math.Max(1, lambda / 24);
+        return (Math.Max(2, (int)(Math.Min(width, 6 * lambda) / hs)), Math.Max(2, (int)(Math.Min(height, 6 * lambda) / hs)), hs);
+    }
+
+    /// <summary>The flock's noise field or the swirl's field: <see cref="MonolayerMovieOptions.FlowWaves"/> plane waves
+    /// (seed + 3), the amplitude set so the rms speed about the frame mean on the truth grid, pooled over frames, is the
+    /// flock's noise (FlowNoise x FlowSpeedPx) or the swirl's FlowRmsPx.</summary>
+    private static PlaneWaveFlow FlowFieldOf(MonolayerMovieOptions o, int w, int h)
+    {
+        var f = PlaneWaveFlow.Create(MonolayerMovieOptions.FlowWaves, o.WavelengthPx, o.FlowTauFrames ?? MonolayerMovieOptions.DefaultFlowTauFrames, o.Frames, o.Seed + 3);
+        double target = o.Flow == TissueFlow.Flock ? (o.FlowNoise ?? MonolayerMovieOptions.DefaultFlowNoise) * o.FlowSpeedPx : o.FlowRmsPx ?? MonolayerMovieOptions.DefaultFlowRmsPx;
+        if (target == 0) return f.Scaled(0);
+        var (nx, ny, hs) = TruthGrid(o, w, h);
+        return f.Scaled(target / f.GridRmsSpeed(nx, ny, hs));
     }
 
     private static double[] Fill(int n, double v) { var r = new double[n]; Array.Fill(r, v); return r; }
 
     /// <summary>Dart throwing and 10 Lloyd steps in the anisotropic metric of frame 0.</summary>
-    private static MonolayerMovie Seed(MonolayerMovieOptions o, int w, int h, double a, double b, MonolayerTruth truth)
+    private static MonolayerMovie Seed(MonolayerMovieOptions o, int w, int h, double a, double b, MonolayerTruth truth, PlaneWaveFlow? flow)
     {
-        var movie = new MonolayerMovie(o, w, h, truth, a, b);
+        var movie = new MonolayerMovie(o, w, h, truth, a, b, flow);
         var rng = new Random(o.Seed);
         var seeds = movie.DartThrow(rng, 0);
         var owner = new int[w * h];
         for (int it = 0; it < 10; it++) { movie.Assign(seeds, 0, owner); movie.Relax(seeds, owner); }
-        return new MonolayerMovie(o, w, h, truth with { Cells = seeds.Count }, a, b) { _initial = seeds };
+        return new MonolayerMovie(o, w, h, truth with { Cells = seeds.Count }, a, b, flow) { _initial = seeds };
     }
 
     /// <summary>Director angle of the prescribed field at (x, y) in frame t:
@@ -253,6 +398,8 @@ public sealed class MonolayerMovie
         var seeds = new List<(double X, double Y)>(_initial);
         var owner = new int[Width * Height];
         double rho = Math.Exp(-1 / o.TauFrames), innov = Math.Sqrt(1 - rho * rho);
+        double rhoB = o.TauAcrossFrames is { } tb ? Math.Exp(-1 / tb) : rho, innovB = Math.Sqrt(1 - rhoB * rhoB);
+        _cells.Clear();
         _noiseA = new double[seeds.Count]; _noiseB = new double[seeds.Count];
         for (int i = 0; i < seeds.Count; i++) { _noiseA[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); _noiseB[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); }
         if (o.NoiseCorrelationPx > 0) { Smooth(seeds, _noiseA, o.NoiseCorrelationPx); Smooth(seeds, _noiseB, o.NoiseCorrelationPx); }
@@ -265,21 +412,22 @@ public sealed class MonolayerMovie
                     var ea = new double[seeds.Count]; var eb = new double[seeds.Count];
                     for (int i = 0; i < seeds.Count; i++) { ea[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); eb[i] = MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1); }
                     Smooth(seeds, ea, o.NoiseCorrelationPx); Smooth(seeds, eb, o.NoiseCorrelationPx);
-                    for (int i = 0; i < seeds.Count; i++) { _noiseA[i] = rho * _noiseA[i] + innov * ea[i]; _noiseB[i] = rho * _noiseB[i] + innov * eb[i]; }
+                    for (int i = 0; i < seeds.Count; i++) { _noiseA[i] = rho * _noiseA[i] + innov * ea[i]; _noiseB[i] = rhoB * _noiseB[i] + innovB * eb[i]; }
                 }
                 else
                 for (int i = 0; i < seeds.Count; i++)
                 {
                     _noiseA[i] = rho * _noiseA[i] + innov * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
-                    _noiseB[i] = rho * _noiseB[i] + innov * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
+                    _noiseB[i] = rhoB * _noiseB[i] + innovB * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
                 }
                 for (int i = 0; i < seeds.Count; i++)
                 {
                     var (x, y) = seeds[i];
-                    x = Wrap(x + Truth.FlowVx, Width); y = Wrap(y + Truth.FlowVy, Height);
+                    var (vx, vy) = Velocity(t - 1, x, y);
+                    x = Wrap(x + vx, Width); y = Wrap(y + vy, Height);
                     seeds[i] = (x, y);
                 }
-                for (int it = 0; it < RelaxStepsPerFrame; it++) { Assign(seeds, t, owner); Relax(seeds, owner); }
+                for (int it = 0; it < (_flow is null ? RelaxStepsPerFrame : FlowRelaxStepsPerFrame); it++) { Assign(seeds, t, owner); Relax(seeds, owner); }
             }
             Assign(seeds, t, owner);
             var ids = new int[seeds.Count];
@@ -287,8 +435,100 @@ public sealed class MonolayerMovie
             for (int i = 0; i < ids.Length; i++) { int id; do id = 1 + rng.Next(65535); while (!used.Add(id)); ids[i] = id; }
             var img = new int[owner.Length];
             for (int p = 0; p < owner.Length; p++) img[p] = ids[owner[p]];
+            Record(seeds, t, ids);
             yield return img;
         }
+    }
+
+    private void Record(List<(double X, double Y)> seeds, int t, int[] ids)
+    {
+        int n = seeds.Count;
+        var f = new CellFrame(new double[n], new double[n], new double[n], new double[n], (int[])ids.Clone());
+        for (int i = 0; i < n; i++)
+        {
+            (f.X[i], f.Y[i]) = seeds[i];
+            (f.Vx[i], f.Vy[i]) = Velocity(t, f.X[i], f.Y[i]);
+        }
+        _cells.Add(f);
+    }
+
+    /// <summary>The realised truth of the imposed flow from the cells' velocities of every frame and the field on the truth
+    /// grid (docs/motion.md#synthetic-flows). Needs <see cref="Frames"/> enumerated to the end.</summary>
+    /// <exception cref="InvalidOperationException">The frames have not all been generated.</exception>
+    public FlowTruth FlowStatistics()
+    {
+        var o = Options;
+        if (_cells.Count != o.Frames) throw new InvalidOperationException("generate every frame (Frames()) before the flow truth");
+        double phi = 0, ms = 0, mean = 0;
+        foreach (var f in _cells)
+        {
+            phi += VelocityFieldStatistics.PolarOrder(f.Vx, f.Vy);
+            double r = VelocityFieldStatistics.RmsSpeed(f.Vx, f.Vy);
+            ms += r * r; mean += VelocityFieldStatistics.MeanSpeed(f.Vx, f.Vy);
+        }
+        int T = o.Frames;
+        var (nx, ny, hs) = TruthGrid(o, Width, Height);
+        int bins = Math.Max(2, Math.Min(Math.Min(nx, ny) / 2, (int)(2 * o.WavelengthPx / hs) + 1)), samples = Math.Min(8, T);
+        var sumC = new double[bins]; var count = new int[bins]; var pairs = new long[bins]; double[] r0 = [];
+        double fieldMs = 0;
+        for (int q = 0; q < samples; q++)
+        {
+            int t = samples == 1 ? 0 : (int)Math.Round(q * (T - 1) / (double)(samples - 1));
+            var (vx, vy) = GridVelocity(t, nx, ny, hs);
+            var c = VelocityFieldStatistics.VelocityCorrelation(nx, ny, hs, vx, vy, default, bins);
+            r0 = c.R;
+            for (int b = 0; b < bins; b++)
+            {
+                pairs[b] += c.Pairs[b];
+                if (double.IsFinite(c.C[b])) { sumC[b] += c.C[b]; count[b]++; }
+            }
+        }
+        for (int t = 0; t < T; t++)
+        {
+            var (vx, vy) = GridVelocity(t, nx, ny, hs);
+            double r = VelocityFieldStatistics.RmsSpeed(vx, vy);
+            fieldMs += r * r;
+        }
+        var (rPhi, rRms, slope) = Realised();
+        var meanC = new double[bins];
+        for (int b = 0; b < bins; b++) meanC[b] = count[b] > 0 ? sumC[b] / count[b] : double.NaN;
+        var corr = new RadialCorrelation(r0, meanC, pairs);
+        double k = _flow?.WavenumberPerPx ?? double.NaN;
+        return new FlowTruth(o.Flow, phi / T, mean / T, Math.Sqrt(ms / T), Math.Sqrt(fieldMs / T), corr,
+            VelocityFieldStatistics.FirstZero(corr), VelocityFieldStatistics.CrossingOf(corr, 1 / Math.E), BesselJ0FirstZero / k,
+            _flow is null ? double.NaN : o.WavelengthPx, hs, _flow is null ? double.NaN : o.FlowTauFrames ?? MonolayerMovieOptions.DefaultFlowTauFrames,
+            rPhi, rRms, slope);
+    }
+
+    /// <summary>Polar order and rms (about the frame mean) of the seeds' actual steps (nearest periodic image), mean over the
+    /// T - 1 steps, and the regression slope sum d.v / sum v.v of the steps on the imposed velocities.</summary>
+    private (double PolarOrder, double RmsPx, double Slope) Realised()
+    {
+        double phi = 0, ms = 0, dv = 0, vv = 0; int steps = _cells.Count - 1;
+        if (steps < 1) return (double.NaN, double.NaN, double.NaN);
+        for (int t = 0; t < steps; t++)
+        {
+            var a = _cells[t]; var b = _cells[t + 1]; int n = a.X.Length;
+            var dx = new double[n]; var dy = new double[n];
+            for (int i = 0; i < n; i++)
+            {
+                dx[i] = _flow is null ? b.X[i] - a.X[i] : MinImage(b.X[i] - a.X[i], Width);
+                dy[i] = _flow is null ? b.Y[i] - a.Y[i] : MinImage(b.Y[i] - a.Y[i], Height);
+                dv += dx[i] * a.Vx[i] + dy[i] * a.Vy[i]; vv += a.Vx[i] * a.Vx[i] + a.Vy[i] * a.Vy[i];
+            }
+            phi += VelocityFieldStatistics.PolarOrder(dx, dy);
+            double r = VelocityFieldStatistics.RmsSpeed(dx, dy);
+            ms += r * r;
+        }
+        return (phi / steps, Math.Sqrt(ms / steps), vv > 0 ? dv / vv : double.NaN);
+    }
+
+    private (double[] Vx, double[] Vy) GridVelocity(int t, int nx, int ny, double hs)
+    {
+        var vx = new double[nx * ny]; var vy = new double[nx * ny];
+        for (int j = 0; j < ny; j++)
+            for (int i = 0; i < nx; i++) (vx[j * nx + i], vy[j * nx + i]) = Velocity(t, (i + 0.5) * hs, (j + 0.5) * hs);
+        return (vx, vy);
     }
 
     /// <summary>Replaces iid unit normals e by e'_i = sum_j w_ij e_j / sqrt(sum_j w_ij^2), w_ij = exp(-d_ij^2 / 2 l^2)
@@ -366,9 +606,11 @@ public sealed class MonolayerMovie
 
     private static double Dist2((double Mxx, double Mxy, double Myy) m, double dx, double dy) => m.Mxx * dx * dx + 2 * m.Mxy * dx * dy + m.Myy * dy * dy;
 
-    /// <summary>Every pixel (centre) joins the seed nearest in that seed's own metric (seeds bucketed on a grid of cell length A).</summary>
+    /// <summary>Every pixel (centre) joins the seed nearest in that seed's own metric (seeds bucketed on a grid of cell length A).
+    /// With a flock or a swirl the canvas is periodic: distances are taken to the nearest periodic image.</summary>
     private void Assign(List<(double X, double Y)> seeds, int t, int[] owner)
     {
+        if (_flow is not null) { AssignPeriodic(seeds, t, owner); return; }
         double cell = _a;
         int bx = (int)Math.Ceiling(Width / cell), by = (int)Math.Ceiling(Height / cell), n = seeds.Count;
         var sx = new double[n]; var sy = new double[n]; var mxx = new double[n]; var mxy = new double[n]; var myy = new double[n];
@@ -412,9 +654,103 @@ public sealed class MonolayerMovie
         });
     }
 
-    /// <summary>One Lloyd step: every seed moves to the centroid of its cell.</summary>
+    /// <summary>Metric of seed s in frame t: the director at the seed, A and B scaled by the shape noise and the region.</summary>
+    private (double Mxx, double Mxy, double Myy) SeedMetric(int t, int s, double x, double y)
+    {
+        var (ra, rb) = RegionNoise(t, x, y);
+        return Metric(Director(t, x, y),
+            _noiseA is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAlong * ra * _noiseA[s]), _noiseB is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAcross * rb * _noiseB[s]));
+    }
+
+    private static double MinImage(double d, int size) => d > 0.5 * size ? d - size : d < -0.5 * size ? d + size : d;
+
+    /// <summary><see cref="Assign"/> on the periodic canvas: bx = floor(W / A) buckets of equal width >= A per row (likewise
+    /// by), the search wraps around, and offsets are reduced to the nearest periodic image.</summary>
+    private void AssignPeriodic(List<(double X, double Y)> seeds, int t, int[] owner)
+    {
+        int bx = Math.Max(1, (int)(Width / _a)), by = Math.Max(1, (int)(Height / _a)), n = seeds.Count;
+        double cw = Width / (double)bx, ch = Height / (double)by;
+        var sx = new double[n]; var sy = new double[n]; var mxx = new double[n]; var mxy = new double[n]; var myy = new double[n];
+        var bucketOf = new int[n]; var start = new int[bx * by + 1];
+        for (int s = 0; s < n; s++)
+        {
+            (sx[s], sy[s]) = seeds[s];
+            (mxx[s], mxy[s], myy[s]) = SeedMetric(t, s, sx[s], sy[s]);
+            bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / ch)) * bx + Math.Min(bx - 1, (int)(sx[s] / cw));
+            start[bucketOf[s] + 1]++;
+        }
+        for (int k = 0; k < bx * by; k++) start[k + 1] += start[k];
+        var items = new int[n]; var fill = (int[])start.Clone();
+        for (int s = 0; s < n; s++) items[fill[bucketOf[s]]++] = s;
+        Parallel.For(0, Height, y =>
+        {
+            double fy = y + 0.5;
+            int cy = Math.Min(by - 1, (int)(fy / ch));
+            for (int x = 0; x < Width; x++)
+            {
+                double fx = x + 0.5;
+                int cx = Math.Min(bx - 1, (int)(fx / cw));
+                double best = double.PositiveInfinity; int bestS = 0;
+                for (int r = 1; r <= 3 && double.IsPositiveInfinity(best); r++)
+                    for (int jj = cy - r; jj <= cy + r; jj++)
+                        for (int ii = cx - r; ii <= cx + r; ii++)
+                        {
+                            int k = (int)Mod(jj, by) * bx + (int)Mod(ii, bx);
+                            for (int q = start[k]; q < start[k + 1]; q++)
+                            {
+                                int s = items[q];
+                                double dx = MinImage(fx - sx[s], Width), dy = MinImage(fy - sy[s], Height);
+                                double d2 = mxx[s] * dx * dx + 2 * mxy[s] * dx * dy + myy[s] * dy * dy;
+                                if (d2 < best) { best = d2; bestS = s; }
+                            }
+                        }
+                owner[y * Width + x] = bestS;
+            }
+        });
+    }
+
+    /// <summary>Subtracts from each seed's Lloyd step d_i its Gaussian-weighted neighbourhood mean
+    /// sum_j w_ij d_j / sum_j w_ij, w_ij = exp(-r_ij^2 / 2 l^2) (periodic distances, cut at 3 l; l = half a cell diameter).
+    /// Lloyd steps act on a smooth displacement field like a Laplacian smoothing and would pull the cells back against the
+    /// imposed flow; without their smooth part they only rearrange the packing locally (docs/motion.md#synthetic-flows).</summary>
+    private void RemoveSmoothPart(List<(double X, double Y)> seeds, double[] dx, double[] dy, double l)
+    {
+        int n = seeds.Count;
+        var mx = new double[n]; var my = new double[n];
+        double cut2 = 9 * l * l;
+        Parallel.For(0, n, i =>
+        {
+            double sx = 0, sy = 0, sw = 0;
+            for (int j = 0; j < n; j++)
+            {
+                double ex = MinImage(seeds[j].X - seeds[i].X, Width), ey = MinImage(seeds[j].Y - seeds[i].Y, Height), d2 = ex * ex + ey * ey;
+                if (d2 > cut2) continue;
+                double w = Math.Exp(-d2 / (2 * l * l));
+                sx += w * dx[j]; sy += w * dy[j]; sw += w;
+            }
+            mx[i] = sx / sw; my[i] = sy / sw;
+        });
+        for (int i = 0; i < n; i++) { dx[i] -= mx[i]; dy[i] -= my[i]; }
+    }
+
+    /// <summary>One Lloyd step: every seed moves to the centroid of its cell (on the periodic canvas with a flock or a
+    /// swirl: the mean of the pixels' nearest-image offsets from the seed, wrapped back onto the canvas).</summary>
     private void Relax(List<(double X, double Y)> seeds, int[] owner)
     {
+        if (_flow is not null)
+        {
+            var ox = new double[seeds.Count]; var oy = new double[seeds.Count]; var cnt = new int[seeds.Count];
+            for (int y = 0; y < Height; y++)
+                for (int x = 0; x < Width; x++)
+                {
+                    int s = owner[y * Width + x];
+                    ox[s] += MinImage(x + 0.5 - seeds[s].X, Width); oy[s] += MinImage(y + 0.5 - seeds[s].Y, Height); cnt[s]++;
+                }
+            for (int s = 0; s < seeds.Count; s++) if (cnt[s] > 0) { ox[s] /= cnt[s]; oy[s] /= cnt[s]; }
+            RemoveSmoothPart(seeds, ox, oy, Math.Sqrt(Options.CellAreaPx2 / Math.PI));
+            for (int s = 0; s < seeds.Count; s++) seeds[s] = (Mod(seeds[s].X + ox[s], Width), Mod(seeds[s].Y + oy[s], Height));
+            return;
+        }
         var sx = new double[seeds.Count]; var sy = new double[seeds.Count]; var n = new int[seeds.Count];
         for (int y = 0; y < Height; y++)
             for (int x = 0; x < Width; x++)

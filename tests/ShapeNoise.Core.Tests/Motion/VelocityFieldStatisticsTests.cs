@@ -1,5 +1,6 @@
 using ShapeNoise.Motion;
 using ShapeNoise.Nematic;
+using ShapeNoise.Tests.Support;
 
 namespace ShapeNoise.Core.Tests.Motion;
 
@@ -40,13 +41,8 @@ public class VelocityFieldStatisticsTests
         Assert.True(VelocityFieldStatistics.PolarOrder(vx, vy) < 1e-12);
     }
 
-    /// <summary>J0 by its power series sum_m (-1)^m (x/2)^(2m) / (m!)^2 (Abramowitz and Stegun 9.1.10); converges fast for x &lt; 6.</summary>
-    internal static double J0(double x)
-    {
-        double term = 1, sum = 1, q = x * x / 4;
-        for (int m = 1; m < 40; m++) { term *= -q / (m * m); sum += term; }
-        return sum;
-    }
+    /// <summary>J0 by its power series (Abramowitz and Stegun 9.1.10), shared with the synthesis tests.</summary>
+    internal static double J0(double x) => Bessel.J0(x);
 
     [Fact]
     public void J0Series_MatchesTable()
