@@ -8,4 +8,4 @@ bash scripts/ensure-deps.sh
 dotnet build src/ShapeNoise.Cli -c Release -nologo -v quiet >/dev/null
 tool=(dotnet src/ShapeNoise.Cli/bin/Release/net10.0/shapenoise.dll)
 "${tool[@]}" analyze demo-data/ellipses/labels.tif --out runs/demo-ellipses --overwrite "$@"
-"${tool[@]}" analyze demo-data/monolayer/labels.tif --out runs/demo-monolayer --overwrite "$@"
+"${tool[@]}" analyze demo-data/monolayer/labels.tif --out runs/demo-monolayer --overwrite --coarse-sweep 1R0,2R0,3R0,4R0 "$@"

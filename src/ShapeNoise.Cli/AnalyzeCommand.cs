@@ -30,6 +30,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--time-unit <UNIT>"), Description("Time unit of the dimensionless simulation parameters: tau_q, min, or a number of minutes.")] public string TimeUnit { get; init; } = "tau_q";
         [CommandOption("--sim-format <FORMAT>"), Description("Simulation parameters as json (sim-params.json) or toml (sim-params.toml).")] public string SimFormat { get; init; } = "json";
         [CommandOption("--coarse <LENGTH>"), Description("Gaussian width of the nematic coarse-graining: um (px if unknown) or a multiple of R0 such as 2R0.")] public string Coarse { get; init; } = "2R0";
+        [CommandOption("--coarse-sweep <WIDTHS>"), Description("Re-run the defect stage at each of these coarse widths (comma-separated, e.g. 1R0,2R0,3R0,4R0) and report defect density and headward speed against the width (coarse-sweep.csv, coarse-sweep.png).")] public string? CoarseSweep { get; init; }
         [CommandOption("--grid <LENGTH>"), Description("Grid spacing of the coarse-grained fields: um or a multiple of R0.")] public string Grid { get; init; } = "0.5R0";
         [CommandOption("--raw"), Description("INPUT is a raw junction/membrane-marker movie: segment it first (kept in segmentation/).")] public bool Raw { get; init; }
         [CommandOption("--cell-diameter <UM>"), Description("With --raw: expected cell diameter (um; px if the pixel size is unknown).")] public double CellDiameter { get; init; } = 10;
@@ -72,7 +73,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
                 "flow" when s.Raw => VelocitySource.Flow,
                 "flow" => throw new ArgumentException("--velocity flow needs --raw (optical flow runs on the raw movie)"),
                 _ => throw new ArgumentException($"--velocity must be centroids or flow (got '{s.Velocity}')"),
-            }, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, GridSpacing = s.Grid, KeepDrift = s.KeepDrift,
+            }, TimeUnit = s.TimeUnit, CoarseWidth = s.Coarse, CoarseSweep = s.CoarseSweep, GridSpacing = s.Grid, KeepDrift = s.KeepDrift,
             SimFormat = s.SimFormat.ToLowerInvariant() switch
             {
                 "json" => ShapeNoise.Pipeline.SimFormat.Json,

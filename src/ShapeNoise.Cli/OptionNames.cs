@@ -23,6 +23,7 @@ public static partial class OptionNames
         ["MaxLagFrames"] = "--max-lag",
         ["TimeUnit"] = "--time-unit",
         ["CoarseWidth"] = "--coarse",
+        ["CoarseSweep"] = "--coarse-sweep",
         ["GridSpacing"] = "--grid",
         ["MaxDisplacementPx"] = "--max-displacement",
         ["NoiseModel"] = "--noise-model",

@@ -137,6 +137,8 @@ public static class AnalysisFolder
     public const string DefectSurvival = "defect-survival.csv";
     /// <summary>defect-msd.csv: mean-squared displacement of +1/2 defects relative to the tissue.</summary>
     public const string DefectMsd = "defect-msd.csv";
+    /// <summary>coarse-sweep.csv: the defect picture against the coarse width (--coarse-sweep only).</summary>
+    public const string CoarseSweep = "coarse-sweep.csv";
     /// <summary>sim-params.json (--sim-format json).</summary>
     public const string SimParamsJson = "sim-params.json";
     /// <summary>sim-params.toml (--sim-format toml).</summary>
@@ -151,7 +153,8 @@ public static class AnalysisFolder
     public const string SpectrumFigure = "spectrum.png", AnisotropyFigure = "anisotropy.png", ProfileFigure = "profile.png",
         AutocorrelationFigure = "autocorrelation.png", HeadwardFigure = "headward.png", DefectFlowFigure = "defect-flow.png",
         DriftFigure = "drift.png", VelocityCorrelationFigure = "velocity-correlation.png", PolarOrderFigure = "polar-order.png",
-        VorticityFigure = "vorticity.png", DefectSurvivalFigure = "defect-survival.png";
+        VorticityFigure = "vorticity.png", DefectSurvivalFigure = "defect-survival.png",
+        CoarseSweepFigure = "coarse-sweep.png";
     /// <summary>The file name of the defect overlay drawn on frame <paramref name="frame"/> (defects-frame-NNN.png).</summary>
     public static string DefectFrameFigure(int frame) => $"defects-frame-{frame:D3}.png";
 

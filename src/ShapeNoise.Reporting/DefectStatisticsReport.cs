@@ -18,6 +18,10 @@ public sealed record SurvivalRow(double TimeFrames, double Time, int AtRisk, int
 /// <summary>defect-msd.csv: mean-squared displacement of +1/2 defects relative to the tissue per lag.</summary>
 public sealed record MsdRow(int LagFrames, double Lag, double Msd, int Pairs, int Tracks);
 
+/// <summary>coarse-sweep.csv: the defect picture at one coarse width of --coarse-sweep.</summary>
+public sealed record CoarseSweepRow(string Width, double CoarseWidth, double PlusPerFrame, double MinusPerFrame, double? PlusDensity,
+    double? HeadwardSpeed, double? HeadwardLow, double? HeadwardHigh, int N, string Status);
+
 /// <summary>The outputs of the defect statistics (docs/motion.md#defect-statistics): summary keys, tables and the survival figure.</summary>
 public static class DefectStatisticsReport
 {
@@ -39,6 +43,7 @@ public static class DefectStatisticsReport
         summary["defect_creations"] = d.Creations;
         summary["defect_annihilations"] = d.Annihilations;
         summary["defect_search_area"] = us.Area(d.SearchAreaPx2);
+        if (r.CoarseSweep.Count > 0) summary["coarse_sweep"] = SweepJson(r);   // docs/motion.md#coarse-width-sweep
     }
 
     /// <summary>Writes defect-tracks.csv, defect-survival.csv and defect-msd.csv into <paramref name="dir"/>.</summary>
@@ -54,6 +59,67 @@ public static class DefectStatisticsReport
         Tables.Write(Path.Combine(dir, AnalysisFolder.DefectTracks), tracks, new TrackMap(u));
         Tables.Write(Path.Combine(dir, AnalysisFolder.DefectSurvival), survival, new SurvivalMap(u));
         Tables.Write(Path.Combine(dir, AnalysisFolder.DefectMsd), msd, new MsdMap(u));
+        if (r.CoarseSweep.Count > 0) Tables.Write(Path.Combine(dir, AnalysisFolder.CoarseSweep), SweepRows(r), new SweepMap(u));
+    }
+
+    /// <summary>coarse-sweep.csv rows in the run's units (the speed's value and interval only when ok).</summary>
+    public static List<CoarseSweepRow> SweepRows(AnalysisResult r)
+    {
+        var u = UnitScale.Of(r.Units);
+        return r.CoarseSweep.Select(p =>
+        {
+            var h = u.Speed(p.HeadwardSpeed);
+            return new CoarseSweepRow(p.Width.ToString(), u.Length(p.CoarsePx), p.PlusPerFrame, p.MinusPerFrame,
+                double.IsFinite(p.PlusDensityPerPx2) ? p.PlusDensityPerPx2 * u.DensityFactor : null,
+                h.IsOk ? h.Value : null, h.IsOk ? h.Low : null, h.IsOk ? h.High : null, h.N, Summary.StatusName(h.Status));
+        }).ToList();
+    }
+
+    private sealed class SweepMap : ClassMap<CoarseSweepRow>
+    {
+        public SweepMap(UnitScale u)
+        {
+            Map(x => x.Width).Name("coarse_width_option"); Map(x => x.CoarseWidth).Name($"coarse_width_{u.LengthName}");
+            Map(x => x.PlusPerFrame).Name("plus_half_per_frame"); Map(x => x.MinusPerFrame).Name("minus_half_per_frame");
+            Map(x => x.PlusDensity).Name($"plus_half_density_per_1000_{u.AreaSuffix}");
+            Map(x => x.HeadwardSpeed).Name($"defect_headward_speed_{u.SpeedSuffix}"); Map(x => x.HeadwardLow).Name("ci95_low");
+            Map(x => x.HeadwardHigh).Name("ci95_high"); Map(x => x.N).Name("n"); Map(x => x.Status).Name("status");
+        }
+    }
+
+    /// <summary>The coarse-width sweep figure: +1/2 density and headward speed (with 95% intervals where ok) against the width.</summary>
+    public static Figure? SweepFigure(AnalysisResult r)
+    {
+        if (r.CoarseSweep.Count == 0) return null;
+        var u = UnitScale.Of(r.Units); var rows = SweepRows(r);
+        using var density = new Plot(); using var speed = new Plot();
+        var withDensity = rows.Where(x => x.PlusDensity is not null).ToArray();
+        if (withDensity.Length > 0) { var s = density.Add.Scatter(withDensity.Select(x => x.CoarseWidth).ToArray(), withDensity.Select(x => x.PlusDensity!.Value).ToArray()); s.MarkerSize = 8; }
+        density.Title("+1/2 defects against the coarse width"); density.XLabel($"coarse width ({u.LengthName})"); density.YLabel($"+1/2 per 1000 {u.AreaLabel}");
+        foreach (var x in rows.Where(x => x.HeadwardSpeed is not null))
+        {
+            var bar = speed.Add.Line(x.CoarseWidth, x.HeadwardLow!.Value, x.CoarseWidth, x.HeadwardHigh!.Value); bar.LineWidth = 2; bar.Color = Colors.Black;
+            var m = speed.Add.Marker(x.CoarseWidth, x.HeadwardSpeed!.Value); m.Size = 8; m.Color = Colors.Black;
+        }
+        var zero = speed.Add.HorizontalLine(0); zero.LinePattern = LinePattern.Dashed; zero.Color = Colors.Gray;
+        speed.Title("+1/2 headward speed (> 0 headward)"); speed.XLabel($"coarse width ({u.LengthName})"); speed.YLabel($"speed ({u.SpeedLabel})");
+        return new(AnalysisFolder.CoarseSweepFigure, $"The defect picture against the coarse-graining width (--coarse-sweep; the analysis used {r.Options.CoarseWidth}): +1/2 density and headward speed with its 95% interval (widths whose speed is not ok show no marker). A conclusion that changes sign across widths depends on the smoothing.",
+            Figures.Grid([density, speed], 2, 480, 360));
+    }
+
+    /// <summary>summary.json's coarse_sweep array (only with --coarse-sweep).</summary>
+    public static JsonArray SweepJson(AnalysisResult r)
+    {
+        var u = UnitScale.Of(r.Units); var a = new JsonArray();
+        foreach (var p in r.CoarseSweep)
+            a.Add(new JsonObject
+            {
+                ["coarse_width_option"] = p.Width.ToString(), ["coarse_width"] = u.Length(p.CoarsePx),
+                ["plus_half_per_frame"] = p.PlusPerFrame, ["minus_half_per_frame"] = p.MinusPerFrame,
+                ["plus_half_density"] = double.IsFinite(p.PlusDensityPerPx2) ? p.PlusDensityPerPx2 * u.DensityFactor : null,
+                ["defect_headward_speed"] = Summary.Interval(u.Speed(p.HeadwardSpeed)),
+            });
+        return a;
     }
 
     private sealed class TrackMap : ClassMap<DefectTrackRow>

@@ -40,6 +40,7 @@ public static class Figures
             ? "The tissue's velocity per frame (median cell velocity, x and y): stage drift, removed from every cell velocity and from the defects' motion before the defect statistics."
             : "The tissue's velocity per frame (median cell velocity, x and y): stage drift, kept in the defect statistics (--keep-drift).", Png(drift, W, H)));
         figures.Add(DefectStatisticsReport.SurvivalFigure(r));
+        if (DefectStatisticsReport.SweepFigure(r) is { } sweep) figures.Add(sweep);
         figures.AddRange(MotionReport.Figures(r));
         return figures;
     }

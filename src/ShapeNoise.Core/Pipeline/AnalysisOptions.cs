@@ -60,6 +60,9 @@ public sealed record AnalysisOptions
     public SimFormat SimFormat { get; init; } = SimFormat.Json;
     /// <summary>Gaussian width of the coarse-graining: a length in the run's unit, or a multiple of R0 ("2R0").</summary>
     public string CoarseWidth { get; init; } = "2R0";
+    /// <summary>Coarse widths at which the defect stage is re-run for the robustness sweep ("1R0,2R0,3R0,4R0"); null = no
+    /// sweep (docs/motion.md#coarse-width-sweep).</summary>
+    public string? CoarseSweep { get; init; }
     /// <summary>Grid spacing of the coarse-grained fields: a length in the run's unit, or a multiple of R0 ("0.5R0").</summary>
     public string GridSpacing { get; init; } = "0.5R0";
     /// <summary>Cell velocities for the defect analysis: tracked centroids, or dense optical flow of the raw movie (--raw only).</summary>
@@ -106,6 +109,7 @@ public sealed record AnalysisOptions
         if (TimeUnit is not ("tau_q" or "min") && !(double.TryParse(TimeUnit, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var tu) && tu > 0 && double.IsFinite(tu)))
             throw new ArgumentException($"{nameof(TimeUnit)} must be tau_q, min or a positive number of minutes (got '{TimeUnit}')");
         _ = ToDefectOptions();
+        if (CoarseSweep is { } sweep) Nematic.CoarseSweep.Parse(sweep, nameof(CoarseSweep));
         _ = ForPooling;
         if (NoiseModel == NoiseModel.FixedCells && FloorFrom is null)
             throw new ArgumentException("--noise-model fixed-cells needs the fixed-cell reference of --floor-from");

@@ -138,6 +138,11 @@ public static class MovieAnalyzer
         // Defect densities, lifetimes and events over the tissue searched (docs/motion.md#defect-statistics).
         var defectStats = times.Time("defects", () => Nematic.DefectStatistics.Of(defects, info.Width, info.Height,
             double.IsFinite(coverage) ? coverage * info.Width * info.Height : 0, options.BootstrapResamples, options.Seed));
+        // Robustness of the defect picture to the smoothing (docs/motion.md#coarse-width-sweep), where defects apply.
+        var sweep = options.CoarseSweep is { } widths && why is null
+            ? times.Time("defects", () => Nematic.CoarseSweep.Run(Nematic.CoarseSweep.Parse(widths, "--coarse-sweep"), info.Width, info.Height,
+                cells, tracks, r0, units.S, coverage, defectOptions, bound))
+            : [];
         // Collective motion (docs/motion.md): cell velocities always, coarse-grained fields only in a confluent tissue.
         var motion = times.Time("motion", () => double.IsFinite(defects.CoarsePx)
             ? ShapeNoise.Motion.MotionAnalysis.Run(info.Width, info.Height, cells, bound.VelocityOf, defects.CoarsePx, defects.GridPx, options.ForMotion, notConfluent)
@@ -149,7 +154,7 @@ public static class MovieAnalyzer
         return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
         {
             Coverage = coverage, CoverageRaw = coverageRaw,
-            Motion = motion, DefectStatistics = defectStats, ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
+            Motion = motion, DefectStatistics = defectStats, CoarseSweep = sweep, ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
         };
     }
 

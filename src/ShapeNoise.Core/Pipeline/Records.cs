@@ -48,6 +48,8 @@ public sealed record AnalysisResult(Reading.MovieInfo Movie, AnalysisOptions Opt
     public double ShapeCorrelationLengthPx { get; init; } = double.NaN;
     /// <summary>Defect densities, lifetimes, creation and annihilation, +1/2 mean-squared displacement (docs/motion.md#defect-statistics); null when not computed.</summary>
     public Nematic.DefectStatisticsResult? DefectStatistics { get; init; }
+    /// <summary>The defect picture re-run at each width of --coarse-sweep (empty without a sweep or where defects do not apply).</summary>
+    public IReadOnlyList<Nematic.CoarseSweepPoint> CoarseSweep { get; init; } = [];
     /// <summary>Collective motion and nematic order (docs/motion.md).</summary>
     public ShapeNoise.Motion.MotionResult Motion { get; init; } = ShapeNoise.Motion.MotionResult.Empty("not computed");
 }
