@@ -61,7 +61,7 @@ internal sealed class PlanCommand : Command<PlanCommand.Settings>
     {
         [CommandArgument(0, "<PILOT_DIRS>"), Description("Pilot analysis folders (or folders of analysis folders, one per condition).")] public string[] Pilots { get; init; } = [];
         [CommandOption("--effect <RELATIVE>"), Description("Relative change to detect, e.g. 0.2 for 20%.")] public double Effect { get; init; } = 0.2;
-        [CommandOption("--measure <MEASURE>"), Description("anisotropy or anisotropy_contour.")] public string Measure { get; init; } = "anisotropy";
+        [CommandOption("--measure <MEASURE>"), Description("anisotropy (default), anisotropy_contour, or a movie-level measure of collective motion or defects such as polar_order, rms_speed, velocity_correlation_length, plus_half_density, defect_lifetime (docs/motion.md#comparing-conditions).")] public string Measure { get; init; } = "anisotropy";
         [CommandOption("--out <DIR>"), Description("Output folder.")] public string Out { get; init; } = "";
         [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
         [CommandOption("--quiet"), Description("Print nothing but errors.")] public bool Quiet { get; init; }
@@ -74,7 +74,7 @@ internal sealed class PlanCommand : Command<PlanCommand.Settings>
         var p = CompareJob.Plan(s.Pilots, s.Effect, s.Measure, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite, s.Pilots), Environment.GetCommandLineArgs().Skip(1));
         if (s.Quiet) return 0;
         AnsiConsole.WriteLine($"ICC {p.Components.Icc:G3} (between {p.Components.Between:G3}, within {p.Components.Within:G3}) from {p.PilotMovies} pilot movies");
-        AnsiConsole.WriteLine(p.Smallest is { } b ? $"smallest design with power >= 0.8: {b.MoviesPerCondition} movies per condition, {b.CellsPerMovie} cells per movie (power {b.Power:F2})"
+        AnsiConsole.WriteLine(p.Smallest is { } b ? $"smallest design with power >= 0.8: {b.MoviesPerCondition} movies per condition{(ShapeNoise.Comparison.ConditionComparison.MovieLevelMeasures.Contains(p.Measure) ? " of the pilots' size" : $", {b.CellsPerMovie} cells per movie")} (power {b.Power:F2})"
                                                   : "no design up to 30 movies per condition reaches power 0.8");
         AnsiConsole.MarkupLineInterpolated($"results in [bold]{s.Out}[/] (plan.md, plan.csv, plan.png)");
         return 0;

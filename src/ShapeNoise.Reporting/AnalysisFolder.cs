@@ -200,7 +200,9 @@ public static class AnalysisFolder
             var o = summary[k];
             string status = o?["status"]?.GetValue<string>() ?? "not_applicable";
             double v = status == "ok" ? o?["value"]?.GetValue<double?>() ?? double.NaN : double.NaN;
-            d[k] = new MovieValue(v, status, o?["reason"]?.GetValue<string>() ?? (o is null ? "not in this analysis folder (made by an older version)" : null));
+            var ci = status == "ok" ? o?["ci95"] as JsonArray : null;
+            d[k] = new MovieValue(v, status, o?["reason"]?.GetValue<string>() ?? (o is null ? "not in this analysis folder (made by an older version)" : null))
+            { Low = ci?[0]?.GetValue<double?>() ?? double.NaN, High = ci?[1]?.GetValue<double?>() ?? double.NaN };
         }
         return d;
     }

@@ -197,6 +197,16 @@ public static class ComparisonReport
     /// <summary>The test a plan is for, in words (plan.md and plan.json).</summary>
     public const string PlanTest = "the same Student t test on per-movie ln pooled ratio that compare runs";
 
+    /// <summary>The test a plan of <paramref name="measure"/> is for, in words: <see cref="PlanTest"/> for the anisotropies,
+    /// the movie-level value's test otherwise (docs/motion.md#comparing-conditions).</summary>
+    public static string PlanTestOf(string measure) => !ConditionComparison.MovieLevelMeasures.Contains(measure) ? PlanTest
+        : $"the same Student t test on per-movie {(ConditionComparison.IsLogScale(measure) ? "ln " : "")}{measure} that compare runs";
+
+    /// <summary>What one movie contributes to the plan's test, in words.</summary>
+    private static string MovieQuantityText(string measure) => !ConditionComparison.MovieLevelMeasures.Contains(measure)
+        ? $"ln({Measures.Get(measure).Statistic}) pooled over the movie's tracks, frame-weighted"
+        : $"{(ConditionComparison.IsLogScale(measure) ? "ln of " : "")}the movie's {measure} (summary.json), its sampling variance from the movie's own 95% interval";
+
     /// <summary>Writes plan.csv (power of every design with its 95% interval), plan.json (components, ICC, smallest design, assumptions),
     /// plan.png, plan.md and report.html into <paramref name="dir"/>.</summary>
     public static void WritePlan(PlanResult plan, string dir)
@@ -222,9 +232,9 @@ public static class ComparisonReport
         var vc = p.Components;
         return new System.Text.Json.Nodes.JsonObject
         {
-            ["test"] = PlanTest,
+            ["test"] = PlanTestOf(p.Measure),
             ["measure"] = p.Measure,
-            ["movie_quantity"] = $"ln({Measures.Get(p.Measure).Statistic}) pooled over the movie's tracks, frame-weighted",
+            ["movie_quantity"] = MovieQuantityText(p.Measure),
             ["relative_effect"] = p.RelativeEffect,
             ["log_effect"] = p.LogEffect,
             ["alpha"] = p.Alpha,
@@ -261,7 +271,7 @@ public static class ComparisonReport
         foreach (var g in p.Designs.GroupBy(d => d.CellsPerMovie))
         {
             var s = plt.Add.ScatterLine(g.Select(d => (double)d.MoviesPerCondition).ToArray(), g.Select(d => d.Power).ToArray());
-            s.LegendText = $"{g.Key} cells per movie"; s.Color = palette.GetColor(i++); s.LineWidth = 2;
+            s.LegendText = ConditionComparison.MovieLevelMeasures.Contains(p.Measure) ? "movies of the pilots' size" : $"{g.Key} cells per movie"; s.Color = palette.GetColor(i++); s.LineWidth = 2;
         }
         var t = plt.Add.HorizontalLine(0.8); t.LinePattern = LinePattern.Dashed; t.LegendText = "power 0.8";
         plt.Axes.SetLimitsY(0, 1.02);
@@ -272,6 +282,23 @@ public static class ComparisonReport
         return plt;
     }
 
+    /// <summary>plan.md for a movie-level measure: one value per movie of the pilots' size, so the design is movies per
+    /// condition only; var(y) = sigma_b^2 + the mean within-movie variance of the pilots.</summary>
+    private static string MovieLevelNarrative(PlanResult p, StringBuilder sb, Func<Estimate, string> est)
+    {
+        var vc = p.Components;
+        string scale = ConditionComparison.IsLogScale(p.Measure) ? "ln-scale" : "absolute";
+        sb.Append(Ci, $"This plan is for {PlanTestOf(p.Measure)}: one value per movie ({MovieQuantityText(p.Measure)}), compared between two conditions by the two-sided pooled-variance Student t test at alpha {F(p.Alpha)} (movies are the replicates).\n\n");
+        sb.Append(Ci, $"Pilot: {p.PilotMovies} movies with an ok value. Between-movie variance σ_b² = {F(vc.Between)}, mean within-movie variance {F(vc.Within)} (method of moments, Searle, Casella and McCulloch 1992); intraclass correlation {est(p.Icc)}.\n\n");
+        sb.Append(Ci, $"Assumptions: new movies like the pilots (same size, length and frame interval): their within-movie variance is the pilots'. Longer or larger movies would lower it; only more movies lower σ_b².\n\n");
+        sb.Append(Ci, $"Target: a {p.RelativeEffect * 100:G3}% change in {p.Measure} ({scale} effect {F(p.LogEffect)}), power {F(p.Target)}.\n\n");
+        sb.Append(p.Smallest is { } b
+            ? string.Format(Ci, "Smallest design reaching power {2}: **{0} movies per condition** (power {1}).\n", b.MoviesPerCondition, est(p.SmallestPower), F(p.Target))
+            : $"No design with up to {ExperimentPlan.MaxMovies} movies per condition reaches power {F(p.Target)} for this effect.\n");
+        sb.Append(Ci, $"\nThe intervals come from resampling the pilot movies within conditions ({p.Resamples} resamples, seed {p.Seed}); with few pilot movies they are wide, and the plan is a guide.\n");
+        return sb.ToString();
+    }
+
     /// <summary>plan.md's Markdown: which test the plan is for, the pilot's movie-level variance components and ICC with its
     /// interval, the assumptions (tracks per movie, frames per track), the target effect and the smallest design reaching the
     /// target power with its interval.</summary>
@@ -280,6 +307,7 @@ public static class ComparisonReport
         var vc = p.Components;
         string Est(Estimate e) => e.IsOk ? $"{F(e.Value)} (95% CI {F(e.Low)}–{F(e.High)}, n = {e.N} {e.UnitName})" : $"{F(e.Value)} (no interval: {e.Reason ?? "too few"})";
         var sb = new StringBuilder("# Experiment plan\n\n");
+        if (ConditionComparison.MovieLevelMeasures.Contains(p.Measure)) return MovieLevelNarrative(p, sb, Est);
         sb.Append(Ci, $"This plan is for {PlanTest}: one value per movie, y = ln of the movie's frame-weighted pooled {Measures.Get(p.Measure).Statistic}, compared between two conditions by the two-sided pooled-variance Student t test at alpha {F(p.Alpha)} (movies are the replicates).\n\n");
         sb.Append(Ci, $"Pilot: {p.PilotMovies} movies, {p.PilotTracks} tracks. Each movie's sampling variance comes from a bootstrap over its tracks ({ExperimentPlan.TrackResamples} resamples). ");
         sb.Append(Ci, $"Between-movie variance σ_b² = {F(vc.Between)}, within-movie variance per track σ_w² = {F(vc.Within)} (method of moments, Searle, Casella and McCulloch 1992), so a movie of m tracks has var(y) = σ_b² + σ_w²/m. ");

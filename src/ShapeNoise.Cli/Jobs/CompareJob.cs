@@ -123,7 +123,8 @@ public static class CompareJob
 
     public static PlanResult Plan(IReadOnlyList<string> pilotFolders, double effect, string measure, OutputTarget outDir, IEnumerable<string>? commandLine = null)
     {
-        if (measure != Measures.Anisotropy.Name && measure != Measures.AnisotropyContour.Name) throw new ArgumentException($"--measure must be anisotropy or anisotropy_contour (got '{measure}')");
+        if (measure != Measures.Anisotropy.Name && measure != Measures.AnisotropyContour.Name && !ConditionComparison.MovieLevelMeasures.Contains(measure))
+            throw new ArgumentException($"--measure must be anisotropy, anisotropy_contour or a movie-level measure ({string.Join(", ", ConditionComparison.MovieLevelMeasures)}) (got '{measure}')");
         OutputFolder.Check(outDir);
         var inputs = new List<string>();
         var pilots = new List<MovieData>();
@@ -146,7 +147,7 @@ public static class CompareJob
             ComparisonReport.WritePlan(plan, dir);
             var prov = Provenance.Describe("plan", inputs, new JsonObject
             {
-                ["effect"] = effect, ["measure"] = measure, ["test"] = ComparisonReport.PlanTest,
+                ["effect"] = effect, ["measure"] = measure, ["test"] = ComparisonReport.PlanTestOf(measure),
                 ["track_resamples"] = ExperimentPlan.TrackResamples, ["movie_resamples"] = plan.Resamples, ["seed"] = plan.Seed,
             }, commandLine);
             File.WriteAllText(Path.Combine(dir, AnalysisFolder.Run), prov.ToJsonString(Summary.Indented));

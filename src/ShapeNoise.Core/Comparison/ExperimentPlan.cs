@@ -93,6 +93,7 @@ public static class ExperimentPlan
     /// </summary>
     public static PilotMovie Pilot(MovieData movie, string measure, int resamples, int seed)
     {
+        if (ConditionComparison.MovieLevelMeasures.Contains(measure)) return MovieLevelPilot(movie, measure);
         var tracks = movie.Tracks.Where(t => Usable(t, measure)).ToArray();
         var m = movie with { Tracks = tracks };
         double y = ConditionComparison.MovieQuantity(measure, m);
@@ -106,6 +107,22 @@ public static class ExperimentPlan
         }
         double var = boot.Count >= 2 ? Descriptive.SampleVariance(boot.ToArray()) : double.NaN;
         return new PilotMovie(movie.Condition, movie.Replicate, y, var, tracks.Length, frames);
+    }
+
+    /// <summary>
+    /// A pilot movie of a movie-level measure (docs/motion.md#comparing-conditions): y = MovieQuantity (ln of the value for
+    /// log-scale measures), and V = ((U - L) / (2 x 1.96))^2 from the movie's own 95% interval [L, U] on the same scale (its
+    /// moving-block bootstrap over time, or its Poisson or Kaplan-Meier interval), one unit per movie. NaN V without an interval.
+    /// </summary>
+    /// <remarks>The half-width of a 95% interval is 1.96 standard errors for a normal sampling distribution (common practice).</remarks>
+    public static PilotMovie MovieLevelPilot(MovieData movie, string measure)
+    {
+        double y = ConditionComparison.MovieQuantity(measure, movie);
+        var mv = movie.MovieLevel.TryGetValue(measure, out var x) ? x : new MovieValue(double.NaN, "not_applicable", null);
+        bool log = ConditionComparison.IsLogScale(measure);
+        double lo = log ? (mv.Low > 0 ? Math.Log(mv.Low) : double.NaN) : mv.Low, hi = log ? (mv.High > 0 ? Math.Log(mv.High) : double.NaN) : mv.High;
+        double se = (hi - lo) / (2 * 1.959963984540054);
+        return new PilotMovie(movie.Condition, movie.Replicate, y, double.IsFinite(se) ? se * se : double.NaN, 1, double.NaN);
     }
 
     /// <summary>The components of pilots grouped by condition (<see cref="VarianceComponents.MovieLevel"/>); when no
@@ -152,8 +169,13 @@ public static class ExperimentPlan
         var movies = pilots.Select((p, i) => Pilot(p, measure, TrackResamples, seed + 7919 * (i + 1))).Where(p => double.IsFinite(p.Y) && double.IsFinite(p.V)).ToList();
         var vc = Components(movies);
         if (!double.IsFinite(vc.Within) || !double.IsFinite(vc.Between))
-            throw new Reading.InputException(pilots[0].Folder, "pilot data are too few to estimate variance components (need at least 2 movies of one condition, each with 2 or more tracks)");
-        double delta = Math.Log(1 + relativeEffect);
+            throw new Reading.InputException(pilots[0].Folder, ConditionComparison.MovieLevelMeasures.Contains(measure)
+                ? $"pilot data are too few to estimate variance components (need at least 2 movies of one condition with an ok {measure} and its interval)"
+                : "pilot data are too few to estimate variance components (need at least 2 movies of one condition, each with 2 or more tracks)");
+        // The effect on the test's scale: ln(1 + r) for log-scale measures, r x |mean y| for the linear movie-level ones.
+        bool movieLevel = ConditionComparison.MovieLevelMeasures.Contains(measure);
+        double delta = ConditionComparison.IsLogScale(measure) ? Math.Log(1 + relativeEffect) : relativeEffect * Math.Abs(movies.Average(p => p.Y));
+        int[] cellsChoices = movieLevel ? [1] : CellsChoices;   // a movie-level value has one unit per movie of the pilots' size
         int n = movies.Count;
 
         // Movie bootstrap within conditions: re-estimate the components on each resample.
@@ -178,7 +200,7 @@ public static class ExperimentPlan
         static double Icc(VarianceComponents c) => c.Between + c.Within > 0 ? c.Between / (c.Between + c.Within) : double.NaN;
 
         var designs = new List<DesignPower>();
-        foreach (int m in CellsChoices)
+        foreach (int m in cellsChoices)
             for (int k = 2; k <= MaxMovies; k++)
             {
                 double pw = PowerOf(vc.Between, vc.Within, k, m, delta, alpha);

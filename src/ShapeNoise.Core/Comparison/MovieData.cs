@@ -26,7 +26,13 @@ public sealed record MovieData(string Condition, string Replicate, string Folder
 
 /// <summary>One movie-level estimate as read back from summary.json: its value (NaN unless the status is ok), status name
 /// (ok, too_few, at_bound, not_applicable) and reason.</summary>
-public readonly record struct MovieValue(double Value, string Status, string? Reason);
+public readonly record struct MovieValue(double Value, string Status, string? Reason)
+{
+    /// <summary>Lower end of the movie's own 95% interval (NaN unless ok): the plan takes the movie's sampling variance from it.</summary>
+    public double Low { get; init; } = double.NaN;
+    /// <summary>Upper end of the movie's own 95% interval (NaN unless ok).</summary>
+    public double High { get; init; } = double.NaN;
+}
 
 /// <summary>One row of conditions.csv: condition, replicate, path (an analysis folder or a movie to analyse); Line is its line number in the file.</summary>
 public sealed record ConditionRow(string Condition, string Replicate, string Path, long Line = 0)
