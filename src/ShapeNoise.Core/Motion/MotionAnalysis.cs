@@ -78,13 +78,7 @@ public static class MotionAnalysis
     private static CellSample[] Samples(IReadOnlyList<CellRecord> cells, (int Frame, int Start, int Count) run, Func<CellRecord, (double Vx, double Vy)> velocityOf)
     {
         var s = new CellSample[run.Count];
-        for (int i = 0; i < run.Count; i++)
-        {
-            var c = cells[run.Start + i];
-            var (qxx, qxy) = c.Shape.Nematic;
-            var (vx, vy) = velocityOf(c);
-            s[i] = new CellSample(c.Shape.CentroidX, c.Shape.CentroidY, qxx, qxy, vx, vy);
-        }
+        for (int i = 0; i < run.Count; i++) s[i] = CellSample.Of(cells[run.Start + i], velocityOf(cells[run.Start + i]));
         return s;
     }
 

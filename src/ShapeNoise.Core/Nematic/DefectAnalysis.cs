@@ -135,13 +135,7 @@ public static class DefectAnalysis
         {
             var run = frameRuns[f];
             var samples = new CellSample[run.Count];
-            for (int i = 0; i < run.Count; i++)
-            {
-                var c = cells[run.Start + i];
-                var (qxx, qxy) = c.Shape.Nematic;
-                var (vx, vy) = velocityOf(c);
-                samples[i] = new CellSample(c.Shape.CentroidX, c.Shape.CentroidY, qxx, qxy, vx, vy);
-            }
+            for (int i = 0; i < run.Count; i++) samples[i] = CellSample.Of(cells[run.Start + i], velocityOf(cells[run.Start + i]));
             var (ux, uy, n) = TissueDrift.Of(samples);
             if (removeDrift && n > 0)
                 for (int i = 0; i < samples.Length; i++) samples[i] = samples[i] with { Vx = samples[i].Vx - ux, Vy = samples[i].Vy - uy };

@@ -1,7 +1,15 @@
 namespace ShapeNoise.Nematic;
 
 /// <summary>One cell's contribution to the coarse-grained fields: centroid (px), nematic tensor, velocity (px/frame; NaN if unknown).</summary>
-public readonly record struct CellSample(double X, double Y, double Qxx, double Qxy, double Vx, double Vy);
+public readonly record struct CellSample(double X, double Y, double Qxx, double Qxy, double Vx, double Vy)
+{
+    /// <summary>The sample of one analysed outline: its centroid, its shape's nematic tensor and the velocity <paramref name="v"/>.</summary>
+    public static CellSample Of(Tracking.CellRecord c, (double Vx, double Vy) v)
+    {
+        var (qxx, qxy) = c.Shape.Nematic;
+        return new CellSample(c.Shape.CentroidX, c.Shape.CentroidY, qxx, qxy, v.Vx, v.Vy);
+    }
+}
 
 /// <summary>
 /// Coarse-grained fields on a square grid: node (i, j) sits at x = i h, y = j h (px). Q and velocity are weighted means of
