@@ -136,7 +136,7 @@ public static class HtmlReport
             sb.Append("</ul></div>\n");
         }
         // Collective motion (docs/motion.md): every estimate with its n and status.
-        sb.Append("<h2>Collective motion</h2>\n<p>").Append(E($"Intervals over {r.Motion.BlockFrames}-frame time blocks (moving-block bootstrap); speeds and the velocity autocorrelation from the cells' velocities, correlations and enstrophy from the coarse-grained field on a {Round(u.Length(r.Motion.CorrelationSpacingPx))} {u.LengthName} grid."
+        sb.Append("<h2>Collective motion and defect statistics</h2>\n<p>").Append(E($"Intervals over {r.Motion.BlockFrames}-frame time blocks (moving-block bootstrap); speeds and the velocity autocorrelation from the cells' velocities, correlations and enstrophy from the coarse-grained field on a {Round(u.Length(r.Motion.CorrelationSpacingPx))} {u.LengthName} grid."
             + (r.Motion.FieldNotApplicableReason is { } why ? $" Field measures not applicable: {why}." : ""))).Append("</p>\n").Append(MotionReport.HtmlTable(r));
         double fa = p.VarAlongRaw > 0 ? p.FloorAlong / p.VarAlongRaw : double.NaN, fc = p.VarAcrossRaw > 0 ? p.FloorAcross / p.VarAcrossRaw : double.NaN;
         sb.Append("<h2>Noise floor</h2>\n<p>").Append(E(p.NoiseModel == ShapeNoise.Fluctuations.NoiseModel.Temporal ? TemporalSentence(r)

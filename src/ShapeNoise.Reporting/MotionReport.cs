@@ -195,12 +195,14 @@ public static class MotionReport
             + $"{Say(u.Speed(m.RmsSpeed), u.SpeedLabel)}; velocity correlation length (first zero of C_vv) {Say(u.Of(UnitKind.Length, m.VelocityCorrelationLength), u.LengthName)}.";
     }
 
-    /// <summary>The report's table of every motion estimate: measure, value, 95% interval, n and status.</summary>
+    /// <summary>The report's table of every motion and defect-statistics estimate: measure, value, 95% interval, n and status.</summary>
     public static string HtmlTable(AnalysisResult r)
     {
         var u = UnitScale.Of(r.Units);
         var sb = new System.Text.StringBuilder("<table>\n<tr><th>measure</th><th>value</th><th>95% interval</th><th>n</th><th>status</th></tr>\n");
-        foreach (var (measure, e0) in Estimates(r.Motion))
+        var rows = Estimates(r.Motion);
+        if (r.DefectStatistics is { } ds) rows.AddRange(DefectStatisticsReport.Estimates(ds));
+        foreach (var (measure, e0) in rows)
         {
             var e = u.Of(measure.Kind, e0);
             string unit = measure.Kind == UnitKind.Ratio ? "" : u.Label(measure.Kind);
