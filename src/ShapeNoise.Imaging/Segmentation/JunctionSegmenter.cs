@@ -52,7 +52,7 @@ public sealed record SegmentOptions
 public static class JunctionSegmenter
 {
     /// <summary>Segments the row-major intensity frame <paramref name="raw"/> (<paramref name="width"/> x <paramref name="height"/>) and returns its labels, row-major, 0 = no cell, cells numbered 1..N.</summary>
-    public static int[] Segment(int[] raw, int width, int height, SegmentOptions o)
+    public static int[] Segment(int[] raw, int width, int height, SegmentOptions o, int[]? previous = null)
     {
         double d = o.DiameterPx;
         using var img = new Mat(height, width, MatType.CV_32FC1);
