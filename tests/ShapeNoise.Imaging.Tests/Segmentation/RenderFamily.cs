@@ -41,7 +41,7 @@ public static class RenderFamily
         new("small", 8, 8, 1.0, 1),
         new("large-thick", 24, 6, 2.5, 3, Haze: 0.5, Cytoplasm: 0.2),
         new("sharp-cyto", 10, 20, 0.8, 1.5, Cytoplasm: 0.3, Illumination: 0.4),
-        new("hard", 6, 3, 1.5, 1),
+        new("hard", 7.2, 3, 1.5, 1),
     ];
 
     /// <summary>Held-back seeds: never used while choosing methods or defaults (docs/segmentation.md#render-family).</summary>

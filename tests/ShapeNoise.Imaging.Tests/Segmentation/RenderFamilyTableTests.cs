@@ -49,7 +49,7 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
     {
         foreach (var m in RenderFamily.Ci) yield return m;
         foreach (var snr in new[] { 3.0, 5, 8, 20 })
-            foreach (var d in new[] { 6.0, 8, 14, 30 })
+            foreach (var d in new[] { 7.2, 8, 14, 30 })
                 yield return new RenderMember($"grid", d, snr, 1.2, 1, CanvasPx: d >= 30 ? 300 : 200);
         foreach (var psf in new[] { 0.8, 2.5 }) yield return new RenderMember("psf", 12, 8, psf, 1);
         foreach (var lw in new[] { 1.0, 2, 3 }) yield return new RenderMember("line", 12, 8, 1.2, lw);
