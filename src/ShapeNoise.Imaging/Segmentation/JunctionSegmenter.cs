@@ -33,9 +33,9 @@ public sealed record SegmentOptions
     /// <summary>Neighbouring regions whose shared boundary rises less than this many noise sd (of the boundary image)
     /// above the brighter region's median are merged: the boundary has no ridge.</summary>
     public double RidgeContrastSd { get; init; } = 4;
-    /// <summary>Passes of the ridge placement of boundaries (0 = off): boundary pixels move to the side of the crest of the
-    /// smoothed junction signal.</summary>
-    public int RidgePasses { get; init; } = 4;
+    /// <summary>Passes of the ridge placement of boundaries (default 0 = off; measured to lower SEG on the render family,
+    /// docs/segmentation.md#what-did-not-help): boundary pixels on the flank of a crest move to the crest's far side.</summary>
+    public int RidgePasses { get; init; }
     /// <summary>Use the previous frame's cells, shrunk by <see cref="TrackErosionFraction"/> diameters, as seeds for the next frame.</summary>
     public bool TrackSeeds { get; init; }
     /// <summary>With <see cref="TrackSeeds"/>: the previous frame's cells are shrunk by this fraction of the diameter before seeding.</summary>
@@ -109,8 +109,11 @@ public static class JunctionSegmenter
         Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * d);
         using var flat = new Mat();
         Cv2.Divide(img, wide, flat);
-        var flatArr = ToArray(flat);
-        double noise = NoiseLevel.Estimate(flatArr, width, height);
+        // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count, 1/sqrt(12)),
+        // divided by the median background level (docs/segmentation.md#noise-level).
+        var wideArr = ToArray(wide);
+        Array.Sort(wideArr);
+        double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
         double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
         var smooth = Blurred(flat, seedSigma);
         var fine = Blurred(flat, o.BoundarySigmaPx);

@@ -85,9 +85,9 @@ public static class Regions
 
     /// <summary>
     /// Places boundaries on the ridge of <paramref name="level"/>: a pixel p of region A whose 4-neighbour p + d lies in
-    /// region B moves to B when the signal still falls towards B across p, S(p + d) − S(p − d) &lt; 0 (the ridge maximum,
+    /// region B, with p − d in A, moves to B when the signal falls monotonically towards B across p, S(p − d) &gt; S(p) &gt; S(p + d) (the ridge maximum,
     /// where the derivative across the boundary changes sign, lies behind p's centre); of several such neighbours the
-    /// steepest fall wins. Repeated up to <paramref name="passes"/> times or until nothing moves. Returns the moves.
+    /// steepest fall wins; moves apply at once, in row order (a simultaneous update lets two pixels swap), and a pixel moves at most once. Repeated up to <paramref name="passes"/> times or until nothing moves. Returns the moves.
     /// </summary>
     /// <remarks>The boundary is the crest line of the smoothed junction signal, located at the zero crossing of its first
     /// derivative across the junction (Steger C. (1998), "An unbiased detector of curvilinear structures", IEEE Trans.
@@ -95,29 +95,29 @@ public static class Regions
     public static int PlaceOnRidges(int[] labels, float[] level, int w, int h, int passes)
     {
         int moved = 0;
-        var next = new int[labels.Length];
+        var done = new bool[labels.Length];
         for (int pass = 0; pass < passes; pass++)
         {
-            Array.Copy(labels, next, labels.Length);
             int m = 0;
             for (int y = 1; y < h - 1; y++)
                 for (int x = 1; x < w - 1; x++)
                 {
                     int i = y * w + x, a = labels[i];
-                    if (a <= 0) continue;
+                    if (a <= 0 || done[i]) continue;
                     double best = 0; int to = a;
                     Check(i + 1, i - 1); Check(i - 1, i + 1); Check(i + w, i - w); Check(i - w, i + w);
-                    if (to != a) { next[i] = to; m++; }
+                    if (to != a) { labels[i] = to; done[i] = true; m++; }
 
                     void Check(int q, int back)
                     {
                         int b = labels[q];
-                        if (b <= 0 || b == a) return;
+                        if (b <= 0 || b == a || labels[back] != a) return;
+                        // Only when p lies on the flank, not on the crest: S(p − d) > S(p) > S(p + d).
+                        if (!(level[back] > level[i] && level[i] > level[q])) return;
                         double fall = level[q] - level[back];
                         if (fall < best) { best = fall; to = b; }
                     }
                 }
-            Array.Copy(next, labels, labels.Length);
             moved += m;
             if (m == 0) break;
         }

@@ -60,9 +60,11 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         var onTruth = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, truth), a).Pooled.Anisotropy.Value;
         var onSeg = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, seg), a).Pooled.Anisotropy.Value;
         log.WriteLine($"SEG {score.Seg:F3}, F1 {score.F1:F3} ({score.Matches}/{score.ReferenceObjects}); anisotropy on truth labels {onTruth:F3}, on segmented {onSeg:F3} ({100 * (onSeg / onTruth - 1):+0.0;-0.0}%)");
-        Assert.True(score.Seg >= 0.85, $"SEG {score.Seg}");
+        // Issue 17's targets: SEG >= 0.88 and F1 >= 0.95 (Ulman et al. 2017 definitions), anisotropy within 10 % of the
+        // truth labels' (measured 0.968, 1.000 and -0.4 %).
+        Assert.True(score.Seg >= 0.88, $"SEG {score.Seg}");
         Assert.True(score.F1 >= 0.95, $"F1 {score.F1}");
-        Assert.InRange(onSeg / onTruth, 0.8, 1.2);
+        Assert.InRange(onSeg / onTruth, 0.9, 1.1);
     }
 
     [Fact]
