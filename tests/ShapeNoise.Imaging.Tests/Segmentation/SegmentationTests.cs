@@ -103,6 +103,11 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
             var s = Support.Cli.Run("segment", input, "--out", d[name], "--cell-diameter", "8.9");
             Assert.True(s.ExitCode == 0, s.Stderr);
             Assert.True(File.Exists(d[$"{name}/qc-frame-000.png"]));
+            // QC (docs/segmentation.md#qc): one entry per frame with its count and the fraction of area in cells; a
+            // confluent monolayer is all cells (its truth labels have no background).
+            var qc = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(d[$"{name}/run.json"]))!["qc"]!;
+            Assert.Equal(3, qc["frames"]!.AsArray().Count);
+            Assert.All(qc["frames"]!.AsArray(), f => Assert.InRange(f!["cell_area_fraction"]!.GetValue<double>(), 0.95, 1.0));
             var sc = Support.Cli.Run("score", d[$"{name}/labels.tif"], d["m/labels.tif"], "--json");
             var j = System.Text.Json.Nodes.JsonNode.Parse(sc.Stdout)!;
             log.WriteLine($"{name}: SEG {j["seg"]}, F1 {j["f1"]}");
