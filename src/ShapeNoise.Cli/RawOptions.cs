@@ -14,7 +14,13 @@ internal class RawRenderSettings : CommandSettings
     [CommandOption("--illumination <FRACTION>"), Description("Raw movie: relative illumination falloff across the field.")] public double Illumination { get; init; } = 0.3;
     [CommandOption("--bleach <FRACTION>"), Description("Raw movie: fraction of signal bleached by the last frame.")] public double Bleach { get; init; } = 0.3;
 
+    [CommandOption("--line-width <PX>"), Description("Raw movie: physical junction width (px), rendered by pixel-area coverage of the band around the true contact; default: a one-pixel line on both sides of each label change.")] public double? LineWidth { get; init; }
+    [CommandOption("--haze <FRACTION>"), Description("Raw movie: out-of-focus haze (junctions blurred by --haze-sigma), mean level as a fraction of the peak junction signal.")] public double Haze { get; init; }
+    [CommandOption("--haze-sigma <PX>"), Description("Raw movie: width of the out-of-focus blur of --haze (px).")] public double HazeSigma { get; init; } = 20;
+    [CommandOption("--cytoplasm <FRACTION>"), Description("Raw movie: cytoplasmic marker level as a fraction of the peak junction signal (each cell x 0.75-1.25).")] public double Cytoplasm { get; init; }
+
     public RawRenderOptions? RenderOptions(int seed) => Raw
-        ? new RawRenderOptions { Snr = Snr, PsfSigmaPx = Psf, Illumination = Illumination, Bleach = Bleach, Seed = seed + 1000 }.Validated()
+        ? new RawRenderOptions { Snr = Snr, PsfSigmaPx = Psf, Illumination = Illumination, Bleach = Bleach, Seed = seed + 1000,
+            LineWidthPx = LineWidth, Haze = Haze, HazeSigmaPx = HazeSigma, Cytoplasm = Cytoplasm }.Validated()
         : null;
 }

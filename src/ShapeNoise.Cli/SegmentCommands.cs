@@ -18,6 +18,12 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--boundary-sigma <PX>"), Description("Smoothing (px) of the image the watershed floods.")] public double BoundarySigma { get; init; } = 0.6;
         [CommandOption("--min-area-fraction <FRACTION>"), Description("Fragments below this fraction of the expected cell area are merged into a neighbour.")] public double MinAreaFraction { get; init; } = 0.15;
         [CommandOption("--max-area-factor <FACTOR>"), Description("Regions above this many expected cell areas are not cells and are dropped.")] public double MaxAreaFactor { get; init; } = 6;
+        [CommandOption("--seeds <METHOD>"), Description("Seed method: hminima (minima deeper than --seed-depth noise sd; default) or window (minima over --seed-window).")] public string Seeds { get; init; } = "hminima";
+        [CommandOption("--seed-depth <SD>"), Description("hminima seeds: a minimum is a seed when it is at least this many noise sd (measured, of the smoothed image) below the pass to a deeper one.")] public double SeedDepth { get; init; } = 5;
+        [CommandOption("--ridge-contrast <SD>"), Description("Neighbouring regions whose shared boundary rises less than this many noise sd above the brighter interior are merged (0 = never).")] public double RidgeContrast { get; init; } = 4;
+        [CommandOption("--ridge-passes <N>"), Description("Passes moving boundary pixels on a crest's flank to its far side (0 = off, the default).")] public int RidgePasses { get; init; }
+        [CommandOption("--track-seeds"), Description("Seed each frame with the previous frame's cells shrunk by --track-erosion diameters (steadier boundaries and counts on slowly moving tissue).")] public bool TrackSeeds { get; init; }
+        [CommandOption("--track-erosion <FRACTION>"), Description("With --track-seeds: shrink the previous cells by this fraction of the diameter.")] public double TrackErosion { get; init; } = 0.25;
         [CommandOption("--qc-every <N>"), Description("Write a QC overlay every N frames (0 = none).")] public int QcEvery { get; init; } = 10;
     }
 
@@ -28,6 +34,13 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         {
             CellDiameterUm = s.CellDiameter, FlattenDiameters = s.Flatten, SmoothFraction = s.Smooth, SeedWindowFraction = s.SeedWindow,
             BoundarySigmaPx = s.BoundarySigma, MinAreaFraction = s.MinAreaFraction, MaxAreaFactor = s.MaxAreaFactor,
+            Seeds = s.Seeds.ToLowerInvariant() switch
+            {
+                "hminima" => SeedMethod.HMinima,
+                "window" => SeedMethod.Window,
+                _ => throw new ArgumentException($"--seeds must be hminima or window (got {s.Seeds})"),
+            },
+            SeedDepthSd = s.SeedDepth, RidgeContrastSd = s.RidgeContrast, RidgePasses = s.RidgePasses, TrackSeeds = s.TrackSeeds, TrackErosionFraction = s.TrackErosion,
         }, s.PixelSize, s.FrameInterval, s.QcEvery, Environment.GetCommandLineArgs().Skip(1), p,
             s.Selection());
         if (Console.IsOutputRedirected) Go(null);

@@ -25,14 +25,22 @@ public static class SegmentJob
         double? s = info.PixelSizeUm, dt = info.FrameIntervalMin;
         var o = (options with { PixelSizeUm = s ?? 1 }).Validated();
         int frames = 0; long cells = 0;
+        var qc = new List<FrameQc>();
         OutputFolder.Write(outDir, dir =>
         {
+            int[]? previous = null;
             var pages = movie.Frames().Select(f =>
             {
-                var labels = JunctionSegmenter.Segment(f.Labels, f.Width, f.Height, o);
-                if (labels.Max() > 65535) throw new InputException(input, $"frame {f.Index + 1} has more than 65535 cells");
-                if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"));
-                frames++; cells += labels.Max();
+                var r = JunctionSegmenter.SegmentFrame(f.Labels, f.Width, f.Height, o, previous);
+                var labels = r.Labels;
+                previous = labels;
+                int n = labels.Max();
+                if (n > 65535) throw new InputException(input, $"frame {f.Index + 1} has more than 65535 cells");
+                if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"), r.Seeds);
+                int inCells = 0;
+                foreach (var v in labels) if (v > 0) inCells++;
+                qc.Add(new FrameQc(f.Index, n, inCells / (double)labels.Length, r.Seeds.Length, r.RidgelessMerges, r.FragmentMerges, r.NoiseSd));
+                frames++; cells += n;
                 progress?.Report((frames, info.FrameCount));
                 return labels;
             });
@@ -41,13 +49,42 @@ public static class SegmentJob
             var opts = JsonSerializer.SerializeToNode(o)!;
             var prov = Provenance.Describe("segment", movie.Files, opts, commandLine);
             prov["movie"] = Provenance.Movie(info, s, info.PixelSizeSource, dt, info.FrameIntervalSource);
+            var warnings = CountJumps(qc, CountJumpFraction);
+            foreach (var w in warnings) Console.Error.WriteLine($"warning: {w}");
+            var perFrame = new JsonArray();
+            foreach (var q in qc)
+                perFrame.Add(new JsonObject
+                {
+                    ["frame"] = q.Frame, ["cells"] = q.Cells, ["cell_area_fraction"] = Math.Round(q.CellAreaFraction, 4), ["seeds"] = q.Seeds,
+                    ["ridgeless_merges"] = q.RidgelessMerges, ["fragment_merges"] = q.FragmentMerges, ["noise_sd"] = Math.Round(q.NoiseSd, 5),
+                });
+            prov["qc"] = new JsonObject { ["frames"] = perFrame, ["warnings"] = new JsonArray(warnings.Select(w => (JsonNode)JsonValue.Create(w)!).ToArray()) };
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
         });
         return (frames, frames > 0 ? cells / (double)frames : 0);
     }
 
-    /// <summary>Raw image with the segmented boundaries drawn in colour.</summary>
-    public static void Overlay(int[] raw, int[] labels, int w, int h, string path)
+    /// <summary>Relative change of the cell count between consecutive frames above which <c>segment</c> warns (docs/segmentation.md#qc).</summary>
+    public const double CountJumpFraction = 0.1;
+
+    /// <summary>QC of one segmented frame (run.json "qc").</summary>
+    public readonly record struct FrameQc(int Frame, int Cells, double CellAreaFraction, int Seeds, int RidgelessMerges, int FragmentMerges, double NoiseSd);
+
+    /// <summary>One warning per pair of consecutive frames whose cell counts differ by more than <paramref name="fraction"/> of the larger.</summary>
+    public static List<string> CountJumps(IReadOnlyList<FrameQc> qc, double fraction)
+    {
+        var w = new List<string>();
+        for (int i = 1; i < qc.Count; i++)
+        {
+            int a = qc[i - 1].Cells, b = qc[i].Cells;
+            if (Math.Abs(b - a) > fraction * Math.Max(a, b))
+                w.Add($"cell count jumps from {a} (frame {qc[i - 1].Frame + 1}) to {b} (frame {qc[i].Frame + 1}): check the QC overlays, --cell-diameter, --seed-depth");
+        }
+        return w;
+    }
+
+    /// <summary>Raw image with the segmented boundaries drawn in colour (orange) and the seeds (green).</summary>
+    public static void Overlay(int[] raw, int[] labels, int w, int h, string path, int[]? seeds = null)
     {
         int min = raw.Min(), max = Math.Max(raw.Max(), min + 1);
         var bgr = new byte[w * h * 3];
@@ -59,6 +96,8 @@ public static class SegmentJob
                 bool edge = (x + 1 < w && labels[i + 1] != labels[i]) || (y + 1 < h && labels[i + w] != labels[i]);
                 bgr[3 * i] = edge ? (byte)0 : v; bgr[3 * i + 1] = edge ? (byte)200 : v; bgr[3 * i + 2] = edge ? (byte)255 : v;
             }
+        if (seeds is not null)
+            foreach (var p in seeds) { bgr[3 * p] = 0; bgr[3 * p + 1] = 255; bgr[3 * p + 2] = 0; }
         using var img = new Mat(h, w, MatType.CV_8UC3);
         System.Runtime.InteropServices.Marshal.Copy(bgr, 0, img.Data, bgr.Length);
         Cv2.ImWrite(path, img);

@@ -24,6 +24,23 @@ public sealed record SegmentOptions
     /// <summary>Regions larger than this many expected cell areas are not cells (background, failed splits) and are dropped.</summary>
     public double MaxAreaFactor { get; init; } = 6;
 
+    /// <summary>How seeds are chosen: h-minima of the smoothed signal with a noise-based depth (default) or the minima over
+    /// a window of <see cref="SeedWindowFraction"/> diameters (the original method).</summary>
+    public SeedMethod Seeds { get; init; } = SeedMethod.HMinima;
+    /// <summary>h-minima seeds: a minimum of the seed image is a seed when its dynamic is at least this many noise sd of
+    /// the seed image (measured noise of the flattened image, reduced by the smoothing).</summary>
+    public double SeedDepthSd { get; init; } = 5;
+    /// <summary>Neighbouring regions whose shared boundary rises less than this many noise sd (of the boundary image)
+    /// above the brighter region's median are merged: the boundary has no ridge.</summary>
+    public double RidgeContrastSd { get; init; } = 4;
+    /// <summary>Passes of the ridge placement of boundaries (default 0 = off; measured to lower SEG on the render family,
+    /// docs/segmentation.md#what-did-not-help): boundary pixels on the flank of a crest move to the crest's far side.</summary>
+    public int RidgePasses { get; init; }
+    /// <summary>Use the previous frame's cells, shrunk by <see cref="TrackErosionFraction"/> diameters, as seeds for the next frame.</summary>
+    public bool TrackSeeds { get; init; }
+    /// <summary>With <see cref="TrackSeeds"/>: the previous frame's cells are shrunk by this fraction of the diameter before seeding.</summary>
+    public double TrackErosionFraction { get; init; } = 0.25;
+
     /// <summary>Expected cell diameter in pixels: CellDiameterUm / PixelSizeUm.</summary>
     public double DiameterPx => CellDiameterUm / PixelSizeUm;
 
@@ -35,146 +52,163 @@ public sealed record SegmentOptions
         if (!(FlattenDiameters > 0) || !(SmoothFraction > 0) || !(SeedWindowFraction > 0) || !(BoundarySigmaPx > 0))
             throw new ArgumentException("--flatten, --smooth, --seed-window and --boundary-sigma must be > 0");
         if (MinAreaFraction < 0 || !(MaxAreaFactor > 1)) throw new ArgumentException("--min-area-fraction must be >= 0 and --max-area-factor > 1");
+        if (!(SeedDepthSd > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepthSd})");
+        if (!(RidgeContrastSd >= 0)) throw new ArgumentException($"--ridge-contrast must be >= 0 noise sd (got {RidgeContrastSd})");
+        if (RidgePasses is < 0 or > 50) throw new ArgumentException($"--ridge-passes must be in 0..50 (got {RidgePasses})");
+        if (!(TrackErosionFraction is >= 0 and < 0.5)) throw new ArgumentException($"--track-erosion must be in [0, 0.5) (got {TrackErosionFraction})");
         return this;
     }
 }
 
+/// <summary>How the segmentation chooses one seed per cell.</summary>
+public enum SeedMethod
+{
+    /// <summary>Minima of the smoothed signal deeper than a noise-based depth (h-minima; docs/segmentation.md#method).</summary>
+    HMinima,
+    /// <summary>Pixels equal to the minimum over a window of <see cref="SegmentOptions.SeedWindowFraction"/> diameters and below the median.</summary>
+    Window,
+}
+
+/// <summary>One segmented frame with what the QC needs.</summary>
+/// <param name="Labels">Row-major labels, 0 = no cell, cells 1..N.</param>
+/// <param name="Seeds">Pixel indices of the seeds.</param>
+/// <param name="NoiseSd">Measured noise sd of the flattened image (relative units).</param>
+/// <param name="RidgelessMerges">Merges across boundaries without a ridge.</param>
+/// <param name="FragmentMerges">Fragments merged into a neighbour.</param>
+/// <param name="RidgeMoves">Boundary pixels moved onto the ridge.</param>
+public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, int RidgelessMerges, int FragmentMerges, int RidgeMoves);
+
 /// <summary>
-/// Segments one frame of a junction or membrane marker into cells with OpenCV: flatten the background (divide by a wide
-/// Gaussian blur), smooth, take seeds from the regional minima of the signal (cell interiors are dark) within a window of
-/// half a cell diameter, grow them by marker-controlled watershed, give watershed lines to a neighbouring cell, merge
-/// fragments below a minimum area, drop regions too large to be a cell, and relabel 1..N.
+/// Segments one frame of a junction or membrane marker into cells (docs/segmentation.md#method): flatten the background
+/// (divide by a wide Gaussian blur), measure the noise, smooth, take h-minima seeds deeper than a noise-based depth,
+/// flood them by marker-controlled watershed, merge regions whose shared boundary has no ridge and fragments below a
+/// minimum area, place every boundary on the crest of the smoothed junction signal, drop regions too large to be a cell,
+/// and relabel 1..N.
 /// </summary>
 /// <remarks>Marker-controlled watershed: Beucher S. and Meyer F. (1993), "The morphological approach to segmentation:
 /// the watershed transformation", in Mathematical Morphology in Image Processing, Marcel Dekker, 433-481; flooding by
-/// level as in Meyer F. (1991), "Un algorithme optimal de ligne de partage des eaux", Proc. 8e Congrès AFCET, 847-857.
-/// OpenCV does the background flattening, smoothing, minimum filter and seed components.</remarks>
+/// level as in Meyer F. (1991), "Un algorithme optimal de ligne de partage des eaux", Proc. 8e Congrès AFCET, 847-857;
+/// noise: Immerkær J. (1996), Computer Vision and Image Understanding 64:300-302; dynamics: Grimaud M. (1992), Proc. SPIE
+/// 1769:292-305. OpenCV does the blurs, the window minimum and the distance transform.</remarks>
 public static class JunctionSegmenter
 {
     /// <summary>Segments the row-major intensity frame <paramref name="raw"/> (<paramref name="width"/> x <paramref name="height"/>) and returns its labels, row-major, 0 = no cell, cells numbered 1..N.</summary>
-    public static int[] Segment(int[] raw, int width, int height, SegmentOptions o)
+    public static int[] Segment(int[] raw, int width, int height, SegmentOptions o, int[]? previous = null)
+        => SegmentFrame(raw, width, height, o, previous).Labels;
+
+    /// <summary>Segments one frame (see <see cref="JunctionSegmenter"/>); <paramref name="previous"/> (the previous frame's
+    /// labels) seeds the cells when <see cref="SegmentOptions.TrackSeeds"/> is set.</summary>
+    public static SegmentedFrame SegmentFrame(int[] raw, int width, int height, SegmentOptions o, int[]? previous = null)
     {
         double d = o.DiameterPx;
-        using var img = new Mat(height, width, MatType.CV_32FC1);
         var f = new float[raw.Length];
         for (int i = 0; i < raw.Length; i++) f[i] = raw[i];
-        System.Runtime.InteropServices.Marshal.Copy(f, 0, img.Data, f.Length);
+        using var img = FromArray(f, width, height);
         // Flatten: divide by the wide blur (uneven illumination and bleaching are multiplicative).
         using var wide = new Mat();
         Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * d);
         using var flat = new Mat();
         Cv2.Divide(img, wide, flat);
-        using var smooth = new Mat();
-        Cv2.GaussianBlur(flat, smooth, new Size(0, 0), Math.Max(0.5, o.SmoothFraction * d));
-        // Seeds: pixels equal to the minimum over a (half-diameter) window, below the median level, grouped into components.
-        int win = Math.Max(3, (int)Math.Round(o.SeedWindowFraction * d)) | 1;
-        using var kernel = Cv2.GetStructuringElement(MorphShapes.Ellipse, new Size(win, win));
-        using var eroded = new Mat();
-        Cv2.Erode(smooth, eroded, kernel);
-        var sm = new float[raw.Length]; var er = new float[raw.Length];
-        System.Runtime.InteropServices.Marshal.Copy(smooth.Data, sm, 0, sm.Length);
-        System.Runtime.InteropServices.Marshal.Copy(eroded.Data, er, 0, er.Length);
-        var sorted = (float[])sm.Clone(); Array.Sort(sorted);
-        float median = sorted[sorted.Length / 2];
-        using var seedMask = new Mat(height, width, MatType.CV_8UC1, Scalar.All(0));
-        var seedBytes = new byte[raw.Length];
-        for (int i = 0; i < sm.Length; i++) if (sm[i] <= er[i] && sm[i] < median) seedBytes[i] = 255;
-        System.Runtime.InteropServices.Marshal.Copy(seedBytes, 0, seedMask.Data, seedBytes.Length);
-        using var markers = new Mat();
-        int n = Cv2.ConnectedComponents(seedMask, markers, PixelConnectivity.Connectivity8, MatType.CV_32S);
+        // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count, 1/sqrt(12)),
+        // divided by the median background level (docs/segmentation.md#noise-level).
+        var wideArr = ToArray(wide);
+        Array.Sort(wideArr);
+        double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
+        double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
+        var smooth = Blurred(flat, seedSigma);
+        var fine = Blurred(flat, o.BoundarySigmaPx);
         var labels = new int[raw.Length];
-        System.Runtime.InteropServices.Marshal.Copy(markers.Data, labels, 0, labels.Length);
-        // Flood by intensity (Meyer's priority flood) on a lightly smoothed image, so boundaries follow the junction
-        // ridges closely (the heavier smoothing above only serves to find one seed per cell). OpenCV's cv::watershed grows
-        // regions by colour similarity between neighbours, which lets one region run along the bright ridges; flooding
-        // by level does not.
-        using var fine = new Mat();
-        Cv2.GaussianBlur(flat, fine, new Size(0, 0), o.BoundarySigmaPx);
-        var level = new float[raw.Length];
-        System.Runtime.InteropServices.Marshal.Copy(fine.Data, level, 0, level.Length);
-        Flood(level, labels, width, height);
-        MergeSmall(labels, width, height, (int)(o.MinAreaFraction * Math.PI * d * d / 4));
-        DropLarge(labels, o.MaxAreaFactor * Math.PI * d * d / 4);
-        return Relabel(labels);
+        int next = 0;
+        bool[]? free = null;
+        if (o.TrackSeeds && previous is not null && previous.Length == raw.Length) { free = TrackedCores(previous, labels, width, height, o.TrackErosionFraction * d); next = labels.Max(); }
+        var seeds = o.Seeds == SeedMethod.Window
+            ? WindowSeeds(smooth, width, height, o, d)
+            : Watershed.HMinima(smooth, width, height, o.SeedDepthSd * NoiseLevel.AfterBlur(noise, seedSigma), free);
+        foreach (var p in seeds) if (labels[p] == 0) labels[p] = ++next;
+        if (o.Seeds == SeedMethod.Window) GroupSeeds(labels, width, height);
+        Watershed.Flood(fine, labels, width, height);
+        double area = Math.PI * d * d / 4;
+        int ridgeless = Regions.MergeRidgeless(labels, fine, width, height, o.RidgeContrastSd * NoiseLevel.AfterBlur(noise, o.BoundarySigmaPx));
+        int fragments = Regions.MergeSmall(labels, width, height, (int)(o.MinAreaFraction * area));
+        int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
+        Regions.DropLarge(labels, o.MaxAreaFactor * area);
+        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves);
     }
 
-    /// <summary>
-    /// Marker-controlled watershed by flooding (Meyer 1991): every unlabelled pixel joins the labelled region from which
-    /// the flood reaches it first, pixels being taken in increasing order of <paramref name="level"/>.
-    /// </summary>
-    public static void Flood(float[] level, int[] labels, int w, int h)
+    /// <summary>Writes the previous frame's cells shrunk by <paramref name="erodePx"/> into <paramref name="labels"/>; returns where new seeds may go (outside every shrunk cell).</summary>
+    private static bool[] TrackedCores(int[] previous, int[] labels, int w, int h, double erodePx)
     {
-        var queue = new PriorityQueue<int, (float, long)>();
-        long order = 0;
-        var queued = new bool[labels.Length];
-        void Push(int p) { if (!queued[p] && labels[p] == 0) { queued[p] = true; queue.Enqueue(p, (level[p], order++)); } }
-        for (int p = 0; p < labels.Length; p++)
-        {
-            if (labels[p] <= 0) continue;
-            int x = p % w;
-            if (x > 0) Push(p - 1);
-            if (x < w - 1) Push(p + 1);
-            if (p >= w) Push(p - w);
-            if (p + w < labels.Length) Push(p + w);
-        }
-        while (queue.TryDequeue(out int p, out _))
-        {
-            int x = p % w, lab = 0;
-            // Take the label of a labelled 4-neighbour (the first found; the flood order decides the boundaries).
-            if (x > 0 && labels[p - 1] > 0) lab = labels[p - 1];
-            else if (x < w - 1 && labels[p + 1] > 0) lab = labels[p + 1];
-            else if (p >= w && labels[p - w] > 0) lab = labels[p - w];
-            else if (p + w < labels.Length && labels[p + w] > 0) lab = labels[p + w];
-            labels[p] = lab;
-            if (x > 0) Push(p - 1);
-            if (x < w - 1) Push(p + 1);
-            if (p >= w) Push(p - w);
-            if (p + w < labels.Length) Push(p + w);
-        }
-    }
-
-    /// <summary>Regions below <paramref name="minArea"/> px join the neighbour they share the longest border with.</summary>
-    private static void MergeSmall(int[] l, int w, int h, int minArea)
-    {
-        var area = new Dictionary<int, int>();
-        foreach (var v in l) if (v > 0) area[v] = area.GetValueOrDefault(v) + 1;
-        var small = area.Where(kv => kv.Value < minArea).Select(kv => kv.Key).ToHashSet();
-        if (small.Count == 0) return;
-        var border = new Dictionary<(int, int), int>();
+        var edge = new byte[previous.Length];
         for (int y = 0; y < h; y++)
             for (int x = 0; x < w; x++)
             {
-                int a = l[y * w + x];
-                if (!small.Contains(a)) continue;
-                if (x + 1 < w && l[y * w + x + 1] != a && l[y * w + x + 1] > 0) border[(a, l[y * w + x + 1])] = border.GetValueOrDefault((a, l[y * w + x + 1])) + 1;
-                if (y + 1 < h && l[(y + 1) * w + x] != a && l[(y + 1) * w + x] > 0) border[(a, l[(y + 1) * w + x])] = border.GetValueOrDefault((a, l[(y + 1) * w + x])) + 1;
-                if (x > 0 && l[y * w + x - 1] != a && l[y * w + x - 1] > 0) border[(a, l[y * w + x - 1])] = border.GetValueOrDefault((a, l[y * w + x - 1])) + 1;
-                if (y > 0 && l[(y - 1) * w + x] != a && l[(y - 1) * w + x] > 0) border[(a, l[(y - 1) * w + x])] = border.GetValueOrDefault((a, l[(y - 1) * w + x])) + 1;
+                int i = y * w + x, l = previous[i];
+                bool b = l == 0 || (x + 1 < w && previous[i + 1] != l) || (y + 1 < h && previous[i + w] != l) || (x > 0 && previous[i - 1] != l) || (y > 0 && previous[i - w] != l);
+                edge[i] = b ? (byte)0 : (byte)255;
             }
-        var target = border.GroupBy(kv => kv.Key.Item1).ToDictionary(g => g.Key, g => g.OrderByDescending(kv => kv.Value).ThenBy(kv => kv.Key.Item2).First().Key.Item2);
-        for (int i = 0; i < l.Length; i++) if (small.Contains(l[i]) && target.TryGetValue(l[i], out var t)) l[i] = t;
-    }
-
-    /// <summary>Regions larger than <paramref name="maxArea"/> px are not cells: set to background.</summary>
-    private static void DropLarge(int[] l, double maxArea)
-    {
-        var area = new Dictionary<int, int>();
-        foreach (var v in l) if (v > 0) area[v] = area.GetValueOrDefault(v) + 1;
-        var drop = area.Where(kv => kv.Value > maxArea).Select(kv => kv.Key).ToHashSet();
-        if (drop.Count == 0) return;
-        for (int i = 0; i < l.Length; i++) if (drop.Contains(l[i])) l[i] = 0;
-    }
-
-    private static int[] Relabel(int[] l)
-    {
-        var map = new Dictionary<int, int>();
-        var r = new int[l.Length];
-        for (int i = 0; i < l.Length; i++)
+        using var m = new Mat(h, w, MatType.CV_8UC1);
+        System.Runtime.InteropServices.Marshal.Copy(edge, 0, m.Data, edge.Length);
+        using var dist = new Mat();
+        Cv2.DistanceTransform(m, dist, DistanceTypes.L2, DistanceTransformMasks.Precise);
+        var dt = ToArray(dist);
+        var free = new bool[previous.Length];
+        for (int i = 0; i < previous.Length; i++)
         {
-            if (l[i] <= 0) continue;
-            if (!map.TryGetValue(l[i], out var v)) map[l[i]] = v = map.Count + 1;
-            r[i] = v;
+            if (previous[i] > 0 && dt[i] > erodePx) labels[i] = previous[i];
+            else free[i] = true;
         }
-        return r;
+        return free;
+    }
+
+    /// <summary>The original seeds: pixels equal to the minimum over an elliptical window and below the median level.</summary>
+    private static List<int> WindowSeeds(float[] sm, int width, int height, SegmentOptions o, double d)
+    {
+        int win = Math.Max(3, (int)Math.Round(o.SeedWindowFraction * d)) | 1;
+        using var smooth = FromArray(sm, width, height);
+        using var kernel = Cv2.GetStructuringElement(MorphShapes.Ellipse, new Size(win, win));
+        using var eroded = new Mat();
+        Cv2.Erode(smooth, eroded, kernel);
+        var er = ToArray(eroded);
+        var sorted = (float[])sm.Clone(); Array.Sort(sorted);
+        float median = sorted[sorted.Length / 2];
+        var seeds = new List<int>();
+        for (int i = 0; i < sm.Length; i++) if (sm[i] <= er[i] && sm[i] < median) seeds.Add(i);
+        return seeds;
+    }
+
+    /// <summary>Gives 8-connected seed pixels one label (OpenCV connected components).</summary>
+    private static void GroupSeeds(int[] labels, int width, int height)
+    {
+        var bytes = new byte[labels.Length];
+        for (int i = 0; i < labels.Length; i++) if (labels[i] > 0) bytes[i] = 255;
+        using var mask = new Mat(height, width, MatType.CV_8UC1);
+        System.Runtime.InteropServices.Marshal.Copy(bytes, 0, mask.Data, bytes.Length);
+        using var markers = new Mat();
+        Cv2.ConnectedComponents(mask, markers, PixelConnectivity.Connectivity8, MatType.CV_32S);
+        System.Runtime.InteropServices.Marshal.Copy(markers.Data, labels, 0, labels.Length);
+    }
+
+    /// <summary>Marker-controlled watershed by flooding (see <see cref="Watershed.Flood"/>).</summary>
+    public static void Flood(float[] level, int[] labels, int w, int h) => Watershed.Flood(level, labels, w, h);
+
+    private static Mat FromArray(float[] f, int w, int h)
+    {
+        var m = new Mat(h, w, MatType.CV_32FC1);
+        System.Runtime.InteropServices.Marshal.Copy(f, 0, m.Data, f.Length);
+        return m;
+    }
+
+    private static float[] ToArray(Mat m)
+    {
+        var f = new float[m.Rows * m.Cols];
+        System.Runtime.InteropServices.Marshal.Copy(m.Data, f, 0, f.Length);
+        return f;
+    }
+
+    private static float[] Blurred(Mat src, double sigma)
+    {
+        using var b = new Mat();
+        Cv2.GaussianBlur(src, b, new Size(0, 0), sigma);
+        return ToArray(b);
     }
 }

@@ -60,9 +60,11 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         var onTruth = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, truth), a).Pooled.Anisotropy.Value;
         var onSeg = MovieAnalyzer.Run(new MemoryMovie(m.Width, m.Height, seg), a).Pooled.Anisotropy.Value;
         log.WriteLine($"SEG {score.Seg:F3}, F1 {score.F1:F3} ({score.Matches}/{score.ReferenceObjects}); anisotropy on truth labels {onTruth:F3}, on segmented {onSeg:F3} ({100 * (onSeg / onTruth - 1):+0.0;-0.0}%)");
-        Assert.True(score.Seg >= 0.85, $"SEG {score.Seg}");
+        // Issue 17's targets: SEG >= 0.88 and F1 >= 0.95 (Ulman et al. 2017 definitions), anisotropy within 10 % of the
+        // truth labels' (measured 0.968, 1.000 and -0.4 %).
+        Assert.True(score.Seg >= 0.88, $"SEG {score.Seg}");
         Assert.True(score.F1 >= 0.95, $"F1 {score.F1}");
-        Assert.InRange(onSeg / onTruth, 0.8, 1.2);
+        Assert.InRange(onSeg / onTruth, 0.9, 1.1);
     }
 
     [Fact]
@@ -101,6 +103,11 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
             var s = Support.Cli.Run("segment", input, "--out", d[name], "--cell-diameter", "8.9");
             Assert.True(s.ExitCode == 0, s.Stderr);
             Assert.True(File.Exists(d[$"{name}/qc-frame-000.png"]));
+            // QC (docs/segmentation.md#qc): one entry per frame with its count and the fraction of area in cells; a
+            // confluent monolayer is all cells (its truth labels have no background).
+            var qc = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(d[$"{name}/run.json"]))!["qc"]!;
+            Assert.Equal(3, qc["frames"]!.AsArray().Count);
+            Assert.All(qc["frames"]!.AsArray(), f => Assert.InRange(f!["cell_area_fraction"]!.GetValue<double>(), 0.95, 1.0));
             var sc = Support.Cli.Run("score", d[$"{name}/labels.tif"], d["m/labels.tif"], "--json");
             var j = System.Text.Json.Nodes.JsonNode.Parse(sc.Stdout)!;
             log.WriteLine($"{name}: SEG {j["seg"]}, F1 {j["f1"]}");

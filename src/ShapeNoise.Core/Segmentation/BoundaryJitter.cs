@@ -1,0 +1,84 @@
+namespace ShapeNoise.Segmentation;
+
+/// <summary>Frame-to-frame jitter of segmented boundaries on a static tissue (docs/segmentation.md#boundary-jitter).</summary>
+/// <param name="RmsPx">rms over cells, rays and frames of r_k(t) − mean over t of r_k(t).</param>
+/// <param name="FrameToFrameRmsPx">rms over cells, rays and consecutive frames of r_k(t+1) − r_k(t).</param>
+/// <param name="Cells">Reference cells measured (inside the image and matched in every frame).</param>
+/// <param name="Frames">Frames.</param>
+public readonly record struct BoundaryJitter(double RmsPx, double FrameToFrameRmsPx, int Cells, int Frames)
+{
+    /// <summary>
+    /// r_k(t): distance from the reference cell's centroid along ray k (angle 2πk/M) to where the ray first leaves the
+    /// pixels of the segmented object matched to that cell in frame t (the object covering more than half of it, the
+    /// SEG matching rule of Ulman et al. 2017); pixels are unit squares centred on integer coordinates.
+    /// RmsPx = sqrt(mean (r_k(t) − r̄_k)²), FrameToFrameRmsPx = sqrt(mean (r_k(t+1) − r_k(t))²) over reference cells
+    /// at least 2 px from the image border that are matched in every frame.
+    /// </summary>
+    /// <remarks>Matching rule: Ulman V. et al. (2017), Nature Methods 14:1141-1152. The radial description of a
+    /// boundary is the one the shape analysis uses (docs/measures.md#definitions).</remarks>
+    public static BoundaryJitter Measure(int[] reference, IReadOnlyList<int[]> segmented, int w, int h, int rays = 32)
+    {
+        int n = segmented.Count;
+        var cells = new Dictionary<int, (double Sx, double Sy, int N, int X0, int Y0, int X1, int Y1)>();
+        for (int y = 0; y < h; y++)
+            for (int x = 0; x < w; x++)
+            {
+                int l = reference[y * w + x];
+                if (l == 0) continue;
+                var c = cells.TryGetValue(l, out var v) ? v : (0, 0, 0, x, y, x, y);
+                cells[l] = (c.Sx + x, c.Sy + y, c.N + 1, Math.Min(c.X0, x), Math.Min(c.Y0, y), Math.Max(c.X1, x), Math.Max(c.Y1, y));
+            }
+        double sumDev = 0, sumStep = 0; long nDev = 0, nStep = 0; int used = 0;
+        var r = new double[n * rays];
+        foreach (var (label, c) in cells)
+        {
+            if (c.X0 < 2 || c.Y0 < 2 || c.X1 > w - 3 || c.Y1 > h - 3) continue;
+            double cx = c.Sx / c.N, cy = c.Sy / c.N, maxR = 2.0 * (c.X1 - c.X0 + c.Y1 - c.Y0 + 2);
+            bool ok = true;
+            for (int t = 0; t < n && ok; t++)
+            {
+                int s = Match(reference, segmented[t], label, c.N, c.X0, c.Y0, c.X1, c.Y1, w);
+                if (s == 0) { ok = false; break; }
+                for (int k = 0; k < rays; k++) r[t * rays + k] = Exit(segmented[t], s, w, h, cx, cy, 2 * Math.PI * k / rays, maxR);
+            }
+            if (!ok) continue;
+            used++;
+            for (int k = 0; k < rays; k++)
+            {
+                double mean = 0;
+                for (int t = 0; t < n; t++) mean += r[t * rays + k];
+                mean /= n;
+                for (int t = 0; t < n; t++) { double d = r[t * rays + k] - mean; sumDev += d * d; nDev++; }
+                for (int t = 0; t + 1 < n; t++) { double d = r[(t + 1) * rays + k] - r[t * rays + k]; sumStep += d * d; nStep++; }
+            }
+        }
+        return new BoundaryJitter(nDev > 0 ? Math.Sqrt(sumDev / nDev) : double.NaN, nStep > 0 ? Math.Sqrt(sumStep / nStep) : double.NaN, used, n);
+    }
+
+    /// <summary>The segmented label covering more than half of reference cell <paramref name="label"/>, or 0.</summary>
+    private static int Match(int[] reference, int[] seg, int label, int area, int x0, int y0, int x1, int y1, int w)
+    {
+        var count = new Dictionary<int, int>();
+        for (int y = y0; y <= y1; y++)
+            for (int x = x0; x <= x1; x++)
+            {
+                int i = y * w + x;
+                if (reference[i] == label && seg[i] != 0) count[seg[i]] = count.GetValueOrDefault(seg[i]) + 1;
+            }
+        foreach (var (s, k) in count) if (2 * k > area) return s;
+        return 0;
+    }
+
+    /// <summary>Distance along the ray from (cx, cy) at angle <paramref name="a"/> to the first point outside object <paramref name="s"/> (steps of 1/64 px).</summary>
+    private static double Exit(int[] seg, int s, int w, int h, double cx, double cy, double a, double maxR)
+    {
+        double dx = Math.Cos(a), dy = Math.Sin(a);
+        const double step = 1.0 / 64;
+        for (double d = 0; d < maxR; d += step)
+        {
+            int x = (int)Math.Floor(cx + d * dx + 0.5), y = (int)Math.Floor(cy + d * dy + 0.5);
+            if (x < 0 || y < 0 || x >= w || y >= h || seg[y * w + x] != s) return d;
+        }
+        return maxR;
+    }
+}

@@ -1,0 +1,91 @@
+using ShapeNoise.Imaging.Segmentation;
+using ShapeNoise.Segmentation;
+using ShapeNoise.Synthesis;
+
+namespace ShapeNoise.Tests.Segmentation;
+
+/// <summary>One member of the render family (docs/segmentation.md#render-family): a monolayer of cells of area-equivalent
+/// diameter <paramref name="DiameterPx"/> on a canvas of about <paramref name="CanvasPx"/> px, rendered with the physical
+/// junction renderer.</summary>
+public sealed record RenderMember(string Name, double DiameterPx, double Snr, double PsfPx, double LineWidthPx,
+    double Illumination = 0.3, double Bleach = 0.3, double Haze = 0.2, double Cytoplasm = 0.1, int CanvasPx = 200, int Frames = 4)
+{
+    public override string ToString() => $"{Name} (D {DiameterPx:0.#} px, SNR {Snr:0.#}, PSF {PsfPx:0.0#} px, line {LineWidthPx:0.#} px, haze {Haze:0.##}, cyto {Cytoplasm:0.##})";
+
+    /// <summary>Whether the acceptance thresholds apply (issue 17: SNR >= 5 and D >= 8 px).</summary>
+    public bool Asserted => Snr >= 5 && DiameterPx >= 8;
+
+    public MonolayerMovie Tissue(int seed, int? frames = null)
+    {
+        double area = Math.PI * DiameterPx * DiameterPx / 4;
+        int cells = (int)Math.Round(CanvasPx * CanvasPx / area);
+        return MonolayerMovie.Generate(new MonolayerMovieOptions { Cells = cells, Frames = frames ?? Frames, CellAreaPx2 = area, Seed = seed });
+    }
+
+    public RawRenderOptions Render(int seed) => new RawRenderOptions
+    {
+        Snr = Snr, PsfSigmaPx = PsfPx, LineWidthPx = LineWidthPx, Illumination = Illumination, Bleach = Bleach, Haze = Haze, Cytoplasm = Cytoplasm, Seed = seed,
+    }.Validated();
+}
+
+/// <summary>Scores of one member: SEG and F1 pooled over frames, and the jitter on a static copy.</summary>
+public readonly record struct MemberScore(SegmentationScore Score, BoundaryJitter Jitter);
+
+public static class RenderFamily
+{
+    /// <summary>The CI family: six members spanning line width, PSF, SNR, cell size, haze and cytoplasm.</summary>
+    public static readonly RenderMember[] Ci =
+    [
+        new("base", 14, 8, 1.2, 1),
+        new("dim-wide", 14, 5, 2.0, 2, Haze: 0.4),
+        new("small", 8, 8, 1.0, 1),
+        new("large-thick", 24, 6, 2.5, 3, Haze: 0.5, Cytoplasm: 0.2),
+        new("sharp-cyto", 10, 20, 0.8, 1.5, Cytoplasm: 0.3, Illumination: 0.4),
+        new("hard", 7.2, 3, 1.5, 1),
+    ];
+
+    /// <summary>Held-back seeds: never used while choosing methods or defaults (docs/segmentation.md#render-family).</summary>
+    public static readonly int[] HeldBackSeeds = [900, 901, 902, 903, 904, 905];
+
+    /// <summary>Segments every frame of the member's movie (seeded by <paramref name="seed"/>) and pools SEG/F1.</summary>
+    public static (SegmentationScore Score, List<int[]> Truth, List<int[]> Segmented, int W, int H) Run(RenderMember m, int seed, SegmentOptions? options = null)
+    {
+        var movie = m.Tissue(seed);
+        var truth = movie.Frames().ToList();
+        var ro = m.Render(seed + 7);
+        var rng = new Random(ro.Seed);
+        var o = options ?? new SegmentOptions();
+        o = o with { CellDiameterUm = m.DiameterPx, PixelSizeUm = 1 };
+        var seg = new List<int[]>(); var sums = new List<SegmentationScore.Sums>();
+        int[]? previous = null;
+        for (int t = 0; t < truth.Count; t++)
+        {
+            var raw = JunctionRenderer.Render(truth[t], movie.Width, movie.Height, t, truth.Count, ro, rng);
+            var s = JunctionSegmenter.Segment(raw, movie.Width, movie.Height, o, previous);
+            previous = s;
+            seg.Add(s);
+            sums.Add(SegmentationScore.Accumulate(truth[t], s));
+        }
+        return (SegmentationScore.Pool(sums), truth, seg, movie.Width, movie.Height);
+    }
+
+    /// <summary>Boundary jitter: the member's first tissue frame held still, rendered <paramref name="frames"/> times with fresh noise and no bleaching.</summary>
+    public static BoundaryJitter Jitter(RenderMember m, int seed, int frames = 6, SegmentOptions? options = null)
+    {
+        var movie = m.Tissue(seed, 2);
+        var truth = movie.Frames().First();
+        var ro = m.Render(seed + 7) with { Bleach = 0 };
+        var rng = new Random(ro.Seed);
+        var o = (options ?? new SegmentOptions()) with { CellDiameterUm = m.DiameterPx, PixelSizeUm = 1 };
+        var seg = new List<int[]>();
+        int[]? previous = null;
+        for (int t = 0; t < frames; t++)
+        {
+            var raw = JunctionRenderer.Render(truth, movie.Width, movie.Height, t, frames, ro, rng);
+            var s = JunctionSegmenter.Segment(raw, movie.Width, movie.Height, o, previous);
+            previous = s;
+            seg.Add(s);
+        }
+        return BoundaryJitter.Measure(truth, seg, movie.Width, movie.Height);
+    }
+}

@@ -1,0 +1,62 @@
+using ShapeNoise.Imaging.Segmentation;
+using Xunit.Abstractions;
+
+namespace ShapeNoise.Tests.Segmentation;
+
+/// <summary>The full table of docs/segmentation.md#render-family: opt-in (SHAPENOISE_SEG_TABLE=1 or =tune), minutes long.</summary>
+public class RenderFamilyTableTests(ITestOutputHelper log)
+{
+    [Fact]
+    public void Segment_FullRenderFamily_PrintsTable()
+    {
+        var mode = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_TABLE");
+        if (string.IsNullOrEmpty(mode)) return;   // opt-in: the table takes minutes
+        // "tune" uses tuning seeds 100-105; anything else the held-back seeds 900-905.
+        var seeds = mode == "tune" ? new[] { 100, 101, 102 } : RenderFamily.HeldBackSeeds;
+        var members = mode == "ci" || mode == "tune" ? RenderFamily.Ci : Full();
+        var opts = Options();
+        log.WriteLine("| member | seed | SEG | F1 | precision | recall | jitter rms px | frame-to-frame px |");
+        log.WriteLine("| --- | --- | --- | --- | --- | --- | --- | --- |");
+        foreach (var m in members)
+        {
+            foreach (var seed in mode == "full" ? seeds : seeds.Take(mode == "tune" ? 3 : 1))
+            {
+                var (sc, _, _, _, _) = RenderFamily.Run(m, seed, opts);
+                var j = RenderFamily.Jitter(m, seed, options: opts);
+                log.WriteLine($"| {m} | {seed} | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} |");
+            }
+        }
+    }
+
+    private static SegmentOptions Options()
+    {
+        var o = new SegmentOptions();
+        var extra = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_OPTS");
+        if (string.IsNullOrEmpty(extra)) return o;
+        foreach (var kv in extra.Split(',', StringSplitOptions.RemoveEmptyEntries))
+        {
+            var p = kv.Split('=');
+            var prop = typeof(SegmentOptions).GetProperty(p[0]) ?? throw new ArgumentException(p[0]);
+            object v = prop.PropertyType == typeof(bool) ? (object)bool.Parse(p[1]) : prop.PropertyType == typeof(int) ? (object)int.Parse(p[1]) : (object)double.Parse(p[1], System.Globalization.CultureInfo.InvariantCulture);
+            var clone = o with { };
+            prop.SetValue(clone, v);
+            o = clone;
+        }
+        return o;
+    }
+
+    private static IEnumerable<RenderMember> Full()
+    {
+        foreach (var m in RenderFamily.Ci) yield return m;
+        foreach (var snr in new[] { 3.0, 5, 8, 20 })
+            foreach (var d in new[] { 7.2, 8, 14, 30 })
+                yield return new RenderMember($"grid", d, snr, 1.2, 1, CanvasPx: d >= 30 ? 300 : 200);
+        foreach (var psf in new[] { 0.8, 2.5 }) yield return new RenderMember("psf", 12, 8, psf, 1);
+        foreach (var lw in new[] { 1.0, 2, 3 }) yield return new RenderMember("line", 12, 8, 1.2, lw);
+        yield return new RenderMember("no-haze-no-cyto", 12, 8, 1.2, 1, Haze: 0, Cytoplasm: 0);
+        yield return new RenderMember("heavy-haze", 12, 8, 1.2, 1, Haze: 1.0);
+        yield return new RenderMember("cytoplasm", 12, 8, 1.2, 1, Cytoplasm: 0.4);
+        yield return new RenderMember("flat-no-bleach", 12, 8, 1.2, 1, Illumination: 0, Bleach: 0);
+        yield return new RenderMember("uneven", 12, 8, 1.2, 1, Illumination: 0.5, Bleach: 0.6);
+    }
+}
