@@ -13,7 +13,7 @@ internal sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settin
     {
         [CommandOption("--out <DIR>"), Description("Output folder (labels.tif, truth.json, run.json).")] public string Out { get; init; } = "";
         [CommandOption("--overwrite"), Description("Replace an earlier ShapeNoise output in --out (only a folder whose run.json lists every file in it).")] public bool Overwrite { get; init; }
-        [CommandOption("--cells <N>"), Description("Number of cells.")] public int Cells { get; init; } = 40;
+        [CommandOption("--cells <N>"), Description("Number of cells (default 40; with --from 5 x the tracks of the sim-params, at least 200 and at most 2000, so the re-analysis is more precise than the analysis it checks).")] public int? Cells { get; init; }
         [CommandOption("--frames <N>"), Description("Number of frames.")] public int Frames { get; init; } = 80;
         [CommandOption("--semi-major <PX>"), Description("Mean semi-major axis a0 (px).")] public double A { get; init; } = 14;
         [CommandOption("--semi-minor <PX>"), Description("Mean semi-minor axis b0 (px).")] public double B { get; init; } = 9;
@@ -33,22 +33,32 @@ internal sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settin
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
     }
 
+    /// <summary>Cells simulated from a sim-params file when --cells is not given: 5 x its tracks, at least 200 and at most 2000
+    /// (docs/sim-params.md#round-trip).</summary>
+    internal static int DefaultCellsFrom(int tracks) => Math.Clamp(5 * tracks, 200, 2000);
+
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
+        var p = s.From is { } path ? ShapeNoise.Reporting.SimulationParameters.Read(path, s.PixelSize, s.FrameInterval) : null;
         var o = new EllipseMovieOptions
         {
-            Cells = s.Cells, Frames = s.Frames, SemiMajorPx = s.A, SemiMinorPx = s.B, SigmaAlongPx = s.SigmaAlong, SigmaAcrossPx = s.SigmaAcross,
+            Cells = s.Cells ?? (p is null ? 40 : DefaultCellsFrom(p.Tracks)), Frames = s.Frames, SemiMajorPx = s.A, SemiMinorPx = s.B, SigmaAlongPx = s.SigmaAlong, SigmaAcrossPx = s.SigmaAcross,
             TauFrames = s.Tau, RotationDegPerFrame = s.Rotation, TauThetaFrames = s.TauTheta, DriftPx = s.Drift, Width = s.Width, Height = s.Height,
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Seed = s.Seed,
         };
-        if (s.From is { } from)
+        System.Text.Json.Nodes.JsonObject? fromBlock = null;
+        if (p is not null)
         {
-            var p = ShapeNoise.Reporting.SimulationParameters.Read(from, s.PixelSize, s.FrameInterval);
-            (o, double eL, double eW) = SynthJob.FromSimParams(o, p);
-            AnsiConsole.WriteLine($"from {from}: sigma_a {o.SigmaAlongPx:F3} px, sigma_b {o.SigmaAcrossPx:F3} px, tau_a {o.TauAlongFrames:F2} frames, tau_b {o.TauAcrossFrames:F2} frames, a0 {o.SemiMajorPx:F2} px, b0 {o.SemiMinorPx:F2} px, eta_a {o.NoiseAlongPx:F3} px, eta_b {o.NoiseAcrossPx:F3} px" + (double.IsFinite(eL) ? $" (render noise e2_L {eL:G3}, e2_W {eW:G3} px2)" : "").ToString(System.Globalization.CultureInfo.InvariantCulture));
+            (o, var noise) = SynthJob.FromSimParams(o, p);
+            var inv = System.Globalization.CultureInfo.InvariantCulture;
+            AnsiConsole.WriteLine(string.Create(inv, $"from {s.From}: {o.Cells} cells, sigma_a {o.SigmaAlongPx:F3} px, sigma_b {o.SigmaAcrossPx:F3} px, tau_a {o.TauAlongFrames:F2} frames, tau_b {o.TauAcrossFrames:F2} frames, a0 {o.SemiMajorPx:F2} px, b0 {o.SemiMinorPx:F2} px, eta_a {o.NoiseAlongPx:F3} px, eta_b {o.NoiseAcrossPx:F3} px")
+                + " (render noise e2 " + string.Join(", ", noise.Select(n => string.Create(inv, $"{n.Coordinate} {n.RenderPx2:G3}"))) + " px2)");
+            foreach (var n in noise)
+                if (SynthJob.ExceedWarning(n, p.PixelSizeUm) is { } w) AnsiConsole.MarkupLineInterpolated($"[yellow]warning:[/] {w}");
+            fromBlock = SynthJob.RenderNoiseJson(noise, o.PixelSizeUm);
         }
         o = o.Validated();
-        var m = SynthJob.Ellipses(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed));
+        var m = SynthJob.Ellipses(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed), fromBlock);
         AnsiConsole.MarkupLineInterpolated($"wrote [bold]{Path.Combine(s.Out, "labels.tif")}[/] ({m.Width}x{m.Height} px, {o.Frames} frames, {o.Cells} cells) and truth.json: anisotropy {m.Truth.Anisotropy:F3}, anisotropy_contour {m.Truth.AnisotropyContour:F3}");
         return 0;
     }

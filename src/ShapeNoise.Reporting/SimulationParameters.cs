@@ -194,12 +194,22 @@ public static class SimulationParameters
             return (eo["value"] as JsonValue)?.TryGetValue<double>(out var v) == true && double.IsFinite(v) ? v
                 : throw new ShapeNoise.Reading.InputException(path, $"key \"{full}\" has no finite value");
         }
+        // along / across noise: optional (no knob of its own in the ellipses; used to judge the render's own noise), NaN when absent or not ok.
+        double Optional(string coord, string key)
+            => f[coord]?[key] is JsonObject eo && (eo["status"] as JsonValue)?.TryGetValue<string>(out var st) == true && st == "ok"
+               && (eo["value"] as JsonValue)?.TryGetValue<double>(out var v) == true && double.IsFinite(v) ? v : double.NaN;
         double r0 = (o["scales"]?[$"R0_{(um ? "um" : "px")}"] as JsonValue)?.TryGetValue<double>(out var rv) == true && rv > 0 ? rv : double.NaN;
+        int tracks = (o["tracks"] as JsonValue)?.TryGetValue<int>(out var tv) == true && tv > 0 ? tv : 0;
         return new SimulationInput(
             Get("L", $"tau_{time}") / dt, Get("W", $"tau_{time}") / dt,
             Get("L", $"variance_{area}") / (p * p), Get("W", $"variance_{area}") / (p * p),
             Get("L", $"noise_variance_{area}") / (p * p), Get("W", $"noise_variance_{area}") / (p * p),
-            r0 / p, um ? p : double.NaN, min ? dt : double.NaN);
+            r0 / p, um ? p : double.NaN, min ? dt : double.NaN)
+        {
+            NoiseVarianceAlongPx2 = Optional("along", $"noise_variance_{area}") / (p * p),
+            NoiseVarianceAcrossPx2 = Optional("across", $"noise_variance_{area}") / (p * p),
+            Tracks = tracks,
+        };
     }
 
     /// <summary>The same content as TOML (nulls become nan; TOML has no null).</summary>
@@ -253,4 +263,12 @@ public static class SimulationParameters
 /// <param name="PixelSizeUm">The pixel size used to convert (um/px), NaN when the file is in px.</param>
 /// <param name="FrameIntervalMin">The frame interval used to convert (min), NaN when the file is in frames.</param>
 public sealed record SimulationInput(double TauLFrames, double TauWFrames, double SignalVarianceLPx2, double SignalVarianceWPx2,
-    double NoiseVarianceLPx2, double NoiseVarianceWPx2, double R0Px, double PixelSizeUm, double FrameIntervalMin);
+    double NoiseVarianceLPx2, double NoiseVarianceWPx2, double R0Px, double PixelSizeUm, double FrameIntervalMin)
+{
+    /// <summary>e2_along, the white noise of the pole-sector normal displacement (px^2); NaN when absent or not ok.</summary>
+    public double NoiseVarianceAlongPx2 { get; init; } = double.NaN;
+    /// <summary>e2_across, the same for the flank sector (px^2); NaN when absent or not ok.</summary>
+    public double NoiseVarianceAcrossPx2 { get; init; } = double.NaN;
+    /// <summary>Tracks behind the file's numbers (its "tracks" key); 0 when absent.</summary>
+    public int Tracks { get; init; }
+}

@@ -14,7 +14,7 @@ public static class SynthJob
     private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
 
     /// <summary>Fluctuating ellipses: labels.tif (uint16, Deflate, OME-XML with pixel size and frame interval) and truth.json.</summary>
-    public static EllipseMovie Ellipses(EllipseMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null)
+    public static EllipseMovie Ellipses(EllipseMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null, JsonObject? fromSimParams = null)
     {
         OutputFolder.Check(outDir);
         var movie = EllipseMovie.Generate(o);
@@ -24,7 +24,9 @@ public static class SynthJob
             var xml = TiffWriter.OmeXml(movie.Width, movie.Height, o.Frames, "uint16", o.PixelSizeUm, o.FrameIntervalMin);
             TiffWriter.Write(tif, movie.Width, movie.Height, Enumerable.Range(0, o.Frames).Select(movie.RenderFrame), TiffWriter.PixelType.UInt16, xml);
             if (raw is not null) WriteRaw(tif, Path.Combine(dir, "raw.tif"), raw);
-            File.WriteAllText(Path.Combine(dir, "truth.json"), TruthJson(movie).ToJsonString(Summary.Indented));
+            var truth = TruthJson(movie);
+            if (fromSimParams is not null) truth["from_sim_params"] = fromSimParams;
+            File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
             var opts = JsonSerializer.SerializeToNode(o)!;
             var prov = Provenance.Describe("synth ellipses", [], opts, commandLine);
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
@@ -34,15 +36,17 @@ public static class SynthJob
 
     /// <summary>Ellipse options that simulate what a sim-params file describes (docs/sim-params.md#round-trip), in px and frames:
     /// L = 2a and W = 2b to first order, so sigma_a = sqrt(s2_L) / 2, sigma_b = sqrt(s2_W) / 2, tau_a = tau_L, tau_b = tau_W;
-    /// the mean semi-axes keep the ratio of <paramref name="o"/> and are scaled so sqrt(a0 b0) = R0; the white noise on the
-    /// semi-axes is eta_a^2 = max(0, e2_L - e2_render,L) / 4 (likewise b with W), where e2_render is the noise variance the
-    /// analysis finds in the same movie rendered without added noise (pixelation). e2_render is measured only when e2_L or
-    /// e2_W is above 0. Returns the options and the measured e2_render (px^2; NaN when not measured).</summary>
-    public static (EllipseMovieOptions Options, double RenderNoiseLPx2, double RenderNoiseWPx2) FromSimParams(EllipseMovieOptions o, SimulationInput p)
+    /// the mean semi-axes keep the ratio of <paramref name="o"/> and are scaled so sqrt(a0 b0) = R0. The exported noise e2 is
+    /// the experiment's total measurement noise, and a rendered movie makes its own (pixelation), so only the remainder is
+    /// added: the same movie is rendered without added noise and analysed (<see cref="RenderNoiseOf"/>), and the white noise
+    /// on the semi-axes is eta_a^2 = max(0, e2_L - e2_render,L) / 4, eta_b^2 = max(0, e2_W - e2_render,W) / 4. along and
+    /// across have no noise knob of their own (they follow from a and b); their render noise is measured and judged too.
+    /// Returns the options and, per coordinate (L, W, along, across), the target and the render's own noise.</summary>
+    public static (EllipseMovieOptions Options, IReadOnlyList<RenderNoise> Noise) FromSimParams(EllipseMovieOptions o, SimulationInput p)
     {
         double a0 = o.SemiMajorPx, b0 = o.SemiMinorPx;
         if (double.IsFinite(p.R0Px)) { double k = p.R0Px / Math.Sqrt(a0 * b0); a0 *= k; b0 *= k; }
-        var sim = o with
+        var sim = (o with
         {
             SemiMajorPx = a0, SemiMinorPx = b0,
             SigmaAlongPx = Math.Sqrt(p.SignalVarianceLPx2) / 2, SigmaAcrossPx = Math.Sqrt(p.SignalVarianceWPx2) / 2,
@@ -50,20 +54,73 @@ public static class SynthJob
             PixelSizeUm = double.IsFinite(p.PixelSizeUm) ? p.PixelSizeUm : o.PixelSizeUm,
             FrameIntervalMin = double.IsFinite(p.FrameIntervalMin) ? p.FrameIntervalMin : o.FrameIntervalMin,
             NoiseAlongPx = 0, NoiseAcrossPx = 0,
-        };
-        if (!(p.NoiseVarianceLPx2 > 0 || p.NoiseVarianceWPx2 > 0)) return (sim.Validated(), double.NaN, double.NaN);
-        var clean = EllipseMovie.Generate(sim.Validated());
-        using var movie = new RenderedMovie(clean);
-        var r = ShapeNoise.Pipeline.MovieAnalyzer.Run(movie, new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 50, Seed = 1 });
-        double eL = r.Pooled.Temporal?.L.NoiseVariancePx2.Value ?? 0, eW = r.Pooled.Temporal?.W.NoiseVariancePx2.Value ?? 0;
-        if (!double.IsFinite(eL)) eL = 0;
-        if (!double.IsFinite(eW)) eW = 0;
+        }).Validated();
+        var own = RenderNoiseOf(sim);
+        RenderNoise[] noise =
+        [
+            new("L", p.NoiseVarianceLPx2, own[0]), new("W", p.NoiseVarianceWPx2, own[1]),
+            new("along", p.NoiseVarianceAlongPx2, own[2]), new("across", p.NoiseVarianceAcrossPx2, own[3]),
+        ];
         var noisy = sim with
         {
-            NoiseAlongPx = Math.Sqrt(Math.Max(0, p.NoiseVarianceLPx2 - eL) / 4),
-            NoiseAcrossPx = Math.Sqrt(Math.Max(0, p.NoiseVarianceWPx2 - eW) / 4),
+            NoiseAlongPx = Math.Sqrt(noise[0].RemainderPx2 / 4),
+            NoiseAcrossPx = Math.Sqrt(noise[1].RemainderPx2 / 4),
         };
-        return (noisy.Validated(), eL, eW);
+        return (noisy.Validated(), noise);
+    }
+
+    /// <summary>The white-noise variance e2 (px^2) that the temporal noise model finds in L, W, along and across of the movie
+    /// <paramref name="o"/> describes, rendered as it is (default analysis options; only the point fits are used, so 10
+    /// resamples); 0 where the fit gives no finite value.</summary>
+    public static double[] RenderNoiseOf(EllipseMovieOptions o)
+    {
+        using var movie = new RenderedMovie(EllipseMovie.Generate(o));
+        var r = ShapeNoise.Pipeline.MovieAnalyzer.Run(movie, new ShapeNoise.Pipeline.AnalysisOptions { BootstrapResamples = 10, Seed = 1 });
+        static double V(ShapeNoise.Fluctuations.TemporalCoordinate? c) => c?.NoiseVariancePx2.Value is double v && double.IsFinite(v) ? v : 0;
+        var t = r.Pooled.Temporal;
+        return [V(t?.L), V(t?.W), V(t?.Along), V(t?.Across)];
+    }
+
+    /// <summary>One coordinate of the render-noise calibration (px^2): the exported target e2, the noise the renderer makes on its
+    /// own, and the remainder max(0, target - own) to add (0 when the target is not finite).</summary>
+    public readonly record struct RenderNoise(string Coordinate, double TargetPx2, double RenderPx2)
+    {
+        /// <summary>max(0, target - own); 0 when the target is unknown.</summary>
+        public double RemainderPx2 => double.IsFinite(TargetPx2) ? Math.Max(0, TargetPx2 - RenderPx2) : 0;
+        /// <summary>True when the render alone makes more noise than the target asks for.</summary>
+        public bool Exceeds => double.IsFinite(TargetPx2) && RenderPx2 > TargetPx2;
+    }
+
+    /// <summary>The warning for one coordinate whose render noise alone exceeds the target (lengths in the sim-params' unit), or null.</summary>
+    public static string? ExceedWarning(RenderNoise n, double pixelSizeUm)
+    {
+        if (!n.Exceeds) return null;
+        double s = double.IsFinite(pixelSizeUm) ? pixelSizeUm * pixelSizeUm : 1; string u = double.IsFinite(pixelSizeUm) ? "um2" : "px2";
+        return string.Create(System.Globalization.CultureInfo.InvariantCulture,
+            $"the render's own noise of {n.Coordinate} ({n.RenderPx2 * s:G3} {u}) already exceeds the sim-params noise ({n.TargetPx2 * s:G3} {u}); none added, the simulation has more measurement noise there than asked for");
+    }
+
+    /// <summary>truth.json's "from_sim_params" block: per coordinate the target e2, the render's own e2 and the added remainder
+    /// (px^2 and um^2), and the warnings.</summary>
+    public static JsonObject RenderNoiseJson(IReadOnlyList<RenderNoise> noise, double pixelSizeUm)
+    {
+        double s2 = pixelSizeUm * pixelSizeUm;
+        var coords = new JsonObject();
+        foreach (var n in noise)
+            coords[n.Coordinate] = new JsonObject
+            {
+                ["target_noise_variance_px2"] = Num(n.TargetPx2), ["render_noise_variance_px2"] = Num(n.RenderPx2), ["added_noise_variance_px2"] = Num(n.RemainderPx2),
+                ["target_noise_variance_um2"] = Num(n.TargetPx2 * s2), ["render_noise_variance_um2"] = Num(n.RenderPx2 * s2), ["added_noise_variance_um2"] = Num(n.RemainderPx2 * s2),
+                ["render_exceeds_target"] = n.Exceeds,
+            };
+        var warnings = new JsonArray();
+        foreach (var n in noise) if (ExceedWarning(n, pixelSizeUm) is { } w) warnings.Add(w);
+        return new JsonObject
+        {
+            ["description"] = "measurement noise: the render's own (pixelation, measured on the same movie without added noise) plus white noise on the semi-axes for the remainder of L (a) and W (b); along and across have no knob of their own",
+            ["noise"] = coords,
+            ["warnings"] = warnings,
+        };
     }
 
     /// <summary>Monolayer options that simulate the shape noise a sim-params file describes (docs/sim-params.md#monolayer-round-trip),

@@ -94,20 +94,22 @@ public static class DynamicsAnalysis
         {
             var f = point.Fits[s];
             int row = s;
-            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Edge(Tau(f.TauFrames, boot.Tau, s, plan, inp), (r, b) => r.Tau[row, b]),
+            coords.Add(new OuCoordinate(Coordinates[s - 1].Name, Coordinates[s - 1].Meaning, Edge(Tau(f.TauFrames, boot.Tau, s, plan, inp), (r, b) => r.Tau[row, b]).WithResolutionLimit(inp.MaxLen),
                 Edge(Est(f.SignalVariance, boot.Var, s, plan), (r, b) => r.Var[row, b]),
                 Edge(Est(f.SignalVariance / f.TauFrames, boot.D, s, plan), (r, b) => r.D[row, b]), f.NoiseVariance, f.UncorrectedTauFrames));
         }
         var series = Curves(inp, point, boot);
-        var theta = Edge(Estimate.Fitted(point.ThetaFit.TauFrames, boot.Theta, plan.Units, plan.UnitName, OrientationCorrelation.MinTauFrames, inp.MaxTau), (r, b) => r.Theta[b]);
+        var theta = Edge(Estimate.Fitted(point.ThetaFit.TauFrames, boot.Theta, plan.Units, plan.UnitName, OrientationCorrelation.MinTauFrames, inp.MaxTau), (r, b) => r.Theta[b])
+            .WithResolutionLimit(inp.MaxLen);
         var tauInt = Edge(Bootstrap.Interval(point.Sokal.TauInt, boot.TauInt, plan.Units, plan.UnitName), (r, b) => r.TauInt[b]);
         var q = point.Fits[0];
-        return new DynamicsResult(K, inp.FitLags, series, Edge(Tau(q.TauFrames, boot.Tau, 0, plan, inp), (r, b) => r.Tau[0, b]), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
+        return new DynamicsResult(K, inp.FitLags, series, Edge(Tau(q.TauFrames, boot.Tau, 0, plan, inp), (r, b) => r.Tau[0, b]).WithResolutionLimit(inp.MaxLen), q.UncorrectedTauFrames, tauInt, point.Sokal.Window, point.Sokal.Reached,
             theta, Edge(PlateauEstimate(point.ThetaFit.Plateau, boot.Plateau, plan), (r, b) => r.Plateau[b]), q.SignalVariance, coords, inp.Tracks,
             DynamicsResult.ModelName(point.ThetaFit.Model), NearlyRound(tracks, q.NoiseVariance));
     }
 
-    /// <summary>A fitted OU tau with its search bounds [0.05 frame, 20 x the longest track] (at_bound detection, docs/dynamics.md#at-bound).</summary>
+    /// <summary>A fitted OU tau with its search bounds [0.05 frame, 20 x the longest track] (at_bound detection, docs/dynamics.md#at-bound);
+    /// the callers also mark a tau above the longest track at_bound (<see cref="Estimate.WithResolutionLimit"/>).</summary>
     private static Estimate Tau(double value, double[,] boot, int row, ResamplingPlan plan, Inputs inp)
         => Estimate.Fitted(value, Enumerable.Range(0, boot.GetLength(1)).Select(i => boot[row, i]).ToArray(), plan.Units, plan.UnitName,
             OrnsteinUhlenbeckFit.MinTauFrames, inp.MaxTau);

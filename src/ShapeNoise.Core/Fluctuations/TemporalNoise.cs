@@ -95,7 +95,7 @@ public static class TemporalNoise
                 return new TemporalCoordinate(Names[s], none, none, none, none, double.NaN);
             }
             var tau = Estimate.Fitted(point[s].TauFrames, plan.Draws.Select(d => FitAll(d)[s].TauFrames).ToArray(), plan.Units, plan.UnitName,
-                OrnsteinUhlenbeckFit.MinTauFrames, maxTau);
+                OrnsteinUhlenbeckFit.MinTauFrames, maxTau).WithResolutionLimit(maxLen);
             var s2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].SignalVariance)), tau);
             var e2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].NoiseVariance)), tau);
             var d = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => { var f = FitAll(w)[s]; return f.SignalVariance / f.TauFrames; })), tau);

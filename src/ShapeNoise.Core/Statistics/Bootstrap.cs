@@ -115,6 +115,18 @@ public readonly record struct Estimate(double Value, double Low, double High)
         };
     }
 
+    /// <summary>Reason of an estimate beyond its resolution limit (<see cref="WithResolutionLimit"/>).</summary>
+    public const string BeyondResolutionReason = "longer than this movie can resolve (above the longest track)";
+
+    /// <summary>A fitted correlation time judged against what the data can resolve: an <see cref="EstimateStatus.Ok"/> estimate
+    /// whose value exceeds <paramref name="limit"/> (the longest used track, in the estimate's unit) becomes
+    /// <see cref="EstimateStatus.AtBound"/>, upper, with <see cref="BoundValue"/> = the limit and the reason
+    /// <see cref="BeyondResolutionReason"/> (docs/dynamics.md#fitted-times-at-a-search-bound-at_bound). Any other estimate is returned unchanged.</summary>
+    public Estimate WithResolutionLimit(double limit)
+        => Status == EstimateStatus.Ok && double.IsFinite(limit) && Value > limit
+            ? this with { Status = EstimateStatus.AtBound, Bound = BoundSide.Upper, BoundValue = limit, Reason = BeyondResolutionReason }
+            : this;
+
     /// <summary>The estimate times <paramref name="f"/> (a unit conversion); a negative factor swaps the bounds so Low &lt;= High
     /// stays true. Units, status and reason are kept; the bound value is scaled too.</summary>
     public Estimate Scale(double f) => (f >= 0 ? new Estimate(Value * f, Low * f, High * f) : new Estimate(Value * f, High * f, Low * f)) with

@@ -79,9 +79,11 @@ internal static class OrnsteinUhlenbeckFit
             }
     }
 
-    /// <summary>Fitted tau (frames) with its seeded percentile-bootstrap 95% interval over tracks.</summary>
+    /// <summary>Fitted tau (frames) with its seeded percentile-bootstrap 95% interval over tracks; at_bound (upper, bound = the
+    /// longest track) when tau exceeds the longest track (docs/dynamics.md#fitted-times-at-a-search-bound-at_bound).</summary>
     public static Statistics.Estimate TauWithInterval(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, int fitLags, int resamples, int seed)
-        => Statistics.Bootstrap.Percentile(tracks.Count, w => Fit(tracks, frames, w, fitLags).TauFrames, resamples, seed);
+        => Statistics.Bootstrap.Percentile(tracks.Count, w => Fit(tracks, frames, w, fitLags).TauFrames, resamples, seed)
+            .WithResolutionLimit(frames.Count == 0 ? double.NaN : frames.Max(f => f.Length == 0 ? 0 : f[^1] - f[0] + 1));
 
     /// <summary>
     /// The pooled autocorrelation the fitted model predicts for these tracks, lags 0..K: E[c(k)] / E[c(0)], including

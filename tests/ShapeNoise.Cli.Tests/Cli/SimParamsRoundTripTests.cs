@@ -18,35 +18,63 @@ public class SimParamsRoundTripTests
     private static JsonNode Fluct(string simParams) => JsonNode.Parse(File.ReadAllText(simParams))!["fluctuations"]!;
     private static double V(JsonNode f, string c, string k) => f[c]![k]!["value"]!.GetValue<double>();
 
+    private static readonly string[] Coords = ["L", "W", "along", "across"];
+
     [Fact]
     public void SynthFrom_DemoSimParams_ReanalysisMatchesWithinTenPercent()
     {
+        // Expectation source: issue 14's round-trip criterion - analyse the demo, synthesise from its sim-params.json,
+        // analyse again: tau, signal variances and noise variances within 10 % of the parameters the first analysis exported.
         using var d = new TempDir();
         var a1 = Support.Cli.Run("analyze", Path.Combine(Root(), "demo-data", "ellipses", "labels.tif"), "--out", d["a1"], "--bootstrap", "200");
         Assert.True(a1.ExitCode == 0, a1.Stderr);
-        // 200 cells (5x the demo) so the second analysis' own sampling error (about 10 % on tau for 40 tracks, the demo's
-        // ci95) stays well inside the 10 % tolerance; another seed than the demo's so the draws are not the same.
-        var s = Support.Cli.Run("synth", "ellipses", "--from", d["a1/sim-params.json"], "--cells", "200", "--seed", "11", "--out", d["sim"]);
-        Assert.True(s.ExitCode == 0, s.Stderr);
-        var a2 = Support.Cli.Run("analyze", d["sim/labels.tif"], "--out", d["a2"], "--bootstrap", "200");
-        Assert.True(a2.ExitCode == 0, a2.Stderr);
-        var f1 = Fluct(d["a1/sim-params.json"]); var f2 = Fluct(d["a2/sim-params.json"]);
-        Assert.Equal("um", JsonNode.Parse(File.ReadAllText(d["a2/sim-params.json"]))!["units"]!["length"]!.GetValue<string>());
-        foreach (var c in new[] { "L", "W", "along", "across" })
+        var f1 = Fluct(d["a1/sim-params.json"]);
+        // Three seeds (not the demo's 7), each 200 cells (the --from default, 5 x the demo's 40 tracks), averaged: one seed's
+        // tau scatters by about 4 % (sd over seeds 11-15, docs/sim-params.md#round-trip), the mean of three by about 2.4 %.
+        int[] seeds = [11, 12, 13];
+        var runs = new List<(JsonNode Fluct, JsonNode Truth, double R0)>();
+        foreach (int seed in seeds)
+        {
+            string sim = d[$"sim{seed}"], a2 = d[$"a2-{seed}"];
+            var s = Support.Cli.Run("synth", "ellipses", "--from", d["a1/sim-params.json"], "--seed", $"{seed}", "--out", sim);
+            Assert.True(s.ExitCode == 0, s.Stderr);
+            // Point values do not depend on the resamples; 20 keep the test short.
+            var r = Support.Cli.Run("analyze", Path.Combine(sim, "labels.tif"), "--out", a2, "--bootstrap", "20");
+            Assert.True(r.ExitCode == 0, r.Stderr);
+            var sp = JsonNode.Parse(File.ReadAllText(Path.Combine(a2, "sim-params.json")))!;
+            Assert.Equal("um", sp["units"]!["length"]!.GetValue<string>());
+            var truth = JsonNode.Parse(File.ReadAllText(Path.Combine(sim, "truth.json")))!;
+            Assert.Equal(200, truth["cells"]!.GetValue<int>());
+            runs.Add((sp["fluctuations"]!, truth["from_sim_params"]!, sp["scales"]!["R0_um"]!.GetValue<double>()));
+        }
+        double Mean(Func<(JsonNode Fluct, JsonNode Truth, double R0), double> of) => runs.Average(of);
+        double r01 = JsonNode.Parse(File.ReadAllText(d["a1/sim-params.json"]))!["scales"]!["R0_um"]!.GetValue<double>();
+        Assert.True(Math.Abs(Mean(r => r.R0) / r01 - 1) < 0.10, $"R0: first {r01:G4}, round trip {Mean(r => r.R0):G4}");
+        foreach (var c in Coords)
             foreach (var k in new[] { "tau_min", "variance_um2" })
             {
-                double x1 = V(f1, c, k), x2 = V(f2, c, k);
-                Assert.True(Math.Abs(x2 / x1 - 1) < 0.10, $"{c}.{k}: first {x1:G4}, round trip {x2:G4}");
+                double x1 = V(f1, c, k), x2 = Mean(r => V(r.Fluct, c, k));
+                Assert.True(Math.Abs(x2 / x1 - 1) < 0.10, $"{c}.{k}: first {x1:G4}, round trip (mean of {seeds.Length} seeds) {x2:G4}");
             }
-        // Noise variances: the demo's L and W noise is 0 (at the bound) and its along / across noise is the renderer's
-        // pixelation, poorly determined from 40 cells (ci95 of along [0, 0.021] um2; the same scenario at 200 cells gives
-        // 0.011, 0.015, 0.013 um2 for seeds 11-13, docs/sim-params.md#round-trip), so a 10 % match is not a property the
-        // data can show: compare by absolute difference within the first analysis' own 95 % interval upper end.
-        foreach (var c in new[] { "L", "W", "along", "across" })
+        // Noise variances: 10 % where the renderer leaves room for it. Where its own pixelation already exceeds the exported
+        // noise (here L, along and across: the demo is a 40-cell draw of the same renderer's pixelation, ci95 of along
+        // [0, 0.021] um2), no noise is added, synth must say so, and the round trip is then limited by the first analysis'
+        // own uncertainty: it must lie inside the first analysis' 95 % interval (the 10 % is not met there; the numbers are
+        // in docs/sim-params.md#round-trip).
+        foreach (var c in Coords)
         {
-            double e1 = V(f1, c, "noise_variance_um2"), e2 = V(f2, c, "noise_variance_um2");
-            double tol = f1[c]!["noise_variance_um2"]!["ci95"]![1]!.GetValue<double>();
-            Assert.True(Math.Abs(e2 - e1) <= tol, $"{c}.noise_variance: first {e1:G4}, round trip {e2:G4}, tolerance {tol:G4}");
+            double e1 = V(f1, c, "noise_variance_um2"), e2 = Mean(r => V(r.Fluct, c, "noise_variance_um2"));
+            bool exceeds = runs.Any(r => r.Truth["noise"]![c]!["render_exceeds_target"]!.GetValue<bool>());
+            if (!exceeds)
+            {
+                Assert.True(e1 > 0 ? Math.Abs(e2 / e1 - 1) < 0.10 : e2 == 0, $"{c}.noise_variance: first {e1:G4}, round trip {e2:G4}");
+                continue;
+            }
+            Assert.All(runs.Where(r => r.Truth["noise"]![c]!["render_exceeds_target"]!.GetValue<bool>()),
+                r => Assert.Contains(r.Truth["warnings"]!.AsArray(), w => w!.GetValue<string>().Contains($"noise of {c} ")));
+            var ci = f1[c]!["noise_variance_um2"]!["ci95"]!;
+            double lo = ci[0]!.GetValue<double>(), hi = ci[1]!.GetValue<double>();
+            Assert.True(lo <= e2 && e2 <= hi, $"{c}.noise_variance: first {e1:G4} [{lo:G4}, {hi:G4}], round trip {e2:G4}");
         }
     }
 

@@ -29,4 +29,18 @@ public class BootstrapTests
         Assert.InRange((e.High - e.Low) / expected, 0.85, 1.15);   // Monte Carlo error of 2000 resamples ~ +-5%
         Assert.True(e.Low < e.Value && e.Value < e.High);
     }
+
+    [Fact]
+    public void WithResolutionLimit_TauAboveLongestTrack_AtUpperBoundScaledWithUnit()
+    {
+        // The documented rule (docs/dynamics.md#fitted-times-at-a-search-bound-at_bound), hand cases: an ok tau of 120 frames
+        // on tracks of at most 80 frames is at_bound (upper, bound 80), converted to minutes (2 min/frame) with the value;
+        // 50 frames stays ok; an estimate that is not ok keeps its status.
+        var e = Estimate.Judged(120, 100, 150, 40, "tracks").WithResolutionLimit(80);
+        Assert.Equal(EstimateStatus.AtBound, e.Status);
+        Assert.Equal(BoundSide.Upper, e.Bound);
+        Assert.Equal(160, e.Scale(2).BoundValue);
+        Assert.Equal(EstimateStatus.Ok, Estimate.Judged(50, 40, 60, 40, "tracks").WithResolutionLimit(80).Status);
+        Assert.Equal(EstimateStatus.TooFew, Estimate.Judged(120, 100, 150, 3, "tracks").WithResolutionLimit(80).Status);
+    }
 }
