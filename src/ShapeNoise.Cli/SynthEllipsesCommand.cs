@@ -51,11 +51,11 @@ internal sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settin
         {
             (o, var noise) = SynthJob.FromSimParams(o, p);
             var inv = System.Globalization.CultureInfo.InvariantCulture;
-            AnsiConsole.WriteLine(string.Create(inv, $"from {s.From}: {o.Cells} cells, sigma_a {o.SigmaAlongPx:F3} px, sigma_b {o.SigmaAcrossPx:F3} px, tau_a {o.TauAlongFrames:F2} frames, tau_b {o.TauAcrossFrames:F2} frames, a0 {o.SemiMajorPx:F2} px, b0 {o.SemiMinorPx:F2} px, eta_a {o.NoiseAlongPx:F3} px, eta_b {o.NoiseAcrossPx:F3} px")
+            AnsiConsole.WriteLine(string.Create(inv, $"from {s.From}: {o.Cells} cells, sigma_a {o.SigmaAlongPx:F3} px, sigma_b {o.SigmaAcrossPx:F3} px, tau_a {o.TauAlongFrames:F2} frames, tau_b {o.TauAcrossFrames:F2} frames, a0 {o.SemiMajorPx:F2} px, b0 {o.SemiMinorPx:F2} px, eta_a {o.NoiseAlongPx:F3} px, eta_b {o.NoiseAcrossPx:F3} px, pixel {o.PixelSizeUm:G4} um, radial sd pole {o.RadialNoisePolePx:F3} px, flank {o.RadialNoiseFlankPx:F3} px")
                 + " (render noise e2 " + string.Join(", ", noise.Select(n => string.Create(inv, $"{n.Coordinate} {n.RenderPx2:G3}"))) + " px2)");
             foreach (var n in noise)
                 if (SynthJob.ExceedWarning(n, p.PixelSizeUm) is { } w) AnsiConsole.MarkupLineInterpolated($"[yellow]warning:[/] {w}");
-            fromBlock = SynthJob.RenderNoiseJson(noise, o.PixelSizeUm);
+            fromBlock = SynthJob.RenderNoiseJson(noise, o.PixelSizeUm * SynthJob.DefaultSupersample, SynthJob.DefaultSupersample, o);
         }
         o = o.Validated();
         var m = SynthJob.Ellipses(o, new ShapeNoise.Reporting.OutputTarget(s.Out, s.Overwrite), Environment.GetCommandLineArgs().Skip(1), s.RenderOptions(s.Seed), fromBlock);

@@ -34,40 +34,63 @@ public static class SynthJob
         return movie;
     }
 
-    /// <summary>Ellipse options that simulate what a sim-params file describes (docs/sim-params.md#round-trip), in px and frames:
-    /// L = 2a and W = 2b to first order, so sigma_a = sqrt(s2_L) / 2, sigma_b = sqrt(s2_W) / 2, tau_a = tau_L, tau_b = tau_W;
+    /// <summary>Ellipse options that simulate what a sim-params file describes (docs/sim-params.md#round-trip). In px and frames of
+    /// the file: L = 2a and W = 2b to first order, so sigma_a = sqrt(s2_L) / 2, sigma_b = sqrt(s2_W) / 2, tau_a = tau_L, tau_b = tau_W;
     /// the mean semi-axes keep the ratio of <paramref name="o"/> and are scaled so sqrt(a0 b0) = R0. The exported noise e2 is
-    /// the experiment's total measurement noise, and a rendered movie makes its own (pixelation), so only the remainder is
-    /// added: the same movie is rendered without added noise and analysed (<see cref="RenderNoiseOf"/>), and the white noise
-    /// on the semi-axes is eta_a^2 = max(0, e2_L - e2_render,L) / 4, eta_b^2 = max(0, e2_W - e2_render,W) / 4. along and
-    /// across have no noise knob of their own (they follow from a and b); their render noise is measured and judged too.
-    /// Returns the options and, per coordinate (L, W, along, across), the target and the render's own noise.</summary>
-    public static (EllipseMovieOptions Options, IReadOnlyList<RenderNoise> Noise) FromSimParams(EllipseMovieOptions o, SimulationInput p)
+    /// the experiment's total measurement noise, and a rendered movie makes its own (pixelation, variance proportional to the
+    /// pixel area), so the movie is rendered k-fold finer (pixel size s / k, every length in px times k, so lengths in um stay)
+    /// with k = <paramref name="supersample"/> (default <see cref="DefaultSupersample"/>), and only the remainder is added:
+    /// the same movie is rendered without added noise and analysed (<see cref="RenderNoiseOf"/>); white noise on the semi-axes
+    /// eta_a^2 = max(0, e2_L - e2_render,L) / 4, eta_b^2 = max(0, e2_W - e2_render,W) / 4; and white radial noise in the pole
+    /// and flank sectors with variances v_pole = r_along / g_along, v_flank = r_across / g_across, where r = max(0, e2 - e2_base)
+    /// is what along / across still lack after the render and the semi-axis noise, and g the measured gain (e2 per unit of
+    /// radial variance) from one more render with trial radial variance. Returns the options and, per coordinate (L, W, along,
+    /// across), the target and the render's own noise, in px^2 of the file.</summary>
+    public static (EllipseMovieOptions Options, IReadOnlyList<RenderNoise> Noise) FromSimParams(EllipseMovieOptions o, SimulationInput p, int supersample = DefaultSupersample)
     {
+        if (supersample < 1) throw new ArgumentOutOfRangeException(nameof(supersample), "the supersampling must be >= 1");
+        double k = supersample, k2 = k * k;
         double a0 = o.SemiMajorPx, b0 = o.SemiMinorPx;
-        if (double.IsFinite(p.R0Px)) { double k = p.R0Px / Math.Sqrt(a0 * b0); a0 *= k; b0 *= k; }
+        if (double.IsFinite(p.R0Px)) { double g = p.R0Px / Math.Sqrt(a0 * b0); a0 *= g; b0 *= g; }
+        double pixel = double.IsFinite(p.PixelSizeUm) ? p.PixelSizeUm : o.PixelSizeUm;
         var sim = (o with
         {
-            SemiMajorPx = a0, SemiMinorPx = b0,
-            SigmaAlongPx = Math.Sqrt(p.SignalVarianceLPx2) / 2, SigmaAcrossPx = Math.Sqrt(p.SignalVarianceWPx2) / 2,
+            SemiMajorPx = a0 * k, SemiMinorPx = b0 * k,
+            SigmaAlongPx = k * Math.Sqrt(p.SignalVarianceLPx2) / 2, SigmaAcrossPx = k * Math.Sqrt(p.SignalVarianceWPx2) / 2,
             TauFrames = p.TauLFrames, TauAlongFrames = p.TauLFrames, TauAcrossFrames = p.TauWFrames,
-            PixelSizeUm = double.IsFinite(p.PixelSizeUm) ? p.PixelSizeUm : o.PixelSizeUm,
+            DriftPx = o.DriftPx * k, Width = o.Width * supersample, Height = o.Height * supersample,
+            PixelSizeUm = pixel / k,
             FrameIntervalMin = double.IsFinite(p.FrameIntervalMin) ? p.FrameIntervalMin : o.FrameIntervalMin,
-            NoiseAlongPx = 0, NoiseAcrossPx = 0,
+            NoiseAlongPx = 0, NoiseAcrossPx = 0, RadialNoisePolePx = 0, RadialNoiseFlankPx = 0,
         }).Validated();
         var own = RenderNoiseOf(sim);
         RenderNoise[] noise =
         [
-            new("L", p.NoiseVarianceLPx2, own[0]), new("W", p.NoiseVarianceWPx2, own[1]),
-            new("along", p.NoiseVarianceAlongPx2, own[2]), new("across", p.NoiseVarianceAcrossPx2, own[3]),
+            new("L", p.NoiseVarianceLPx2, own[0] / k2), new("W", p.NoiseVarianceWPx2, own[1] / k2),
+            new("along", p.NoiseVarianceAlongPx2, own[2] / k2), new("across", p.NoiseVarianceAcrossPx2, own[3] / k2),
         ];
         var noisy = sim with
         {
-            NoiseAlongPx = Math.Sqrt(noise[0].RemainderPx2 / 4),
-            NoiseAcrossPx = Math.Sqrt(noise[1].RemainderPx2 / 4),
+            NoiseAlongPx = k * Math.Sqrt(noise[0].RemainderPx2 / 4),
+            NoiseAcrossPx = k * Math.Sqrt(noise[1].RemainderPx2 / 4),
         };
+        var baseNoise = noisy.NoiseAlongPx > 0 || noisy.NoiseAcrossPx > 0 ? RenderNoiseOf(noisy) : own;
+        static double Lack(double target, double have) => double.IsFinite(target) ? Math.Max(0, target - have) : 0;
+        double lackAlong = Lack(k2 * p.NoiseVarianceAlongPx2, baseNoise[2]), lackAcross = Lack(k2 * p.NoiseVarianceAcrossPx2, baseNoise[3]);
+        if (lackAlong > 0 || lackAcross > 0)
+        {
+            // Trial radial variance: twice the larger lack (the gain is about 1/2), the same draw, so the difference is the noise's.
+            double trial = 2 * Math.Max(lackAlong, lackAcross);
+            var t = RenderNoiseOf(noisy with { RadialNoisePolePx = Math.Sqrt(trial), RadialNoiseFlankPx = Math.Sqrt(trial) });
+            static double Var(double lack, double gain) => lack > 0 && gain > 0 ? lack / gain : 0;
+            double vPole = Var(lackAlong, (t[2] - baseNoise[2]) / trial), vFlank = Var(lackAcross, (t[3] - baseNoise[3]) / trial);
+            noisy = noisy with { RadialNoisePolePx = Math.Sqrt(vPole), RadialNoiseFlankPx = Math.Sqrt(vFlank) };
+        }
         return (noisy.Validated(), noise);
     }
+
+    /// <summary>Default render supersampling k of <see cref="FromSimParams"/> (docs/sim-params.md#round-trip).</summary>
+    public const int DefaultSupersample = 2;
 
     /// <summary>The white-noise variance e2 (px^2) that the temporal noise model finds in L, W, along and across of the movie
     /// <paramref name="o"/> describes, rendered as it is (default analysis options; only the point fits are used, so 10
@@ -100,9 +123,9 @@ public static class SynthJob
             $"the render's own noise of {n.Coordinate} ({n.RenderPx2 * s:G3} {u}) already exceeds the sim-params noise ({n.TargetPx2 * s:G3} {u}); none added, the simulation has more measurement noise there than asked for");
     }
 
-    /// <summary>truth.json's "from_sim_params" block: per coordinate the target e2, the render's own e2 and the added remainder
-    /// (px^2 and um^2), and the warnings.</summary>
-    public static JsonObject RenderNoiseJson(IReadOnlyList<RenderNoise> noise, double pixelSizeUm)
+    /// <summary>truth.json's "from_sim_params" block: the render supersampling k and the radial noise of <paramref name="o"/>, per
+    /// coordinate the target e2, the render's own e2 and the remainder added (px^2 of the sim-params file and um^2), and the warnings.</summary>
+    public static JsonObject RenderNoiseJson(IReadOnlyList<RenderNoise> noise, double pixelSizeUm, int supersample = 1, EllipseMovieOptions? o = null)
     {
         double s2 = pixelSizeUm * pixelSizeUm;
         var coords = new JsonObject();
@@ -115,9 +138,13 @@ public static class SynthJob
             };
         var warnings = new JsonArray();
         foreach (var n in noise) if (ExceedWarning(n, pixelSizeUm) is { } w) warnings.Add(w);
+        double fine = pixelSizeUm / supersample;
         return new JsonObject
         {
-            ["description"] = "measurement noise: the render's own (pixelation, measured on the same movie without added noise) plus white noise on the semi-axes for the remainder of L (a) and W (b); along and across have no knob of their own",
+            ["description"] = "measurement noise: the render's own (pixelation at the supersampled pixel size, measured on the same movie without added noise) plus, for the remainder, white noise on the semi-axes (L: a, W: b) and white radial noise on the outline's pole (along) and flank (across) sectors, its variances set with the measured gain; px2 in the sim-params file's pixels",
+            ["supersample"] = supersample,
+            ["render_pixel_size_um"] = Num(fine),
+            ["radial_noise_sd_pole_um"] = Num((o?.RadialNoisePolePx ?? 0) * fine), ["radial_noise_sd_flank_um"] = Num((o?.RadialNoiseFlankPx ?? 0) * fine),
             ["noise"] = coords,
             ["warnings"] = warnings,
         };

@@ -32,6 +32,15 @@ public sealed record EllipseMovieOptions
     [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double NoiseAlongPx { get; init; }
     /// <summary>Standard deviation eta_b of white measurement noise added to the rendered b(t) every frame (px); 0 = none.</summary>
     [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double NoiseAcrossPx { get; init; }
+    /// <summary>Standard deviation of white radial measurement noise on the outline's pole sector (px; docs/sim-params.md#round-trip):
+    /// every frame each cell's radius r(phi) gets delta(phi), linearly interpolated between <see cref="RadialNoiseNodes"/> independent
+    /// normal draws at equal body-frame angles; a node is in the pole sector when its ellipse normal lies within 45 degrees of
+    /// the long axis (docs/measures.md#contour-variances). 0 = none.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double RadialNoisePolePx { get; init; }
+    /// <summary>Standard deviation of the white radial measurement noise on the flank sector (px); 0 = none.</summary>
+    [JsonIgnore(Condition = JsonIgnoreCondition.WhenWritingDefault)] public double RadialNoiseFlankPx { get; init; }
+    /// <summary>Number of independent radial noise nodes around each outline.</summary>
+    public const int RadialNoiseNodes = 64;
     /// <summary>Steady rotation speed of each cell's axis (degrees per frame; sign drawn per cell).</summary>
     public double RotationDegPerFrame { get; init; }
     /// <summary>Correlation time of the axis orientation under rotational diffusion (frames): C_theta(k) = exp(-k / tau_theta),
@@ -61,6 +70,7 @@ public sealed record EllipseMovieOptions
         if (!(TauFrames > 0)) throw new ArgumentException("--tau must be > 0 frames");
         if (TauAlongFrames is { } ta && !(ta > 0) || TauAcrossFrames is { } tb && !(tb > 0)) throw new ArgumentException("the semi-axis correlation times must be > 0 frames");
         if (!(NoiseAlongPx >= 0) || !(NoiseAcrossPx >= 0)) throw new ArgumentException("the semi-axis measurement noise must be >= 0 px");
+        if (!(RadialNoisePolePx >= 0) || !(RadialNoiseFlankPx >= 0)) throw new ArgumentException("the radial measurement noise must be >= 0 px");
         if (SemiMinorPx - 4 * Math.Sqrt(SigmaAcrossPx * SigmaAcrossPx + NoiseAcrossPx * NoiseAcrossPx) < 1) throw new ArgumentException("the measurement noise is too large for --b (b - 4 sd must stay above 1 px)");
         if (TauThetaFrames < 0) throw new ArgumentException("--tau-theta must be >= 0 frames (0 = no rotational diffusion)");
         if (!(PixelSizeUm > 0) || !(FrameIntervalMin > 0)) throw new ArgumentException("--pixel-size and --frame-interval must be > 0");
@@ -102,9 +112,10 @@ public sealed class EllipseMovie
     public EllipseTruth Truth { get; }
     private readonly int _slot;
     private readonly double[][]? _noiseA, _noiseB;
+    private readonly double[][]? _radial;
 
-    private EllipseMovie(EllipseMovieOptions o, int w, int h, int slot, EllipseTruth truth, double[][]? noiseA = null, double[][]? noiseB = null)
-    { Options = o; Width = w; Height = h; _slot = slot; Truth = truth; _noiseA = noiseA; _noiseB = noiseB; }
+    private EllipseMovie(EllipseMovieOptions o, int w, int h, int slot, EllipseTruth truth, double[][]? noiseA = null, double[][]? noiseB = null, double[][]? radial = null)
+    { Options = o; Width = w; Height = h; _slot = slot; Truth = truth; _noiseA = noiseA; _noiseB = noiseB; _radial = radial; }
 
     /// <summary>Draws every cell's trajectory (not yet the pixels) and evaluates the truth with <paramref name="rays"/> rays.</summary>
     public static EllipseMovie Generate(EllipseMovieOptions o, int rays = 64)
@@ -162,7 +173,34 @@ public sealed class EllipseMovie
             for (int i = 0; i < n; i++)
                 for (int t = 0; t < T; t++) { na[i][t] = o.NoiseAlongPx * Normal.Sample(nrng, 0, 1); nb[i][t] = o.NoiseAcrossPx * Normal.Sample(nrng, 0, 1); }
         }
-        return new EllipseMovie(o, w, h, slot, truth, na, nb);
+        return new EllipseMovie(o, w, h, slot, truth, na, nb, RadialNoise(o, a, b, na, nb));
+    }
+
+    /// <summary>Per cell, T x K radial noise values delta (px), node k at body-frame angle 2 pi k / K; the node's sector by the
+    /// normal of that frame's ellipse: pole when |cos phi| / a^2 > |sin phi| / b^2 (normal within 45 degrees of the a-axis).
+    /// Its own random stream, so the signal and the semi-axis noise are the same draws with or without it. Null when off.</summary>
+    private static double[][]? RadialNoise(EllipseMovieOptions o, double[][] a, double[][] b, double[][]? na, double[][]? nb)
+    {
+        if (!(o.RadialNoisePolePx > 0 || o.RadialNoiseFlankPx > 0)) return null;
+        const int K = EllipseMovieOptions.RadialNoiseNodes;
+        var rng = new Random(unchecked(o.Seed * 6007 + 224737));
+        int n = a.Length, T = a[0].Length;
+        var r = new double[n][];
+        for (int i = 0; i < n; i++)
+        {
+            r[i] = new double[T * K];
+            for (int t = 0; t < T; t++)
+            {
+                double ai = a[i][t] + (na?[i][t] ?? 0), bi = b[i][t] + (nb?[i][t] ?? 0);
+                for (int k = 0; k < K; k++)
+                {
+                    double phi = 2 * Math.PI * k / K;
+                    bool pole = Math.Abs(Math.Cos(phi)) * bi * bi > Math.Abs(Math.Sin(phi)) * ai * ai;
+                    r[i][t * K + k] = (pole ? o.RadialNoisePolePx : o.RadialNoiseFlankPx) * Normal.Sample(rng, 0, 1);
+                }
+            }
+        }
+        return r;
     }
 
     private static double[][] Jagged(int n, int t) { var r = new double[n][]; for (int i = 0; i < n; i++) r[i] = new double[t]; return r; }
@@ -216,6 +254,7 @@ public sealed class EllipseMovie
         {
             double x0 = tr.CentreX[i][t], y0 = tr.CentreY[i][t], a = tr.A[i][t] + (_noiseA?[i][t] ?? 0), b = tr.B[i][t] + (_noiseB?[i][t] ?? 0), c = Math.Cos(tr.Theta[i][t]), s = Math.Sin(tr.Theta[i][t]);
             int id = tr.LabelOfCell[t][i];
+            if (_radial is not null) { RenderRadial(img, i, t, id, x0, y0, a, b, c, s); continue; }
             int xmin = Math.Max(0, (int)Math.Floor(x0 - a - 1)), xmax = Math.Min(Width - 1, (int)Math.Ceiling(x0 + a + 1));
             int ymin = Math.Max(0, (int)Math.Floor(y0 - a - 1)), ymax = Math.Min(Height - 1, (int)Math.Ceiling(y0 + a + 1));
             for (int y = ymin; y <= ymax; y++)
@@ -227,5 +266,27 @@ public sealed class EllipseMovie
                 }
         }
         return img;
+    }
+
+    /// <summary>One cell with radial noise: a pixel centre at body-frame (u, v), r = |(u, v)|, phi = atan2(v, u), belongs to the
+    /// cell when r &lt;= r_ellipse(phi) + delta(phi), r_ellipse = a b r / sqrt(b^2 u^2 + a^2 v^2), delta linear between nodes.</summary>
+    private void RenderRadial(int[] img, int i, int t, int id, double x0, double y0, double a, double b, double c, double s)
+    {
+        const int K = EllipseMovieOptions.RadialNoiseNodes;
+        var d = _radial![i].AsSpan(t * K, K);
+        double reach = a + 1 + 5 * Math.Max(Options.RadialNoisePolePx, Options.RadialNoiseFlankPx);
+        int xmin = Math.Max(0, (int)Math.Floor(x0 - reach)), xmax = Math.Min(Width - 1, (int)Math.Ceiling(x0 + reach));
+        int ymin = Math.Max(0, (int)Math.Floor(y0 - reach)), ymax = Math.Min(Height - 1, (int)Math.Ceiling(y0 + reach));
+        for (int y = ymin; y <= ymax; y++)
+            for (int x = xmin; x <= xmax; x++)
+            {
+                double dx = x + 0.5 - x0, dy = y + 0.5 - y0;
+                double u = dx * c + dy * s, v = -dx * s + dy * c, r = Math.Sqrt(u * u + v * v);
+                if (r == 0) { img[y * Width + x] = id; continue; }
+                double re = a * b * r / Math.Sqrt(b * b * u * u + a * a * v * v);
+                double pos = (Math.Atan2(v, u) + 2 * Math.PI) % (2 * Math.PI) / (2 * Math.PI) * K;
+                int k = (int)pos % K; double f = pos - Math.Floor(pos);
+                if (r <= re + (1 - f) * d[k] + f * d[(k + 1) % K]) img[y * Width + x] = id;
+            }
     }
 }

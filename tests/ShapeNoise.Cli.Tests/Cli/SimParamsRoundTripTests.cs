@@ -24,7 +24,8 @@ public class SimParamsRoundTripTests
     public void SynthFrom_DemoSimParams_ReanalysisMatchesWithinTenPercent()
     {
         // Expectation source: issue 14's round-trip criterion - analyse the demo, synthesise from its sim-params.json,
-        // analyse again: tau, signal variances and noise variances within 10 % of the parameters the first analysis exported.
+        // analyse again: tau, signal variances and noise variances along and across within 10 % of the parameters the first
+        // analysis exported (mean over the seeds below).
         using var d = new TempDir();
         var a1 = Support.Cli.Run("analyze", Path.Combine(Root(), "demo-data", "ellipses", "labels.tif"), "--out", d["a1"], "--bootstrap", "200");
         Assert.True(a1.ExitCode == 0, a1.Stderr);
@@ -45,6 +46,8 @@ public class SimParamsRoundTripTests
             Assert.Equal("um", sp["units"]!["length"]!.GetValue<string>());
             var truth = JsonNode.Parse(File.ReadAllText(Path.Combine(sim, "truth.json")))!;
             Assert.Equal(200, truth["cells"]!.GetValue<int>());
+            Assert.Equal(2, truth["from_sim_params"]!["supersample"]!.GetValue<int>());
+            Assert.Equal(0.25, truth["pixel_size_um"]!.GetValue<double>(), 12);   // the demo's 0.5 um / 2
             runs.Add((sp["fluctuations"]!, truth["from_sim_params"]!, sp["scales"]!["R0_um"]!.GetValue<double>()));
         }
         double Mean(Func<(JsonNode Fluct, JsonNode Truth, double R0), double> of) => runs.Average(of);
@@ -56,12 +59,20 @@ public class SimParamsRoundTripTests
                 double x1 = V(f1, c, k), x2 = Mean(r => V(r.Fluct, c, k));
                 Assert.True(Math.Abs(x2 / x1 - 1) < 0.10, $"{c}.{k}: first {x1:G4}, round trip (mean of {seeds.Length} seeds) {x2:G4}");
             }
-        // Noise variances: 10 % where the renderer leaves room for it. Where its own pixelation already exceeds the exported
-        // noise (here L, along and across: the demo is a 40-cell draw of the same renderer's pixelation, ci95 of along
-        // [0, 0.021] um2), no noise is added, synth must say so, and the round trip is then limited by the first analysis'
-        // own uncertainty: it must lie inside the first analysis' 95 % interval (the 10 % is not met there; the numbers are
-        // in docs/sim-params.md#round-trip).
-        foreach (var c in Coords)
+        // Noise variances along and across: issue 14's 10 %, on the mean of the seeds. synth renders 2-fold finer (its own
+        // pixelation, about 1/4 of the demo's, stays below the target) and adds radial noise in the pole / flank sectors for
+        // the rest, so the render must not exceed the target there (docs/sim-params.md#round-trip).
+        foreach (var c in new[] { "along", "across" })
+        {
+            double e1 = V(f1, c, "noise_variance_um2"), e2 = Mean(r => V(r.Fluct, c, "noise_variance_um2"));
+            Assert.All(runs, r => Assert.False(r.Truth["noise"]![c]!["render_exceeds_target"]!.GetValue<bool>()));
+            Assert.True(Math.Abs(e2 / e1 - 1) < 0.10, $"{c}.noise_variance: first {e1:G4}, round trip (mean of {seeds.Length} seeds) {e2:G4}");
+        }
+        // L and W: the demo's e2_L and e2_W are 0 (at the bound; ci95 [0, 0.049] and [0, 0.010] um2), and a rendered outline
+        // always has some pixelation there, so 10 % of 0 cannot be met. Where the render alone exceeds the target synth must
+        // say so, and the round trip must lie inside the first analysis' 95 % interval (its own uncertainty); where it does
+        // not (no seed exceeds), 10 % (or exactly 0 for a target of 0).
+        foreach (var c in new[] { "L", "W" })
         {
             double e1 = V(f1, c, "noise_variance_um2"), e2 = Mean(r => V(r.Fluct, c, "noise_variance_um2"));
             bool exceeds = runs.Any(r => r.Truth["noise"]![c]!["render_exceeds_target"]!.GetValue<bool>());
