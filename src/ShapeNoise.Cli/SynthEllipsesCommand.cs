@@ -27,7 +27,7 @@ internal sealed class SynthEllipsesCommand : Command<SynthEllipsesCommand.Settin
         [CommandOption("--height <PX>"), Description("Canvas height (0 = fit the cells).")] public int Height { get; init; }
         [CommandOption("--pixel-size <UM>"), Description("Pixel size written to the OME-XML (um/px).")] public double PixelSize { get; init; } = 0.5;
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval written to the OME-XML (min).")] public double FrameInterval { get; init; } = 2;
-        [CommandOption("--from <SIM_PARAMS>"), Description("Simulate what a sim-params.json of `analyze` describes: sets the semi-axis sigmas, correlation times, measurement noise, mean size and the scales (docs/sim-params.md#round-trip); --pixel-size / --frame-interval convert a file in um / min whose analysis read them from the movie's metadata.")] public string? From { get; init; }
+        [CommandOption("--from <SIM_PARAMS>"), Description("Simulate what a sim-params.json of `analyze` describes: sets the semi-axis sigmas, correlation times, mean size and the scales, renders 2-fold finer and adds the measurement noise the render does not make (docs/sim-params.md#round-trip); --pixel-size / --frame-interval convert a file in um / min whose analysis read them from the movie's metadata.")] public string? From { get; init; }
         [CommandOption("--seed <N>"), Description("Random seed: the same seed gives the same bytes.")] public int Seed { get; init; } = 7;
 
         public override ValidationResult Validate() => string.IsNullOrWhiteSpace(Out) ? ValidationResult.Error("--out <DIR> is required") : ValidationResult.Success();
