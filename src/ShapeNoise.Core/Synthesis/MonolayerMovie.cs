@@ -612,21 +612,8 @@ public sealed class MonolayerMovie
     {
         if (_flow is not null) { AssignPeriodic(seeds, t, owner); return; }
         double cell = _a;
-        int bx = (int)Math.Ceiling(Width / cell), by = (int)Math.Ceiling(Height / cell), n = seeds.Count;
-        var sx = new double[n]; var sy = new double[n]; var mxx = new double[n]; var mxy = new double[n]; var myy = new double[n];
-        var bucketOf = new int[n]; var start = new int[bx * by + 1];
-        for (int s = 0; s < n; s++)
-        {
-            (sx[s], sy[s]) = seeds[s];
-            var (ra, rb) = RegionNoise(t, sx[s], sy[s]);
-            (mxx[s], mxy[s], myy[s]) = Metric(Director(t, sx[s], sy[s]),
-                _noiseA is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAlong * ra * _noiseA[s]), _noiseB is null ? 1 : Math.Max(0.3, 1 + Options.SigmaAcross * rb * _noiseB[s]));
-            bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / cell)) * bx + Math.Min(bx - 1, (int)(sx[s] / cell));
-            start[bucketOf[s] + 1]++;
-        }
-        for (int k = 0; k < bx * by; k++) start[k + 1] += start[k];
-        var items = new int[n]; var fill = (int[])start.Clone();
-        for (int s = 0; s < n; s++) items[fill[bucketOf[s]]++] = s;
+        int bx = (int)Math.Ceiling(Width / cell), by = (int)Math.Ceiling(Height / cell);
+        var (sx, sy, mxx, mxy, myy, start, items) = Buckets(seeds, t, bx, by, cell, cell);
         Parallel.For(0, Height, y =>
         {
             double fy = y + 0.5;
@@ -654,6 +641,27 @@ public sealed class MonolayerMovie
         });
     }
 
+    /// <summary>Seed positions and metrics of frame t, bucketed on a bx x by grid of cells cw x ch (px): the seeds of bucket k
+    /// are items[start[k] .. start[k + 1]), in seed order (a counting sort); shared by <see cref="Assign"/> and <see cref="AssignPeriodic"/>.</summary>
+    private (double[] X, double[] Y, double[] Mxx, double[] Mxy, double[] Myy, int[] Start, int[] Items) Buckets(List<(double X, double Y)> seeds,
+        int t, int bx, int by, double cw, double ch)
+    {
+        int n = seeds.Count;
+        var sx = new double[n]; var sy = new double[n]; var mxx = new double[n]; var mxy = new double[n]; var myy = new double[n];
+        var bucketOf = new int[n]; var start = new int[bx * by + 1];
+        for (int s = 0; s < n; s++)
+        {
+            (sx[s], sy[s]) = seeds[s];
+            (mxx[s], mxy[s], myy[s]) = SeedMetric(t, s, sx[s], sy[s]);
+            bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / ch)) * bx + Math.Min(bx - 1, (int)(sx[s] / cw));
+            start[bucketOf[s] + 1]++;
+        }
+        for (int k = 0; k < bx * by; k++) start[k + 1] += start[k];
+        var items = new int[n]; var fill = (int[])start.Clone();
+        for (int s = 0; s < n; s++) items[fill[bucketOf[s]]++] = s;
+        return (sx, sy, mxx, mxy, myy, start, items);
+    }
+
     /// <summary>Metric of seed s in frame t: the director at the seed, A and B scaled by the shape noise and the region.</summary>
     private (double Mxx, double Mxy, double Myy) SeedMetric(int t, int s, double x, double y)
     {
@@ -668,20 +676,9 @@ public sealed class MonolayerMovie
     /// by), the search wraps around, and offsets are reduced to the nearest periodic image.</summary>
     private void AssignPeriodic(List<(double X, double Y)> seeds, int t, int[] owner)
     {
-        int bx = Math.Max(1, (int)(Width / _a)), by = Math.Max(1, (int)(Height / _a)), n = seeds.Count;
+        int bx = Math.Max(1, (int)(Width / _a)), by = Math.Max(1, (int)(Height / _a));
         double cw = Width / (double)bx, ch = Height / (double)by;
-        var sx = new double[n]; var sy = new double[n]; var mxx = new double[n]; var mxy = new double[n]; var myy = new double[n];
-        var bucketOf = new int[n]; var start = new int[bx * by + 1];
-        for (int s = 0; s < n; s++)
-        {
-            (sx[s], sy[s]) = seeds[s];
-            (mxx[s], mxy[s], myy[s]) = SeedMetric(t, s, sx[s], sy[s]);
-            bucketOf[s] = Math.Min(by - 1, (int)(sy[s] / ch)) * bx + Math.Min(bx - 1, (int)(sx[s] / cw));
-            start[bucketOf[s] + 1]++;
-        }
-        for (int k = 0; k < bx * by; k++) start[k + 1] += start[k];
-        var items = new int[n]; var fill = (int[])start.Clone();
-        for (int s = 0; s < n; s++) items[fill[bucketOf[s]]++] = s;
+        var (sx, sy, mxx, mxy, myy, start, items) = Buckets(seeds, t, bx, by, cw, ch);
         Parallel.For(0, Height, y =>
         {
             double fy = y + 0.5;
