@@ -1,5 +1,3 @@
-using System.Numerics;
-
 namespace ShapeNoise.Motion;
 
 /// <summary>Radially binned pair sums of one field on one frame: bin b holds the ordered node pairs with round(r / h) = b.
@@ -44,7 +42,7 @@ public sealed record RadialSums(double[] Sum, double[] Pairs, double[] RSum)
 /// least n + bins along each axis, so no displacement wraps around.
 /// </summary>
 /// <remarks>Correlation by the Wiener-Khinchin theorem with zero padding: Press W.H. et al. (2007), Numerical Recipes,
-/// 3rd ed., section 13.2 (correlation and autocorrelation using the FFT). Two real fields share one complex transform:
+/// 3rd ed., section 13.2 (correlation and autocorrelation using the FFT). The transform is <see cref="Radix2Fft"/>, pruned: rows that are all zero are not transformed and the inverse is taken only at the displacements that are binned. Two real fields share one complex transform:
 /// for z = a + i b, A(k) = (Z(k) + conj Z(-k)) / 2 and B(k) = (Z(k) - conj Z(-k)) / (2i) (Numerical Recipes section 12.3).</remarks>
 public static class FieldCorrelation
 {
@@ -53,28 +51,30 @@ public static class FieldCorrelation
     public static RadialSums Of(int nx, int ny, double spacingPx, double[] a, double[]? b, double[] keep, int bins)
     {
         int px = PowerOfTwo(nx + bins), py = PowerOfTwo(ny + bins);
-        var z = Packed(nx, ny, px, py, a, b);
-        Transform(z, px, py, inverse: false);
-        var m = Packed(nx, ny, px, py, keep, null);
-        Transform(m, px, py, inverse: false);
+        int reachX = Math.Min(bins, nx - 1), reachY = Math.Min(bins, ny - 1);
+        var (zr, zi) = Spectrum(nx, ny, px, py, a, b);
+        var (mr, mi) = Spectrum(nx, ny, px, py, keep, null);
         // Power spectra: |A|^2 + |B|^2 = (|Z(k)|^2 + |Z(-k)|^2) / 2 for z = a + i b; the mask's |M|^2 in the imaginary part
         // (both autocorrelations are real and even, so one inverse transform returns them as real and imaginary parts).
-        var s = new Complex[px * py];
-        for (int j = 0; j < py; j++)
-            for (int i = 0; i < px; i++)
+        // The spectra are stored transposed: index kx py + ky.
+        var sr = new double[px * py]; var si = new double[px * py];
+        for (int kx = 0; kx < px; kx++)
+            for (int ky = 0; ky < py; ky++)
             {
-                int k = j * px + i, kn = ((py - j) % py) * px + (px - i) % px;
-                double pab = b is null ? Half(z[k], z[kn]) : 0.5 * (Norm(z[k]) + Norm(z[kn]));
-                s[k] = new Complex(pab, Norm(m[k]));
+                int k = kx * py + ky, kn = ((px - kx) % px) * py + (py - ky) % py;
+                sr[k] = b is null ? Half(zr[k], zi[k], zr[kn], zi[kn]) : 0.5 * (zr[k] * zr[k] + zi[k] * zi[k] + zr[kn] * zr[kn] + zi[kn] * zi[kn]);
+                si[k] = mr[k] * mr[k] + mi[k] * mi[k];
             }
-        Transform(s, px, py, inverse: true);
-        return Binned(s, px, py, nx, ny, spacingPx, bins);
+        var (cr, ci) = Inverse(sr, si, px, py, reachY);
+        return Binned(cr, ci, px, reachX, reachY, spacingPx, bins);
     }
 
     /// <summary>|A(k)|^2 of the real part a of z = a + i b from Z(k) and Z(-k): A = (Z(k) + conj Z(-k)) / 2.</summary>
-    private static double Half(Complex zk, Complex zn) => Norm((zk + Complex.Conjugate(zn)) / 2);
-
-    private static double Norm(Complex c) => c.Real * c.Real + c.Imaginary * c.Imaginary;
+    private static double Half(double re, double im, double reN, double imN)
+    {
+        double x = 0.5 * (re + reN), y = 0.5 * (im - imN);
+        return x * x + y * y;
+    }
 
     private static int PowerOfTwo(int n)
     {
@@ -83,50 +83,62 @@ public static class FieldCorrelation
         return p;
     }
 
-    /// <summary>a + i b on the padded grid (b null: imaginary part 0).</summary>
-    private static Complex[] Packed(int nx, int ny, int px, int py, double[] a, double[]? b)
+    /// <summary>The 2D transform of a + i b (b null: 0) zero-padded to px x py, returned transposed (index kx py + ky):
+    /// the row transforms skip the py - ny rows that are all zero (docs/motion.md#spatial-correlations-by-fft).</summary>
+    private static (double[] Re, double[] Im) Spectrum(int nx, int ny, int px, int py, double[] a, double[]? b)
     {
-        var z = new Complex[px * py];
+        var fx = Radix2Fft.For(px);
+        var rowR = new double[px]; var rowI = new double[px];
+        var tr = new double[px * py]; var ti = new double[px * py];
         for (int j = 0; j < ny; j++)
-            for (int i = 0; i < nx; i++)
-                z[j * px + i] = new Complex(a[j * nx + i], b is null ? 0 : b[j * nx + i]);
-        return z;
-    }
-
-    /// <summary>In-place 2D transform (rows, then columns) with FftSharp's forward radix-2 FFT. The inverse is taken as
-    /// conj(FFT(conj z)) / (px py), so its scaling does not depend on the library's inverse convention.</summary>
-    private static void Transform(Complex[] z, int px, int py, bool inverse)
-    {
-        if (inverse) for (int k = 0; k < z.Length; k++) z[k] = Complex.Conjugate(z[k]);
-        var span = z.AsSpan();
-        for (int j = 0; j < py; j++) FftSharp.FFT.Forward(span.Slice(j * px, px));
-        var col = new Complex[py];
-        for (int i = 0; i < px; i++)
         {
-            for (int j = 0; j < py; j++) col[j] = z[j * px + i];
-            FftSharp.FFT.Forward(col);
-            for (int j = 0; j < py; j++) z[j * px + i] = col[j];
+            Array.Clear(rowR); Array.Clear(rowI);
+            a.AsSpan(j * nx, nx).CopyTo(rowR);
+            if (b is not null) b.AsSpan(j * nx, nx).CopyTo(rowI);
+            fx.Forward(rowR, rowI);
+            for (int i = 0; i < px; i++) { tr[i * py + j] = rowR[i]; ti[i * py + j] = rowI[i]; }
         }
-        if (!inverse) return;
-        double f = 1.0 / ((double)px * py);
-        for (int k = 0; k < z.Length; k++) z[k] = Complex.Conjugate(z[k]) * f;
+        var fy = Radix2Fft.For(py);
+        for (int i = 0; i < px; i++) fy.Forward(tr.AsSpan(i * py, py), ti.AsSpan(i * py, py));
+        return (tr, ti);
     }
 
-    /// <summary>Bins the autocorrelations (real: the field's, imaginary: the mask's) by round(|d|) for |d_x| &lt; nx, |d_y| &lt; ny.</summary>
-    private static RadialSums Binned(Complex[] s, int px, int py, int nx, int ny, double h, int bins)
+    /// <summary>The inverse transform of the transposed spectrum s, conj(FFT(conj s)) / (px py), at the displacements
+    /// |d_y| &lt;= <paramref name="reachY"/> only: row r = d_y + reachY holds d_x = 0..px - 1 (negative d_x wrapped).</summary>
+    private static (double[] Re, double[] Im) Inverse(double[] sr, double[] si, int px, int py, int reachY)
+    {
+        for (int k = 0; k < si.Length; k++) si[k] = -si[k];
+        var fy = Radix2Fft.For(py);
+        for (int i = 0; i < px; i++) fy.Forward(sr.AsSpan(i * py, py), si.AsSpan(i * py, py));
+        int rows = 2 * reachY + 1;
+        var ur = new double[rows * px]; var ui = new double[rows * px];
+        for (int r = 0; r < rows; r++)
+        {
+            int dy = (r - reachY + py) % py;
+            for (int i = 0; i < px; i++) { ur[r * px + i] = sr[i * py + dy]; ui[r * px + i] = si[i * py + dy]; }
+        }
+        var fx = Radix2Fft.For(px);
+        double f = 1.0 / ((double)px * py);
+        for (int r = 0; r < rows; r++) fx.Forward(ur.AsSpan(r * px, px), ui.AsSpan(r * px, px));
+        for (int k = 0; k < ur.Length; k++) { ur[k] *= f; ui[k] *= -f; }
+        return (ur, ui);
+    }
+
+    /// <summary>Bins the autocorrelations (real: the field's, imaginary: the mask's) by round(|d|) for |d_x| &lt;= reachX,
+    /// |d_y| &lt;= reachY (rows of <see cref="Inverse"/>).</summary>
+    private static RadialSums Binned(double[] re, double[] im, int px, int reachX, int reachY, double h, int bins)
     {
         var r = RadialSums.Zero(bins);
-        int reachX = Math.Min(bins, nx - 1), reachY = Math.Min(bins, ny - 1);
         for (int dy = -reachY; dy <= reachY; dy++)
             for (int dx = -reachX; dx <= reachX; dx++)
             {
                 double dist = Math.Sqrt(dx * dx + dy * dy);
                 int bin = (int)Math.Round(dist);
                 if (bin >= bins) continue;
-                var v = s[((dy + py) % py) * px + (dx + px) % px];
-                double pairs = Math.Round(v.Imaginary);
+                int k = (dy + reachY) * px + (dx + px) % px;
+                double pairs = Math.Round(im[k]);
                 if (pairs <= 0) continue;
-                r.Sum[bin] += v.Real; r.Pairs[bin] += pairs; r.RSum[bin] += pairs * dist * h;
+                r.Sum[bin] += re[k]; r.Pairs[bin] += pairs; r.RSum[bin] += pairs * dist * h;
             }
         return r;
     }

@@ -146,7 +146,11 @@ public static class CoarseGraining
         return n;
     }
 
-    /// <summary>In-place separable Gaussian smoothing (sigma in grid units, kernel to 3 sigma, zero outside).</summary>
+    /// <summary>In-place separable Gaussian smoothing (sigma in grid units, kernel to 3 sigma, zero outside):
+    /// g(x, y) = sum_i k_i f(x + i, y), then f(x, y) = sum_i k_i g(x, y + i), k_i = exp(-i^2 / (2 sigma^2)).</summary>
+    /// <remarks>Each output adds its taps in the order i = -r..r, as a per-pixel loop would, but row by row (one
+    /// multiply-add over a whole row per tap, <see cref="System.Numerics.Vector{T}"/>-wide), so the result is bit-identical
+    /// to the per-pixel loop and the vertical pass reads memory in order (docs/defects.md#coarse-grained-fields; bench/README.md).</remarks>
     public static void Smooth(double[] f, int nx, int ny, double sigma)
     {
         int r = Math.Max(1, (int)Math.Ceiling(3 * sigma));
@@ -154,18 +158,40 @@ public static class CoarseGraining
         for (int i = -r; i <= r; i++) k[i + r] = Math.Exp(-0.5 * i * i / (sigma * sigma));
         var tmp = new double[f.Length];
         for (int y = 0; y < ny; y++)
-            for (int x = 0; x < nx; x++)
+        {
+            var src = f.AsSpan(y * nx, nx);
+            var dst = tmp.AsSpan(y * nx, nx);
+            for (int i = -r; i <= r; i++)
             {
-                double s = 0; int lo = Math.Max(-r, -x), hi = Math.Min(r, nx - 1 - x);
-                for (int i = lo; i <= hi; i++) s += k[i + r] * f[y * nx + x + i];
-                tmp[y * nx + x] = s;
+                // dst[x] += k_i src[x + i] for the x with 0 <= x + i < nx.
+                int lo = Math.Max(0, -i), hi = Math.Min(nx, nx - i);
+                if (hi > lo) MultiplyAdd(dst[lo..hi], src[(lo + i)..(hi + i)], k[i + r]);
             }
+        }
+        Array.Clear(f);
         for (int y = 0; y < ny; y++)
-            for (int x = 0; x < nx; x++)
+        {
+            var dst = f.AsSpan(y * nx, nx);
+            int lo = Math.Max(-r, -y), hi = Math.Min(r, ny - 1 - y);
+            for (int i = lo; i <= hi; i++) MultiplyAdd(dst, tmp.AsSpan((y + i) * nx, nx), k[i + r]);
+        }
+    }
+
+    /// <summary>dst[x] += c src[x] (a multiply then an add, not fused, so the rounding is that of the scalar loop).</summary>
+    private static void MultiplyAdd(Span<double> dst, ReadOnlySpan<double> src, double c)
+    {
+        int x = 0;
+        if (System.Numerics.Vector.IsHardwareAccelerated)
+        {
+            int w = System.Numerics.Vector<double>.Count;
+            var cv = new System.Numerics.Vector<double>(c);
+            for (; x <= dst.Length - w; x += w)
             {
-                double s = 0; int lo = Math.Max(-r, -y), hi = Math.Min(r, ny - 1 - y);
-                for (int i = lo; i <= hi; i++) s += k[i + r] * tmp[(y + i) * nx + x];
-                f[y * nx + x] = s;
+                var d = new System.Numerics.Vector<double>(dst[x..]);
+                var s = new System.Numerics.Vector<double>(src[x..]);
+                (d + cv * s).CopyTo(dst[x..]);
             }
+        }
+        for (; x < dst.Length; x++) dst[x] += c * src[x];
     }
 }
