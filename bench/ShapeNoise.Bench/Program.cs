@@ -3,6 +3,7 @@ using ShapeNoise.Cli.Jobs;
 // Usage: dotnet run --project bench/ShapeNoise.Bench -c Release -- [--quick] [--guard]
 //   default : 1024 x 1024 px, ~2500 cells, 100 and 200 frames (movies generated once into bench/data)
 //   --quick : 512 x 512 px, ~625 cells, 30 and 60 frames
+//   --phases: decode and the in-process phases only (with --quick for the small movie)
 //   --guard : quick run that fails (exit 1) when analysis/decode exceeds 3x the ratio recorded in bench/baseline.json
 using System.Diagnostics;
 using System.Text.Json;
@@ -18,6 +19,7 @@ using ShapeNoise.Synthesis;
 
 bool quick = args.Contains("--quick") || args.Contains("--guard");
 bool guard = args.Contains("--guard");
+bool phasesOnly = args.Contains("--phases");   // decode and the in-process phases only (for iterating on one change)
 string root = FindRoot();
 string data = Path.Combine(root, "bench", "data");
 int side = quick ? 512 : 1024, cells = quick ? 625 : 2500, frames = quick ? 30 : 100;
@@ -46,6 +48,12 @@ ResultWriter.Write(result, tmpOut, Provenance.Describe("analyze", [movieShort], 
 rows.Add(("report", sw.Elapsed.TotalSeconds, "tables, JSON, figures, overlays"));
 Directory.Delete(tmpOut, true);
 double analysisTotal = times.Phases.Sum(p => p.Seconds);
+if (phasesOnly)
+{
+    foreach (var (name, sec, _) in rows) Console.WriteLine($"{name,-28}{sec,10:F3}");
+    Console.WriteLine($"{"analysis total",-28}{analysisTotal,10:F3}  ({analysisTotal / decode:F1} x decode)");
+    return 0;
+}
 // Gap closing (docs/measures.md#one-frame-errors): the default --max-gap 2 against 0, same movie, in-process, best of 2.
 double RunWithGap(int g) => Enumerable.Range(0, 2).Min(_ =>
 {

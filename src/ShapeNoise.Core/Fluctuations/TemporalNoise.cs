@@ -76,16 +76,22 @@ public static class TemporalNoise
         int fitted = contour ? 4 : 2;
 
         var memo = new ConcurrentDictionary<int[], OuFit[]>(new WeightComparer());
-        OuFit[] FitAll(int[] w) => memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), key =>
+        OuFit[] Fitted(int[] key)
         {
             var r = new OuFit[4];
             for (int s = 2; s < 4; s++) r[s] = new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
             for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau);
             return r;
-        });
+        }
+        OuFit[] FitAll(int[] w, bool memoise = true) => memoise ? memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), Fitted) : Fitted(w);
         var ones = new int[t.Count]; Array.Fill(ones, 1);
         var point = FitAll(ones);
         Parallel.ForEach(plan.Draws, d => FitAll(d));   // warm the cache in parallel; the estimates below read it in order
+        // The block-edge inflation's leave-one-track-out fits, once for every statistic and in parallel, not through the cache
+        // (docs/statistics.md#block-edges).
+        var loo = LeaveOneOut(plan, t.Count, w => FitAll(w, memoise: false));
+
+        Func<int, double>? Loo(Func<OuFit[], double> f) => loo is null ? null : i => f(loo[i]);
 
         TemporalCoordinate Coordinate(int s)
         {
@@ -96,17 +102,34 @@ public static class TemporalNoise
             }
             var tau = Estimate.Fitted(point[s].TauFrames, plan.Draws.Select(d => FitAll(d)[s].TauFrames).ToArray(), plan.Units, plan.UnitName,
                 OrnsteinUhlenbeckFit.MinTauFrames, maxTau).WithResolutionLimit(maxLen);
-            var s2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].SignalVariance)), tau);
-            var e2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].NoiseVariance)), tau);
-            var d = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => { var f = FitAll(w)[s]; return f.SignalVariance / f.TauFrames; })), tau);
+            var s2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].SignalVariance, Loo(i => i[s].SignalVariance))), tau);
+            var e2 = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => FitAll(w)[s].NoiseVariance, Loo(i => i[s].NoiseVariance))), tau);
+            var d = WithTauBound(NonNegative(Bootstrap.Percentile(plan, w => { var f = FitAll(w)[s]; return f.SignalVariance / f.TauFrames; }, Loo(i => i[s].SignalVariance / i[s].TauFrames))), tau);
             var c0 = PooledAutocovariance.Pool(sums[s], [], out _);
             return new TemporalCoordinate(Names[s], s2, e2, tau, d, c0[0]);
         }
         var cs = Enumerable.Range(0, 4).Select(Coordinate).ToArray();
-        var anis = WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 0, 1)), cs[0].TauFrames), cs[1].TauFrames);
-        var anisC = contour ? WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 2, 3)), cs[2].TauFrames), cs[3].TauFrames)
+        var anis = WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 0, 1), Loo(i => Ratio(i, 0, 1))), cs[0].TauFrames), cs[1].TauFrames);
+        var anisC = contour ? WithTauBound(WithTauBound(Bootstrap.Percentile(plan, w => Ratio(FitAll(w), 2, 3), Loo(i => Ratio(i, 2, 3))), cs[2].TauFrames), cs[3].TauFrames)
             : cs[2].SignalVariancePx2;
         return new TemporalNoiseResult(cs[0], cs[1], cs[2], cs[3], anis, anisC, fitLags);
+    }
+
+    /// <summary>The fits with each item left out in turn (multiplicity 0, the others 1), computed in parallel; null when the
+    /// plan has no block-edge correction or fewer than 3 items (the inflation is then not computed).</summary>
+    private static OuFit[][]? LeaveOneOut(ResamplingPlan plan, int n, Func<int[], OuFit[]> fit)
+    {
+        if (!plan.EdgeCorrected || n < 3) return null;
+        var r = new OuFit[n][];
+        Parallel.For(0, n, () => Ones(n), (i, _, w) => { w[i] = 0; r[i] = fit(w); w[i] = 1; return w; }, _ => { });
+        return r;
+    }
+
+    private static int[] Ones(int n)
+    {
+        var w = new int[n];
+        Array.Fill(w, 1);
+        return w;
     }
 
     /// <summary>The result when no track has what the model needs: every estimate too few.</summary>

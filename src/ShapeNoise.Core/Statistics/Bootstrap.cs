@@ -154,6 +154,11 @@ public static class Bootstrap
 
     /// <summary>The same over the draws of a <see cref="ResamplingPlan"/> (items resampled by their unit: track or spatial block).</summary>
     public static Estimate Percentile(ResamplingPlan plan, Func<int[], double> statistic)
+        => Percentile(plan, statistic, null);
+
+    /// <summary>The same, with the leave-one-item-out values of the block-edge inflation given by
+    /// <paramref name="leaveOneOut"/> (null: computed from <paramref name="statistic"/>).</summary>
+    public static Estimate Percentile(ResamplingPlan plan, Func<int[], double> statistic, Func<int, double>? leaveOneOut)
     {
         var ones = new int[plan.Items];
         Array.Fill(ones, 1);
@@ -165,7 +170,8 @@ public static class Bootstrap
             if (double.IsFinite(s)) stats.Add(s);
         }
         var e = Interval(value, stats, plan.Units, plan.UnitName);
-        return e.IsOk && plan.EdgeCorrected ? Widened(e, EdgeInflation(plan, statistic)) : e;
+        if (!e.IsOk || !plan.EdgeCorrected) return e;
+        return Widened(e, leaveOneOut is null ? EdgeInflation(plan, statistic) : EdgeInflation(plan, leaveOneOut));
     }
 
     /// <summary>f = sqrt((W + C) / W) clamped to [1, 2]; 1 when W is not positive (docs/statistics.md#block-edges).</summary>
@@ -214,13 +220,22 @@ public static class Bootstrap
     {
         int n = plan.Items;
         if (n < 3) return 1;
-        var x = plan.ItemX!; var y = plan.ItemY!; var unit = plan.UnitOfItem;
         var w = new int[n]; Array.Fill(w, 1);
+        return EdgeInflation(plan, i => { w[i] = 0; double v = statistic(w); w[i] = 1; return v; });
+    }
+
+    /// <summary>The same from the leave-one-item-out values theta_(-i) = <paramref name="leaveOneOut"/>(i), for callers
+    /// that compute them once for several statistics (docs/statistics.md#block-edges).</summary>
+    public static double EdgeInflation(ResamplingPlan plan, Func<int, double> leaveOneOut)
+    {
+        int n = plan.Items;
+        if (n < 3) return 1;
+        var unit = plan.UnitOfItem;
         var loo = new double[n];
         double mean = 0;
         for (int i = 0; i < n; i++)
         {
-            w[i] = 0; loo[i] = statistic(w); w[i] = 1;
+            loo[i] = leaveOneOut(i);
             if (!double.IsFinite(loo[i])) return 1;
             mean += loo[i];
         }
@@ -229,17 +244,30 @@ public static class Bootstrap
         for (int i = 0; i < n; i++) u[i] = (n - 1) * (mean - loo[i]);
         var blockSum = new double[plan.Units];
         for (int i = 0; i < n; i++) blockSum[unit[i]] += u[i];
-        double within = 0, cross = 0, r2 = plan.EdgeRadiusPx * plan.EdgeRadiusPx;
+        double within = 0, cross = 0;
         foreach (var b in blockSum) within += b * b;
-        for (int i = 0; i < n; i++)
-            for (int j = i + 1; j < n; j++)
+        foreach (var (i, j) in EdgePairs(plan)) cross += 2 * u[i] * u[j];
+        return InflationFactor(within, cross);
+    }
+
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<ResamplingPlan, (int, int)[]> EdgePairCache = new();
+
+    /// <summary>The item pairs i &lt; j in different units within <see cref="ResamplingPlan.EdgeRadiusPx"/>, in the order
+    /// (i, then j) the inflation sums them; found once per plan.</summary>
+    private static (int I, int J)[] EdgePairs(ResamplingPlan plan) => EdgePairCache.GetValue(plan, p =>
+    {
+        var x = p.ItemX!; var y = p.ItemY!; var unit = p.UnitOfItem;
+        double r2 = p.EdgeRadiusPx * p.EdgeRadiusPx;
+        var pairs = new List<(int, int)>();
+        for (int i = 0; i < p.Items; i++)
+            for (int j = i + 1; j < p.Items; j++)
             {
                 if (unit[i] == unit[j]) continue;
                 double dx = x[i] - x[j], dy = y[i] - y[j];
-                if (dx * dx + dy * dy <= r2) cross += 2 * u[i] * u[j];
+                if (dx * dx + dy * dy <= r2) pairs.Add((i, j));
             }
-        return InflationFactor(within, cross);
-    }
+        return pairs.ToArray();
+    });
 
     /// <summary>The resamples themselves: for each, every unit's multiplicity (units drawn with replacement from one
     /// System.Random stream seeded with <paramref name="seed"/>, in order).</summary>

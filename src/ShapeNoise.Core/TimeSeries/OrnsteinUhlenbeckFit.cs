@@ -117,7 +117,7 @@ internal static class OrnsteinUhlenbeckFit
     public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames = 0)
     {
         int K = fitLags + 1;
-        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs);
+        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2));   // only the fitted lags (and lag 1)
         if (c.Length < 2 || !(c[0] > 0) || pairs[1] == 0) return new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
         K = Math.Min(K, c.Length);
         double r1 = c[1] / c[0];

@@ -39,8 +39,13 @@ internal static class PooledAutocovariance
 
     /// <summary>Pooled autocovariance c(k) = sum_i w_i Sum_i[k] / sum_i w_i Pairs_i[k] with track weights (bootstrap multiplicities).</summary>
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs)
+        => Pool(tracks, weights, out pairs, int.MaxValue);
+
+    /// <summary>The same for lags 0..<paramref name="lags"/> - 1 only (each lag is pooled on its own, so these values are
+    /// those of the full pooling; a fit over its first lags need not pool the rest).</summary>
+    public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags)
     {
-        int K = tracks.Count > 0 ? tracks[0].Sum.Length : 0;
+        int K = tracks.Count > 0 ? Math.Min(lags, tracks[0].Sum.Length) : 0;
         var c = new double[K]; pairs = new long[K];
         for (int i = 0; i < tracks.Count; i++)
         {
