@@ -102,6 +102,40 @@ internal static class OrientationCorrelation
     /// independent and picks a spurious plateau; the generalized chi^2 is the Gaussian -2 ln L of the curve up to a constant.
     /// A plateau fit at p = 0 or 1, or with A &lt; <see cref="MinAmplitude"/> (nothing decorrelates), is not admissible: the no-plateau fit is kept.
     /// </summary>
+    /// <summary>The lower triangle (b &lt;= a) of sum_i w_i d_i[a] d_i[b], d_i[a] = (Sum_i[k] - c[k] Pairs_i[k]) / pairs[k] with
+    /// k = idx[a] + 1: each row is added as (w_i d_i[a]) d_i[b] over b, a multiply then an add per element (vector-wide, not
+    /// fused), so the sums are those of the element-by-element loop.</summary>
+    private static double[,] LowerCovariance(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, double[] c, long[] pairs, int[] idx)
+    {
+        int m = idx.Length;
+        var flat = new double[m * m];
+        var d = new double[m];
+        for (int i = 0; i < tracks.Count; i++)
+        {
+            int wi = weights.Length == 0 ? 1 : weights[i];
+            if (wi == 0) continue;
+            var t = tracks[i];
+            for (int a = 0; a < m; a++) { int k = idx[a] + 1; d[a] = (t.Sum[k] - c[k] * t.Pairs[k]) / pairs[k]; }
+            for (int a = 0; a < m; a++) AddScaled(flat.AsSpan(a * m, a + 1), d.AsSpan(0, a + 1), wi * d[a]);
+        }
+        var cov = new double[m, m];
+        for (int a = 0; a < m; a++) for (int b = 0; b <= a; b++) cov[a, b] = flat[a * m + b];
+        return cov;
+    }
+
+    private static void AddScaled(Span<double> dst, ReadOnlySpan<double> src, double f)
+    {
+        int x = 0;
+        if (System.Numerics.Vector.IsHardwareAccelerated)
+        {
+            int n = System.Numerics.Vector<double>.Count;
+            var fv = new System.Numerics.Vector<double>(f);
+            for (; x <= dst.Length - n; x += n)
+                (new System.Numerics.Vector<double>(dst[x..]) + fv * new System.Numerics.Vector<double>(src[x..])).CopyTo(dst[x..]);
+        }
+        for (; x < dst.Length; x++) dst[x] += f * src[x];
+    }
+
     public static PlateauFit FitTracks(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames)
     {
         var c = Pool(tracks, weights, out var pairs);
@@ -113,15 +147,7 @@ internal static class OrientationCorrelation
         if (used < 2) return new PlateauFit(double.NaN, double.NaN, double.NaN);
         var idx = Enumerable.Range(0, K).Where(k => w[k] > 0).ToArray();
         int m = idx.Length;
-        var cov = new double[m, m];
-        var d = new double[m];
-        for (int i = 0; i < tracks.Count; i++)
-        {
-            int wi = weights.Length == 0 ? 1 : weights[i];
-            if (wi == 0) continue;
-            for (int a = 0; a < m; a++) { int k = idx[a] + 1; d[a] = (tracks[i].Sum[k] - c[k] * tracks[i].Pairs[k]) / pairs[k]; }
-            for (int a = 0; a < m; a++) for (int b = 0; b <= a; b++) cov[a, b] += wi * d[a] * d[b];
-        }
+        var cov = LowerCovariance(tracks, weights, c, pairs, idx);
         for (int a = 0; a < m; a++) for (int b = 0; b < a; b++) cov[a, b] = cov[b, a] = (1 - Shrinkage) * cov[a, b];
         var mat = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(cov);
         double tiny = 1e-12 * Math.Max(1e-300, Enumerable.Range(0, m).Max(a => cov[a, a]));

@@ -123,20 +123,25 @@ internal static class OrnsteinUhlenbeckFit
         double r1 = c[1] / c[0];
         double uncorrected = r1 > 0 && r1 < 1 ? -1 / Math.Log(r1) : double.NaN;
 
-        // Group tracks by shape: contiguous tracks of the same length share one expectation.
-        var groups = new Dictionary<int, long>();          // length -> total weight (contiguous tracks)
+        // Group tracks by shape: contiguous tracks of the same length share one expectation (groups in order of first
+        // appearance among the tracks with a weight, as the objective sums them).
+        var shapes = TrackShapes.Of(frames);
+        var groupWeight = new long[shapes.LongestContiguous + 1];
+        var order = new List<int>();
         var gapped = new List<(int[] Frames, int W)>();
         int maxLen = 1;
-        var w = weights.ToArray();
         for (int i = 0; i < tracks.Count; i++)
         {
-            int wi = w.Length == 0 ? 1 : w[i];
+            int wi = weights.Length == 0 ? 1 : weights[i];
             if (wi == 0) continue;
-            var f = frames[i];
-            maxLen = Math.Max(maxLen, f[^1] - f[0] + 1);
-            if (f[^1] - f[0] == f.Length - 1) groups[f.Length] = groups.GetValueOrDefault(f.Length) + wi;
-            else gapped.Add((f, wi));
+            maxLen = Math.Max(maxLen, shapes.Span[i]);
+            int len = shapes.ContiguousLength[i];
+            if (len < 0) { gapped.Add((frames[i], wi)); continue; }
+            if (groupWeight[len] == 0) order.Add(len);
+            groupWeight[len] += wi;
         }
+        var groups = new (int Length, long Weight)[order.Count];
+        for (int g = 0; g < groups.Length; g++) groups[g] = (order[g], groupWeight[order[g]]);
         var eS = new double[K]; var eN = new double[K]; var tS = new double[K]; var tN = new double[K];
         var target = new double[K]; var weight = new double[K];
         // Gapped tracks: their expectation is linear in the powers rho^h, so their weighted lag structure is summed once
@@ -183,6 +188,31 @@ internal static class OrnsteinUhlenbeckFit
         Objective(rho, out var sig2, out var eta2);
         return new OuFit(rho, tau, sig2, eta2, uncorrected);
     }
+}
+
+/// <summary>Per track: the span f_last - f_first + 1 (frames) and the length when the frames are contiguous (-1 with
+/// gaps); computed once per frame list and cached, since every bootstrap fit groups the same tracks.</summary>
+internal sealed class TrackShapes
+{
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<IReadOnlyList<int[]>, TrackShapes> Cache = new();
+
+    public int[] Span { get; }
+    public int[] ContiguousLength { get; }
+    public int LongestContiguous { get; }
+
+    private TrackShapes(IReadOnlyList<int[]> frames)
+    {
+        Span = new int[frames.Count]; ContiguousLength = new int[frames.Count];
+        for (int i = 0; i < frames.Count; i++)
+        {
+            var f = frames[i];
+            Span[i] = f[^1] - f[0] + 1;
+            ContiguousLength[i] = f[^1] - f[0] == f.Length - 1 ? f.Length : -1;
+            LongestContiguous = Math.Max(LongestContiguous, ContiguousLength[i]);
+        }
+    }
+
+    public static TrackShapes Of(IReadOnlyList<int[]> frames) => Cache.GetValue(frames, static f => new TrackShapes(f));
 }
 
 /// <summary>
