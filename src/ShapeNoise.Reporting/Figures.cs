@@ -12,37 +12,46 @@ public static class Figures
     /// <summary>Every figure of an analysis, drawn in memory, in the order the report shows them (file name, caption, PNG bytes).</summary>
     public static List<Figure> All(AnalysisResult r)
     {
-        // Each plot is disposed once its PNG bytes are taken (Plot is IDisposable in ScottPlot 5; the bytes are a copy).
-        using var anisotropy = Anisotropy(r);
-        using var profile = Profile(r);
-        using var spectrum = Spectrum(r);
-        using var headward = Headward(r);
-        using var defectFlow = DefectFlow(r);
-        using var drift = Drift(r);
-        var figures = new List<Figure>
+        // Independent plots are drawn in parallel (one Plot per task) and kept in the report's order.
+        var makers = new List<Func<IEnumerable<Figure>>>
         {
-            new(AnalysisFolder.AnisotropyFigure, "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).", Png(anisotropy, W, H)),
-            new(AnalysisFolder.ProfileFigure, "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.", Png(profile, W, H)),
-            new(AnalysisFolder.SpectrumFigure, "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.", Png(spectrum, W, H)),
+            () => [Single(AnalysisFolder.AnisotropyFigure, "Each point is a track: its length variance against its width variance. Points above the dashed line fluctuate more in length; the solid line's slope is the pooled ratio (anisotropy).", () => Anisotropy(r), W, H)],
+            () => [Single(AnalysisFolder.ProfileFigure, "Contour variance against the angle of the outline's normal from the long axis: 0° is the pole, 90° the flank. Raw, noise floor and corrected; the dotted line separates the two sectors.", () => Profile(r), W, H)],
+            () => [Single(AnalysisFolder.SpectrumFigure, "Mode power of the body-frame Fourier modes (log scale). A flat tail at high modes is measurement noise; the dashed line is the floor subtracted.", () => Spectrum(r), W, H)],
+            () => AutocorrelationSheet(r),
+            () => [Single(AnalysisFolder.HeadwardFigure, "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).", () => Headward(r), W, H)],
+            () => [Single(AnalysisFolder.DefectFlowFigure, "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.", () => DefectFlow(r), 640, 640)],
+            () => [Single(AnalysisFolder.DriftFigure, r.Defects.DriftRemoved
+                ? "The tissue's velocity per frame (median cell velocity, x and y): stage drift, removed from every cell velocity and from the defects' motion before the defect statistics."
+                : "The tissue's velocity per frame (median cell velocity, x and y): stage drift, kept in the defect statistics (--keep-drift).", () => Drift(r), W, H)],
+            () => [DefectStatisticsReport.SurvivalFigure(r)],
+            () => DefectStatisticsReport.SweepFigure(r) is { } sweep ? [sweep] : [],
+            () => MotionReport.Figures(r),
         };
-        if (r.Dynamics.Series.Count > 0)
-        {
-            var panels = Autocorrelation(r);
-            byte[] sheet;
-            try { sheet = Grid(panels, 3, 480, 360); }
-            finally { foreach (var panel in panels) panel.Dispose(); }
-            figures.Add(new(AnalysisFolder.AutocorrelationFigure, "Pooled autocorrelation of each quantity with its 95% band (points, shading) and the fitted model (line), whose correlation time is in the panel title. Dips below zero at long lags are the expected bias of subtracting each track's mean, which the model includes.",
-                sheet));
-        }
-        figures.Add(new(AnalysisFolder.HeadwardFigure, "Per +1/2 defect track, the speed along its head direction: right of zero the defect moves toward its head (extensile-like), left toward its tail (contractile-like).", Png(headward, W, H)));
-        figures.Add(new(AnalysisFolder.DefectFlowFigure, "Mean cell flow (arrows) and director (grey bars) around +1/2 defects, rotated so every head points to the right.", Png(defectFlow, 640, 640)));
-        figures.Add(new(AnalysisFolder.DriftFigure, r.Defects.DriftRemoved
-            ? "The tissue's velocity per frame (median cell velocity, x and y): stage drift, removed from every cell velocity and from the defects' motion before the defect statistics."
-            : "The tissue's velocity per frame (median cell velocity, x and y): stage drift, kept in the defect statistics (--keep-drift).", Png(drift, W, H)));
-        figures.Add(DefectStatisticsReport.SurvivalFigure(r));
-        if (DefectStatisticsReport.SweepFigure(r) is { } sweep) figures.Add(sweep);
-        figures.AddRange(MotionReport.Figures(r));
+        var parts = new List<Figure>[makers.Count];
+        Parallel.For(0, makers.Count, i => parts[i] = makers[i]().ToList());
+        var figures = new List<Figure>();
+        foreach (var p in parts) figures.AddRange(p);
         return figures;
+    }
+
+    /// <summary>One plot rendered to PNG and disposed (Plot is IDisposable in ScottPlot 5; the bytes are a copy).</summary>
+    private static Figure Single(string fileName, string caption, Func<Plot> draw, int width, int height)
+    {
+        using var plot = draw();
+        return new Figure(fileName, caption, Png(plot, width, height));
+    }
+
+    /// <summary>The autocorrelation panels as one sheet, or nothing when there are no series.</summary>
+    private static IEnumerable<Figure> AutocorrelationSheet(AnalysisResult r)
+    {
+        if (r.Dynamics.Series.Count == 0) return [];
+        var panels = Autocorrelation(r);
+        byte[] sheet;
+        try { sheet = Grid(panels, 3, 480, 360); }
+        finally { foreach (var panel in panels) panel.Dispose(); }
+        return [new Figure(AnalysisFolder.AutocorrelationFigure, "Pooled autocorrelation of each quantity with its 95% band (points, shading) and the fitted model (line), whose correlation time is in the panel title. Dips below zero at long lags are the expected bias of subtracting each track's mean, which the model includes.",
+            sheet)];
     }
 
     /// <summary>Saves figures into <paramref name="dir"/> under their file names.</summary>

@@ -18,7 +18,10 @@ public static class ResultWriter
         OutputFolder.Write(outDir, dir =>
         {
             string In(string name) => Path.Combine(dir, name);
-            Tables.WriteAll(r, dir);
+            // The tables, the figures and the figures drawn on frames are independent: written side by side.
+            var tables = Task.Run(() => Tables.WriteAll(r, dir));
+            var drawn = Task.Run(() => Figures.All(r));
+            var onFrames = Task.Run(() => frameFigures?.Invoke() ?? []);
             var summary = Summary.Build(r);
             File.WriteAllText(In(AnalysisFolder.Summary), summary.ToJsonString(Summary.Indented));
             Tables.Write(In(AnalysisFolder.Estimates), Tables.Estimates(summary), new EstimateMap());
@@ -27,8 +30,10 @@ public static class ResultWriter
             var sim = SimulationParameters.Build(r, provenance);
             if (r.Options.SimFormat == SimFormat.Toml) File.WriteAllText(In(AnalysisFolder.SimParamsToml), SimulationParameters.ToToml(sim));
             else File.WriteAllText(In(AnalysisFolder.SimParamsJson), sim.ToJsonString(Summary.Indented));
-            var figures = Figures.All(r);
-            var frames = frameFigures?.Invoke() ?? [];
+            // GetResult rethrows a task's own exception (not an AggregateException), so output errors keep their exit code.
+            tables.GetAwaiter().GetResult();
+            var figures = drawn.GetAwaiter().GetResult();
+            var frames = onFrames.GetAwaiter().GetResult();
             Figures.Save(figures, dir);
             Figures.Save(frames, dir);
             extra?.Invoke(dir);

@@ -33,7 +33,8 @@ public static class MovieAnalyzer
     {
         times ??= new PhaseTimes();
         options.Validated();
-        return RunFrames(movie.Info, LabelFrames(movie, options, times), options, progress, floorReference, times, velocities);
+        // Decoding, scanning and tracing of the next frames overlap the measuring of this one (two frames ahead at most).
+        return RunFrames(movie.Info, Prefetch.Ahead(LabelFrames(movie, options, times), 2), options, progress, floorReference, times, velocities);
     }
 
     /// <summary>Label frames to outlines (largest 4-connected component per label) linked by mask overlap.</summary>
