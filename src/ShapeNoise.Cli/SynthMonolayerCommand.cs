@@ -39,7 +39,7 @@ internal sealed class SynthMonolayerCommand : Command<SynthMonolayerCommand.Sett
         [CommandOption("--frame-interval <MIN>"), Description("Frame interval written to the OME-XML (min).")] public double FrameInterval { get; init; } = 5;
         [CommandOption("--pairs <N>"), Description("Number of +1/2 / -1/2 defect pairs (more than 1: a many-defect tissue whose regions differ in shape-noise anisotropy).")] public int Pairs { get; init; } = 1;
         [CommandOption("--hypothesis <BOOL>"), Description("With --pairs > 1: true = each +1/2 moves headward or tailward at a speed following its region's anisotropy; false = speeds independent of anisotropy.")] public string Hypothesis { get; init; } = "true";
-        [CommandOption("--anisotropy-spread <G>"), Description("With --pairs > 1: regions multiply var_L/var_W by G^(2z), z in [-1, 1].")] public double AnisotropySpread { get; init; } = 1.6;
+        [CommandOption("--anisotropy-spread <G>"), Description("With --pairs > 1: regions multiply var_L/var_W by G^(2z), z in [[-1, 1]].")] public double AnisotropySpread { get; init; } = 1.6;
         [CommandOption("--from <SIM_PARAMS>"), Description("Simulate the shape noise a sim-params.json of `analyze` describes: sets --sigma-along, --sigma-across, --tau, --tau-across, --cell-area and the scales (docs/sim-params.md#monolayer-round-trip); --aspect is kept; --pixel-size / --frame-interval convert a file in um / min whose analysis read them from the movie's metadata.")] public string? From { get; init; }
         [CommandOption("--seed <N>"), Description("Random seed: the same seed gives the same bytes.")] public int Seed { get; init; } = 11;
 

@@ -21,4 +21,22 @@ public class OptionNamesTests
         Assert.Equal(64, r.ExitCode);
         Assert.Contains("--max-gap must be >= 0", r.Stderr);
     }
+
+    /// <summary>Every command's --help renders (option descriptions are console markup: a bracket left unescaped made
+    /// `synth monolayer --help` fail with exit 1).</summary>
+    [Theory]
+    [InlineData("analyze")]
+    [InlineData("segment")]
+    [InlineData("score")]
+    [InlineData("compare")]
+    [InlineData("plan")]
+    [InlineData("synth", "monolayer")]
+    [InlineData("synth", "ellipses")]
+    public void Help_EveryCommand_ListsItsOptions(params string[] command)
+    {
+        var r = Support.Cli.Run([.. command, "--help"]);
+        Assert.Equal(0, r.ExitCode);
+        Assert.Contains("OPTIONS:", r.Stdout);
+        Assert.DoesNotContain("unexpected", r.Stderr);
+    }
 }
