@@ -4,6 +4,7 @@ using ShapeNoise.Cli.Jobs;
 //   default : 1024 x 1024 px, ~2500 cells, 100 and 200 frames (movies generated once into bench/data)
 //   --quick : 512 x 512 px, ~625 cells, 30 and 60 frames
 //   --phases: decode and the in-process phases only (with --quick for the small movie)
+//   --scale : also 2048 x 2048 px, ~10 000 cells, 200 frames end to end, against 4 x 2 x the 1024 x 1024, 100-frame time
 //   --guard : quick run that fails (exit 1) when analysis/decode exceeds 3x the ratio recorded in bench/baseline.json
 using System.Diagnostics;
 using System.Text.Json;
@@ -19,7 +20,8 @@ using ShapeNoise.Synthesis;
 
 bool quick = args.Contains("--quick") || args.Contains("--guard");
 bool guard = args.Contains("--guard");
-bool phasesOnly = args.Contains("--phases");   // decode and the in-process phases only (for iterating on one change)
+bool phasesOnly = args.Contains("--phases");
+bool scale = args.Contains("--scale");       // also the 2048 x 2048 px, 200-frame, ~10 000-cell movie end to end (issue 16)   // decode and the in-process phases only (for iterating on one change)
 string root = FindRoot();
 string data = Path.Combine(root, "bench", "data");
 int side = quick ? 512 : 1024, cells = quick ? 625 : 2500, frames = quick ? 30 : 100;
@@ -94,6 +96,15 @@ var ratios = new JsonObject
     ["peak_memory_mb"] = peak / 1048576.0,
     ["max_gap_2_over_0"] = gap2 / gap0,
 };
+if (scale && !quick)
+{
+    // 4 x the cells and 2 x the frames: linear work predicts 8 x the 1024 x 1024, 100-frame time.
+    string big = Ensure2048(Path.Combine(data, "monolayer-2048-200"));
+    var (e2eBig, peakBig) = EndToEnd(big, root);
+    ratios["scale_2048_200_s"] = e2eBig;
+    ratios["scale_2048_200_over_8x"] = e2eBig / (8 * e2e);
+    ratios["scale_2048_200_peak_mb"] = peakBig / 1048576.0;
+}
 if (!guard)
 {
     ratios["end_to_end_2x_frames_s"] = e2eLong;
@@ -132,6 +143,15 @@ string Ensure(string dir, int n)
     if (File.Exists(tif)) return tif;
     Console.WriteLine($"generating {tif} ({side} px, {cells} cells, {n} frames) ...");
     SynthJob.Monolayer(new MonolayerMovieOptions { Cells = cells, CellAreaPx2 = side * side / (double)cells, Frames = n, Width = side, Height = side }, dir);
+    return tif;
+}
+
+static string Ensure2048(string dir)
+{
+    string tif = Path.Combine(dir, "labels.tif");
+    if (File.Exists(tif)) return tif;
+    Console.WriteLine($"generating {tif} (2048 px, 10000 cells, 200 frames) ...");
+    SynthJob.Monolayer(new MonolayerMovieOptions { Cells = 10000, CellAreaPx2 = 2048.0 * 2048 / 10000, Frames = 200, Width = 2048, Height = 2048 }, dir);
     return tif;
 }
 

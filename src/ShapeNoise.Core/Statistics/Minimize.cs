@@ -7,12 +7,28 @@ internal static class Minimize
 {
     /// <summary>Returns the x in [lo, hi] minimising f: the best of grid + 1 equally spaced points, refined by golden section
     /// between its neighbours to width 1e-7.</summary>
-    public static double GridThenGolden(Func<double, double> f, double lo, double hi, int grid = 48)
+    /// <summary>The default number of grid intervals of <see cref="GridThenGolden"/>.</summary>
+    public const int DefaultGrid = 48;
+
+    /// <summary>Grid point g of <see cref="GridThenGolden"/>: lo + (hi - lo) g / grid (callers that tabulate their function at
+    /// the grid points use this, so the arguments match bit for bit).</summary>
+    public static double GridPoint(double lo, double hi, int g, int grid = DefaultGrid) => lo + (hi - lo) * g / grid;
+
+    /// <summary>The grid index g with <see cref="GridPoint"/>(lo, hi, g, grid) == x exactly, or -1.</summary>
+    public static int GridIndexOf(double x, double lo, double hi, int grid = DefaultGrid)
+    {
+        if (!(hi > lo)) return -1;
+        double g = Math.Round((x - lo) / (hi - lo) * grid);
+        if (!(g >= 0 && g <= grid)) return -1;
+        return GridPoint(lo, hi, (int)g, grid) == x ? (int)g : -1;
+    }
+
+    public static double GridThenGolden(Func<double, double> f, double lo, double hi, int grid = DefaultGrid)
     {
         double best = double.PositiveInfinity; int bi = 0;
         for (int g = 0; g <= grid; g++)
         {
-            double v = f(lo + (hi - lo) * g / grid);
+            double v = f(GridPoint(lo, hi, g, grid));
             if (v < best) { best = v; bi = g; }
         }
         double x0 = lo + (hi - lo) * Math.Max(0, bi - 1) / grid, x1 = lo + (hi - lo) * Math.Min(grid, bi + 1) / grid;

@@ -149,12 +149,15 @@ internal static class OrnsteinUhlenbeckFit
         var gaps = GapLags.Sum(gapped, K);
         for (int k = 0; k < K; k++) { target[k] = c[k]; weight[k] = pairs[k]; }
 
-        double Objective(double rho, out double s2, out double e2)
+        double lo = Math.Log(MinTauFrames), hi = Math.Log(maxTauFrames > 0 ? maxTauFrames : 20.0 * maxLen);
+        double Objective(double rho, int grid, out double s2, out double e2)
         {
             Array.Clear(eS); Array.Clear(eN);
             foreach (var (len, gw) in groups)
             {
-                ExpectedSumsContiguous(len, rho, tS, tN);
+                // At the search grid's points the expectations are the same in every fit (every bootstrap resample): tabulated once.
+                if (grid >= 0) { var t = GridExpectations.Of(len, K, lo, hi); t.Signal[grid].CopyTo(tS, 0); t.Noise[grid].CopyTo(tN, 0); }
+                else ExpectedSumsContiguous(len, rho, tS, tN);
                 for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
             }
             gaps.AddTo(rho, eS, eN);
@@ -182,11 +185,35 @@ internal static class OrnsteinUhlenbeckFit
         }
 
         // Grid over log tau from 0.05 frame to 20 x the longest track (or the caller's bound), then golden-section refinement.
-        double upper = maxTauFrames > 0 ? maxTauFrames : 20.0 * maxLen;
-        double logTau = Statistics.Minimize.GridThenGolden(lt => Objective(Math.Exp(-1 / Math.Exp(lt)), out _, out _), Math.Log(MinTauFrames), Math.Log(upper));
+        double logTau = Statistics.Minimize.GridThenGolden(lt => Objective(Math.Exp(-1 / Math.Exp(lt)), Statistics.Minimize.GridIndexOf(lt, lo, hi), out _, out _), lo, hi);
         double tau = Math.Exp(logTau), rho = Math.Exp(-1 / tau);
-        Objective(rho, out var sig2, out var eta2);
+        Objective(rho, -1, out var sig2, out var eta2);
         return new OuFit(rho, tau, sig2, eta2, uncorrected);
+    }
+}
+
+/// <summary><see cref="OrnsteinUhlenbeckFit.ExpectedSumsContiguous"/> of a track of n frames at the points of the fit's search
+/// grid over log tau in [lo, hi] (rho = exp(-1 / exp(log tau)), the fit's own expression), lags 0..K-1: the same numbers
+/// in every bootstrap fit, computed once (bench/README.md).</summary>
+internal sealed record GridExpectations(double[][] Signal, double[][] Noise)
+{
+    private static readonly System.Collections.Concurrent.ConcurrentDictionary<(int N, int K, double Lo, double Hi), GridExpectations> Cache = new();
+
+    public static GridExpectations Of(int n, int K, double lo, double hi)
+    {
+        if (Cache.Count > 4096) Cache.Clear();   // bounded: a run needs one entry per track length
+        return Cache.GetOrAdd((n, K, lo, hi), static key =>
+        {
+            int points = Statistics.Minimize.DefaultGrid + 1;
+            var s = new double[points][]; var e = new double[points][];
+            for (int g = 0; g < points; g++)
+            {
+                s[g] = new double[key.K]; e[g] = new double[key.K];
+                double lt = Statistics.Minimize.GridPoint(key.Lo, key.Hi, g);
+                OrnsteinUhlenbeckFit.ExpectedSumsContiguous(key.N, Math.Exp(-1 / Math.Exp(lt)), s[g], e[g]);
+            }
+            return new GridExpectations(s, e);
+        });
     }
 }
 
