@@ -18,6 +18,9 @@ public sealed record SegmentOptions
     public double SeedWindowFraction { get; init; } = 0.9;
     /// <summary>Smoothing (px) of the image the flood runs on: about the point-spread width.</summary>
     public double BoundarySigmaPx { get; init; } = 0.6;
+    /// <summary>Smoothing (px) of the junction signal whose crest the sub-pixel outlines follow
+    /// (docs/segmentation.md#sub-pixel-boundaries); a Gaussian blur does not move the crest of a straight symmetric ridge.</summary>
+    public double RidgeSigmaPx { get; init; } = 0.6;
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 
@@ -49,8 +52,8 @@ public sealed record SegmentOptions
     {
         if (!(CellDiameterUm > 0)) throw new ArgumentException($"--cell-diameter must be > 0 (got {CellDiameterUm})");
         if (!(DiameterPx >= 4)) throw new ArgumentException($"--cell-diameter is {DiameterPx:F1} px; cells must be at least 4 px across");
-        if (!(FlattenDiameters > 0) || !(SmoothFraction > 0) || !(SeedWindowFraction > 0) || !(BoundarySigmaPx > 0))
-            throw new ArgumentException("--flatten, --smooth, --seed-window and --boundary-sigma must be > 0");
+        if (!(FlattenDiameters > 0) || !(SmoothFraction > 0) || !(SeedWindowFraction > 0) || !(BoundarySigmaPx > 0) || !(RidgeSigmaPx > 0))
+            throw new ArgumentException("--flatten, --smooth, --seed-window, --boundary-sigma and --ridge-sigma must be > 0");
         if (MinAreaFraction < 0 || !(MaxAreaFactor > 1)) throw new ArgumentException("--min-area-fraction must be >= 0 and --max-area-factor > 1");
         if (!(SeedDepthSd > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepthSd})");
         if (!(RidgeContrastSd >= 0)) throw new ArgumentException($"--ridge-contrast must be >= 0 noise sd (got {RidgeContrastSd})");
@@ -76,7 +79,12 @@ public enum SeedMethod
 /// <param name="RidgelessMerges">Merges across boundaries without a ridge.</param>
 /// <param name="FragmentMerges">Fragments merged into a neighbour.</param>
 /// <param name="RidgeMoves">Boundary pixels moved onto the ridge.</param>
-public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, int RidgelessMerges, int FragmentMerges, int RidgeMoves);
+public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, int RidgelessMerges, int FragmentMerges, int RidgeMoves)
+{
+    /// <summary>The flattened frame blurred by <see cref="SegmentOptions.RidgeSigmaPx"/>, row-major:
+    /// the junction signal whose crest the sub-pixel outlines follow (docs/segmentation.md#sub-pixel-boundaries).</summary>
+    public float[] RidgeSignal { get; init; } = [];
+}
 
 /// <summary>
 /// Segments one frame of a junction or membrane marker into cells (docs/segmentation.md#method): flatten the background
@@ -132,7 +140,7 @@ public static class JunctionSegmenter
         int fragments = Regions.MergeSmall(labels, width, height, (int)(o.MinAreaFraction * area));
         int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
         Regions.DropLarge(labels, o.MaxAreaFactor * area);
-        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves);
+        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = o.RidgeSigmaPx == o.BoundarySigmaPx ? fine : Blurred(flat, o.RidgeSigmaPx) };
     }
 
     /// <summary>Writes the previous frame's cells shrunk by <paramref name="erodePx"/> into <paramref name="labels"/>; returns where new seeds may go (outside every shrunk cell).</summary>
