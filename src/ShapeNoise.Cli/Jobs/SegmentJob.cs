@@ -126,9 +126,13 @@ public static class RawAnalyzeJob
         try
         {
             SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection);
+            // Outlines on the crest of the junction signal (docs/segmentation.md#sub-pixel-boundaries), read with the same
+            // scale as the segmentation.
+            var sel = (selection ?? MovieSelection.None) with { PixelSizeUm = options.PixelSizeUm ?? selection?.PixelSizeUm, FrameIntervalMin = options.FrameIntervalMin ?? selection?.FrameIntervalMin };
+            using var junctions = seg.CrestOutlines ? new RawJunctionSignal(raw, seg, sel) : null;
             return AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, new ShapeNoise.Imaging.Drawing.DefectOverlays(), [raw],
                 options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? new ShapeNoise.Imaging.Flow.OpticalFlowVelocity(raw, selection) : null,
-                dir => CopySegmentation(temp, dir));
+                dir => CopySegmentation(temp, dir), junctions);
         }
         finally { Scratch.Delete(temp); }
     }

@@ -21,6 +21,9 @@ public sealed record SegmentOptions
     /// <summary>Smoothing (px) of the junction signal whose crest the sub-pixel outlines follow
     /// (docs/segmentation.md#sub-pixel-boundaries); a Gaussian blur does not move the crest of a straight symmetric ridge.</summary>
     public double RidgeSigmaPx { get; init; } = 0.6;
+    /// <summary><c>analyze --raw</c>: move every traced outline onto the crest of the junction signal (default on;
+    /// docs/segmentation.md#sub-pixel-boundaries); off: the label masks' midpoint outlines.</summary>
+    public bool CrestOutlines { get; init; } = true;
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 
@@ -141,6 +144,21 @@ public static class JunctionSegmenter
         int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
         Regions.DropLarge(labels, o.MaxAreaFactor * area);
         return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = o.RidgeSigmaPx == o.BoundarySigmaPx ? fine : Blurred(flat, o.RidgeSigmaPx) };
+    }
+
+    /// <summary>The junction signal whose crest the sub-pixel outlines follow: the frame divided by its Gaussian blur of
+    /// <see cref="SegmentOptions.FlattenDiameters"/> diameters, then blurred by <see cref="SegmentOptions.RidgeSigmaPx"/>
+    /// (as <see cref="SegmentedFrame.RidgeSignal"/>; docs/segmentation.md#sub-pixel-boundaries).</summary>
+    public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o)
+    {
+        var f = new float[raw.Length];
+        for (int i = 0; i < raw.Length; i++) f[i] = raw[i];
+        using var img = FromArray(f, width, height);
+        using var wide = new Mat();
+        Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * o.DiameterPx);
+        using var flat = new Mat();
+        Cv2.Divide(img, wide, flat);
+        return Blurred(flat, o.RidgeSigmaPx);
     }
 
     /// <summary>Writes the previous frame's cells shrunk by <paramref name="erodePx"/> into <paramref name="labels"/>; returns where new seeds may go (outside every shrunk cell).</summary>
