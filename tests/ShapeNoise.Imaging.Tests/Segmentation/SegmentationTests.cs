@@ -128,6 +128,27 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
     }
 
     [Fact]
+    public void Cli_AnalyzeRaw_CrestOutlinesByDefaultNoCrestKeepsMasks()
+    {
+        // analyze --raw moves the outlines onto the junction crest unless --no-crest (docs/segmentation.md#sub-pixel-boundaries):
+        // the two runs share the segmentation (same cells) but not the outlines, so their pooled areas differ slightly
+        // (the crest lies on the junction centre, the mask midpoint up to half a pixel to one side).
+        using var d = new TempDir();
+        Assert.Equal(0, Support.Cli.Run("synth", "monolayer", "--out", d["m"], "--cells", "150", "--frames", "3", "--raw").ExitCode);
+        var crest = Support.Cli.Run("analyze", d["m/raw.tif"], "--raw", "--out", d["a"], "--cell-diameter", "8.9", "--bootstrap", "20", "--json");
+        var masks = Support.Cli.Run("analyze", d["m/raw.tif"], "--raw", "--no-crest", "--out", d["b"], "--cell-diameter", "8.9", "--bootstrap", "20", "--json");
+        Assert.True(crest.ExitCode == 0, crest.Stderr);
+        Assert.True(masks.ExitCode == 0, masks.Stderr);
+        Assert.True(File.Exists(d["a/segmentation/labels.tif"]));
+        var jc = System.Text.Json.Nodes.JsonNode.Parse(crest.Stdout)!; var jm = System.Text.Json.Nodes.JsonNode.Parse(masks.Stdout)!;
+        double rc = jc["mean_cell_radius"]!.GetValue<double>(), rm = jm["mean_cell_radius"]!.GetValue<double>();
+        log.WriteLine($"mean cell radius: crest {rc:F4} px, masks {rm:F4} px; non-star-shaped outlines {jc["non_star_shaped"]} / {jm["non_star_shaped"]}");
+        Assert.NotEqual(rm, rc);
+        // Same cells: the radii agree within the half pixel by which a crest can lie from a mask's midpoint outline.
+        Assert.InRange(rc - rm, -0.5, 0.5);
+    }
+
+    [Fact]
     public void Read_RgbPngFrames_RejectedAsColour()
     {
         using var d = new TempDir();
