@@ -91,6 +91,8 @@ public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, i
     /// <summary>The flattened frame blurred by <see cref="SegmentOptions.RidgeSigmaPx"/>, row-major:
     /// the junction signal whose crest the sub-pixel outlines follow (docs/segmentation.md#sub-pixel-boundaries).</summary>
     public float[] RidgeSignal { get; init; } = [];
+    /// <summary>Boundary smoothing σ_b (px) the frame was segmented with (after the junction-width rule).</summary>
+    public double BoundarySigmaPx { get; init; }
     /// <summary>Junction width σ_j (px) measured on the frame when <see cref="SegmentOptions.BoundarySigmaWidthFactor"/> &gt; 0, else NaN.</summary>
     public double JunctionSigmaPx { get; init; } = double.NaN;
 }
@@ -157,13 +159,19 @@ public static class JunctionSegmenter
         int fragments = Regions.MergeSmall(labels, width, height, (int)(o.MinAreaFraction * area));
         int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
         Regions.DropLarge(labels, o.MaxAreaFactor * area);
-        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = o.RidgeSigmaPx == o.BoundarySigmaPx ? fine : Blurred(flat, o.RidgeSigmaPx) };
+        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = RidgeSigma(o) == o.BoundarySigmaPx ? fine : Blurred(flat, RidgeSigma(o)), BoundarySigmaPx = o.BoundarySigmaPx };
     }
 
     /// <summary>The junction signal whose crest the sub-pixel outlines follow: the frame divided by its Gaussian blur of
     /// <see cref="SegmentOptions.FlattenDiameters"/> diameters, then blurred by <see cref="SegmentOptions.RidgeSigmaPx"/>
     /// (as <see cref="SegmentedFrame.RidgeSignal"/>; docs/segmentation.md#sub-pixel-boundaries).</summary>
-    public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o)
+    /// <param name="raw">Row-major intensities.</param>
+    /// <param name="width">Frame width (px).</param>
+    /// <param name="height">Frame height (px).</param>
+    /// <param name="o">Segmentation options (diameter in px, flattening, ridge smoothing).</param>
+    /// <param name="boundarySigmaPx">The boundary smoothing the frame was segmented with (<see cref="SegmentedFrame.BoundarySigmaPx"/>):
+    /// the signal is blurred by the larger of it and <see cref="SegmentOptions.RidgeSigmaPx"/>.</param>
+    public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o, double boundarySigmaPx = 0)
     {
         var f = new float[raw.Length];
         for (int i = 0; i < raw.Length; i++) f[i] = raw[i];
@@ -172,8 +180,12 @@ public static class JunctionSegmenter
         Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * o.DiameterPx);
         using var flat = new Mat();
         Cv2.Divide(img, wide, flat);
-        return Blurred(flat, o.RidgeSigmaPx);
+        return Blurred(flat, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
     }
+
+    /// <summary>Smoothing of the crest signal: the larger of <see cref="SegmentOptions.RidgeSigmaPx"/> and the boundary
+    /// smoothing (broad junctions, whose boundary smoothing follows their width, get as steady a crest).</summary>
+    private static double RidgeSigma(SegmentOptions o) => Math.Max(o.RidgeSigmaPx, o.BoundarySigmaPx);
 
     /// <summary>Junction width σ_j (px): mean flattened intensity I(r) in bins of 0.25 px of the distance r from the nearest
     /// boundary pixel (a pixel with a 4-neighbour of another label) of a segmentation, background I_b = its mean over

@@ -10,7 +10,8 @@ namespace ShapeNoise.Imaging.Segmentation;
 /// <param name="options">The segmentation options (cell diameter, ridge smoothing); the pixel size is the raw movie's, as in
 /// <c>segment</c>.</param>
 /// <param name="selection">Plane and scale selection used when opening the raw movie.</param>
-public sealed class RawJunctionSignal(string rawPath, SegmentOptions options, MovieSelection? selection = null) : IJunctionSignal, IDisposable
+/// <param name="boundarySigmaPx">Per frame, the boundary smoothing the segmentation used (<see cref="SegmentedFrame.BoundarySigmaPx"/>).</param>
+public sealed class RawJunctionSignal(string rawPath, SegmentOptions options, MovieSelection? selection = null, IReadOnlyList<double>? boundarySigmaPx = null) : IJunctionSignal, IDisposable
 {
     private ILabelMovie? _movie;
     private IEnumerator<LabelFrame>? _frames;
@@ -29,7 +30,8 @@ public sealed class RawJunctionSignal(string rawPath, SegmentOptions options, Mo
         {
             var f = _frames.Current;
             if (f.Index < index) continue;
-            return f.Index == index ? JunctionSegmenter.RidgeSignal(f.Labels, f.Width, f.Height, _options!) : null;
+            return f.Index == index ? JunctionSegmenter.RidgeSignal(f.Labels, f.Width, f.Height, _options!,
+                boundarySigmaPx is not null && index < boundarySigmaPx.Count ? boundarySigmaPx[index] : 0) : null;
         }
         return null;
     }
