@@ -24,10 +24,11 @@ public static class AnalyzeJob
     /// <param name="velocities">Cell velocities of the defect stage, chosen before the run (e.g. optical flow of the raw
     /// movie); null = tracked centroids.</param>
     /// <param name="extraFiles">Optional further files written into the output folder (e.g. a copy of the segmentation).</param>
+    /// <param name="junctions">Raw movies: the junction signal whose crest the outlines follow (docs/segmentation.md#sub-pixel-boundaries).</param>
     public static AnalysisResult Run(string input, OutputTarget outDir, AnalysisOptions options, Func<string, ILabelMovie> open,
         IProgress<MovieAnalyzer.Progress>? progress = null, IEnumerable<string>? commandLine = null, IFrameFigures? frameFigures = null,
         IEnumerable<string>? extraInputs = null, ShapeNoise.Nematic.IVelocitySource? velocities = null,
-        Action<string>? extraFiles = null)
+        Action<string>? extraFiles = null, ShapeNoise.Outlines.IJunctionSignal? junctions = null)
     {
         options.Validated();
         OutputFolder.Check(outDir);
@@ -48,7 +49,7 @@ public static class AnalyzeJob
         else
         {
             using var movie = open(input);
-            result = MovieAnalyzer.Run(movie, options, progress, floor, velocities: velocities);
+            result = MovieAnalyzer.Run(movie, options, progress, floor, velocities: velocities, junctions: junctions);
             files = new List<string>(movie.Files);
         }
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));

@@ -16,7 +16,8 @@ public static class SegmentJob
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
     public static (int Frames, double MeanCells) Run(string input, OutputTarget outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
-        int qcEvery = 10, IEnumerable<string>? commandLine = null, IProgress<(int Done, int Total)>? progress = null, MovieSelection? selection = null)
+        int qcEvery = 10, IEnumerable<string>? commandLine = null, IProgress<(int Done, int Total)>? progress = null, MovieSelection? selection = null,
+        List<double>? boundarySigmaPx = null)
     {
         OutputFolder.Check(outDir);
         // Raw intensities arrive as integers (8- or 16-bit); the plane is picked and non-square pixels made square on opening.
@@ -39,7 +40,8 @@ public static class SegmentJob
                 if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"), r.Seeds);
                 int inCells = 0;
                 foreach (var v in labels) if (v > 0) inCells++;
-                qc.Add(new FrameQc(f.Index, n, inCells / (double)labels.Length, r.Seeds.Length, r.RidgelessMerges, r.FragmentMerges, r.NoiseSd));
+                qc.Add(new FrameQc(f.Index, n, inCells / (double)labels.Length, r.Seeds.Length, r.RidgelessMerges, r.FragmentMerges, r.NoiseSd, r.JunctionSigmaPx, r.BoundarySigmaPx));
+                boundarySigmaPx?.Add(r.BoundarySigmaPx);
                 frames++; cells += n;
                 progress?.Report((frames, info.FrameCount));
                 return labels;
@@ -57,6 +59,8 @@ public static class SegmentJob
                 {
                     ["frame"] = q.Frame, ["cells"] = q.Cells, ["cell_area_fraction"] = Math.Round(q.CellAreaFraction, 4), ["seeds"] = q.Seeds,
                     ["ridgeless_merges"] = q.RidgelessMerges, ["fragment_merges"] = q.FragmentMerges, ["noise_sd"] = Math.Round(q.NoiseSd, 5),
+                    ["junction_sigma_px"] = double.IsFinite(q.JunctionSigmaPx) ? Math.Round(q.JunctionSigmaPx, 3) : null,
+                    ["boundary_sigma_px"] = double.IsFinite(q.BoundarySigmaPx) ? Math.Round(q.BoundarySigmaPx, 3) : null,
                 });
             prov["qc"] = new JsonObject { ["frames"] = perFrame, ["warnings"] = new JsonArray(warnings.Select(w => (JsonNode)JsonValue.Create(w)!).ToArray()) };
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
@@ -68,7 +72,8 @@ public static class SegmentJob
     public const double CountJumpFraction = 0.1;
 
     /// <summary>QC of one segmented frame (run.json "qc").</summary>
-    public readonly record struct FrameQc(int Frame, int Cells, double CellAreaFraction, int Seeds, int RidgelessMerges, int FragmentMerges, double NoiseSd);
+    public readonly record struct FrameQc(int Frame, int Cells, double CellAreaFraction, int Seeds, int RidgelessMerges, int FragmentMerges, double NoiseSd,
+        double JunctionSigmaPx = double.NaN, double BoundarySigmaPx = double.NaN);
 
     /// <summary>One warning per pair of consecutive frames whose cell counts differ by more than <paramref name="fraction"/> of the larger.</summary>
     public static List<string> CountJumps(IReadOnlyList<FrameQc> qc, double fraction)
@@ -125,10 +130,15 @@ public static class RawAnalyzeJob
         using var scratch = Scratch.Register(temp);
         try
         {
-            SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection);
+            var sigmas = new List<double>();
+            SegmentJob.Run(raw, temp, seg, options.PixelSizeUm, options.FrameIntervalMin, selection: selection, boundarySigmaPx: sigmas);
+            // Outlines on the crest of the junction signal (docs/segmentation.md#sub-pixel-boundaries), read with the same
+            // scale as the segmentation.
+            var sel = (selection ?? MovieSelection.None) with { PixelSizeUm = options.PixelSizeUm ?? selection?.PixelSizeUm, FrameIntervalMin = options.FrameIntervalMin ?? selection?.FrameIntervalMin };
+            using var junctions = seg.CrestOutlines ? new RawJunctionSignal(raw, seg, sel, sigmas) : null;
             return AnalyzeJob.Run(Path.Combine(temp, "labels.tif"), outDir, options, LabelMovies.Open, progress, commandLine, new ShapeNoise.Imaging.Drawing.DefectOverlays(), [raw],
                 options.Velocity == ShapeNoise.Pipeline.VelocitySource.Flow ? new ShapeNoise.Imaging.Flow.OpticalFlowVelocity(raw, selection) : null,
-                dir => CopySegmentation(temp, dir));
+                dir => CopySegmentation(temp, dir), junctions);
         }
         finally { Scratch.Delete(temp); }
     }

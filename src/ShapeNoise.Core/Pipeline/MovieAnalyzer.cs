@@ -28,17 +28,26 @@ public static class MovieAnalyzer
     public sealed record FrameOutlines(int Index, Outline[] Outlines, FrameLinks? Links, int Divisions, int Merges, int LabelledPx = -1, int CoveredPx = -1);
 
     /// <summary>Runs outlines, shape, tracking and fluctuations over <paramref name="movie"/>, one frame at a time.</summary>
+    /// <param name="movie">The label movie.</param>
+    /// <param name="options">Analysis options.</param>
+    /// <param name="progress">Optional progress sink.</param>
+    /// <param name="floorReference">Optional noise floor measured on a reference movie.</param>
+    /// <param name="times">Optional phase timer.</param>
+    /// <param name="velocities">Cell velocities of the defect stage; null = tracked centroids.</param>
+    /// <param name="junctions">Raw movies: the junction signal per frame; every traced outline is then moved onto its
+    /// crest (<see cref="RidgeRefinement"/>, docs/segmentation.md#sub-pixel-boundaries). Null: outlines as traced.</param>
     public static AnalysisResult Run(ILabelMovie movie, AnalysisOptions options, IProgress<Progress>? progress = null,
-        NoiseFloorReference? floorReference = null, PhaseTimes? times = null, Nematic.IVelocitySource? velocities = null)
+        NoiseFloorReference? floorReference = null, PhaseTimes? times = null, Nematic.IVelocitySource? velocities = null,
+        IJunctionSignal? junctions = null)
     {
         times ??= new PhaseTimes();
         options.Validated();
         // Decoding, scanning and tracing of the next frames overlap the measuring of this one (two frames ahead at most).
-        return RunFrames(movie.Info, Prefetch.Ahead(LabelFrames(movie, options, times), 2), options, progress, floorReference, times, velocities);
+        return RunFrames(movie.Info, Prefetch.Ahead(LabelFrames(movie, options, times, junctions), 2), options, progress, floorReference, times, velocities);
     }
 
     /// <summary>Label frames to outlines (largest 4-connected component per label) linked by mask overlap.</summary>
-    private static IEnumerable<FrameOutlines> LabelFrames(ILabelMovie movie, AnalysisOptions options, PhaseTimes times)
+    private static IEnumerable<FrameOutlines> LabelFrames(ILabelMovie movie, AnalysisOptions options, PhaseTimes times, IJunctionSignal? junctions)
     {
         var info = movie.Info;
         LabelScan? prevScan = null;
@@ -57,12 +66,25 @@ public static class MovieAnalyzer
             times.Time("outlines", () => Parallel.For(0, outlines.Length, i =>
                 outlines[i] = OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[i], i + 1,
                     options.Outline, options.BorderMarginPx, options.MinAreaPx)));
+            if (junctions?.Frame(frame.Index) is { } signal) times.Time("outlines", () => OnCrests(outlines, signal, scan.Width, scan.Height));
             var prev = prevScan;
             FrameLinks? links = prev is null ? null
                 : times.Time("tracking", () => OverlapLinking.Link(prev.DenseImage, PixelCounts(prev), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction));
             prevScan = scan;
             yield return new FrameOutlines(frame.Index, outlines, links, links?.Divisions ?? 0, links?.Merges ?? 0, PixelCounts(scan).Sum(), coveredPx);
         }
+    }
+
+    /// <summary>Replaces the vertices of every traced outline by <see cref="RidgeRefinement.Refine"/> on <paramref name="signal"/>.</summary>
+    private static int OnCrests(Outline[] outlines, float[] signal, int w, int h)
+    {
+        if (signal.Length != w * h) throw new ArgumentException($"junction signal has {signal.Length} values, the frame {w} x {h}");
+        Parallel.For(0, outlines.Length, i =>
+        {
+            var o = outlines[i];
+            if (o.Status == OutlineStatus.Ok) outlines[i] = o with { Vertices = RidgeRefinement.Refine(o.Vertices, signal, w, h).Vertices };
+        });
+        return 0;
     }
 
     /// <summary>Shape, tracks and fluctuations from a stream of linked outlines (label movies and outline tables alike):

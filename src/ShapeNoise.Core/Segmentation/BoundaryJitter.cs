@@ -1,3 +1,5 @@
+using ShapeNoise.Shape;
+
 namespace ShapeNoise.Segmentation;
 
 /// <summary>Frame-to-frame jitter of segmented boundaries on a static tissue (docs/segmentation.md#boundary-jitter).</summary>
@@ -17,6 +19,23 @@ public readonly record struct BoundaryJitter(double RmsPx, double FrameToFrameRm
     /// <remarks>Matching rule: Ulman V. et al. (2017), Nature Methods 14:1141-1152. The radial description of a
     /// boundary is the one the shape analysis uses (docs/measures.md#definitions).</remarks>
     public static BoundaryJitter Measure(int[] reference, IReadOnlyList<int[]> segmented, int w, int h, int rays = 32)
+        => Measure(reference, segmented, w, h, rays, (t, s, cx, cy, a, maxR) => Exit(segmented[t], s, w, h, cx, cy, a, maxR));
+
+    /// <summary>
+    /// As <see cref="Measure(int[], IReadOnlyList{int[]}, int, int, int)"/>, but r_k(t) is where ray k crosses the outline
+    /// polygon <paramref name="outlines"/>[t][s] of the matched object s (outline coordinates, pixel centres at half
+    /// integers: the nearest crossing of the ray with a polygon edge), so sub-pixel outlines are measured without the
+    /// pixel quantisation of the mask. A cell whose centroid lies outside the outline in some frame (an even number of
+    /// crossings) is left out.
+    /// </summary>
+    public static BoundaryJitter MeasureOutlines(int[] reference, IReadOnlyList<int[]> segmented, IReadOnlyList<IReadOnlyDictionary<int, Point2[]>> outlines,
+        int w, int h, int rays = 32)
+        => Measure(reference, segmented, w, h, rays, (t, s, cx, cy, a, maxR) =>
+            outlines[t].TryGetValue(s, out var poly) && poly.Length >= 3 ? PolygonExit(poly, cx + 0.5, cy + 0.5, a, maxR) : double.NaN);
+
+    private delegate double ExitFn(int frame, int label, double cx, double cy, double angle, double maxR);
+
+    private static BoundaryJitter Measure(int[] reference, IReadOnlyList<int[]> segmented, int w, int h, int rays, ExitFn exit)
     {
         int n = segmented.Count;
         var cells = new Dictionary<int, (double Sx, double Sy, int N, int X0, int Y0, int X1, int Y1)>();
@@ -39,7 +58,11 @@ public readonly record struct BoundaryJitter(double RmsPx, double FrameToFrameRm
             {
                 int s = Match(reference, segmented[t], label, c.N, c.X0, c.Y0, c.X1, c.Y1, w);
                 if (s == 0) { ok = false; break; }
-                for (int k = 0; k < rays; k++) r[t * rays + k] = Exit(segmented[t], s, w, h, cx, cy, 2 * Math.PI * k / rays, maxR);
+                for (int k = 0; k < rays && ok; k++)
+                {
+                    r[t * rays + k] = exit(t, s, cx, cy, 2 * Math.PI * k / rays, maxR);
+                    ok = !double.IsNaN(r[t * rays + k]);
+                }
             }
             if (!ok) continue;
             used++;
@@ -67,6 +90,24 @@ public readonly record struct BoundaryJitter(double RmsPx, double FrameToFrameRm
             }
         foreach (var (s, k) in count) if (2 * k > area) return s;
         return 0;
+    }
+
+    /// <summary>Distance along the ray from (cx, cy) at angle <paramref name="a"/> to its nearest crossing with an edge of the
+    /// closed polygon <paramref name="poly"/>; NaN when it crosses an even number of edges (the start is outside).</summary>
+    private static double PolygonExit(Point2[] poly, double cx, double cy, double a, double maxR)
+    {
+        double dx = Math.Cos(a), dy = Math.Sin(a), best = maxR;
+        int crossings = 0;
+        for (int i = 0; i < poly.Length; i++)
+        {
+            var p = poly[i]; var q = poly[(i + 1) % poly.Length];
+            double ex = q.X - p.X, ey = q.Y - p.Y, den = dx * ey - dy * ex;
+            if (den == 0) continue;
+            double px = p.X - cx, py = p.Y - cy;
+            double t = (px * ey - py * ex) / den, u = (px * dy - py * dx) / den;
+            if (t > 0 && u >= 0 && u < 1) { crossings++; if (t < best) best = t; }
+        }
+        return crossings % 2 == 1 ? best : double.NaN;
     }
 
     /// <summary>Distance along the ray from (cx, cy) at angle <paramref name="a"/> to the first point outside object <paramref name="s"/> (steps of 1/64 px).</summary>

@@ -18,6 +18,15 @@ public sealed record SegmentOptions
     public double SeedWindowFraction { get; init; } = 0.9;
     /// <summary>Smoothing (px) of the image the flood runs on: about the point-spread width.</summary>
     public double BoundarySigmaPx { get; init; } = 0.6;
+    /// <summary>Smoothing (px) of the junction signal whose crest the sub-pixel outlines follow
+    /// (docs/segmentation.md#sub-pixel-boundaries); a Gaussian blur does not move the crest of a straight symmetric ridge.</summary>
+    public double RidgeSigmaPx { get; init; } = 0.6;
+    /// <summary>When &gt; 0: the boundary smoothing becomes max(<see cref="BoundarySigmaPx"/>, this × the junction width σ_j
+    /// measured on a first segmentation), and the frame is segmented again with it (docs/segmentation.md#junction-width).</summary>
+    public double BoundarySigmaWidthFactor { get; init; } = 0.5;
+    /// <summary><c>analyze --raw</c>: move every traced outline onto the crest of the junction signal (default on;
+    /// docs/segmentation.md#sub-pixel-boundaries); off: the label masks' midpoint outlines.</summary>
+    public bool CrestOutlines { get; init; } = true;
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 
@@ -49,8 +58,9 @@ public sealed record SegmentOptions
     {
         if (!(CellDiameterUm > 0)) throw new ArgumentException($"--cell-diameter must be > 0 (got {CellDiameterUm})");
         if (!(DiameterPx >= 4)) throw new ArgumentException($"--cell-diameter is {DiameterPx:F1} px; cells must be at least 4 px across");
-        if (!(FlattenDiameters > 0) || !(SmoothFraction > 0) || !(SeedWindowFraction > 0) || !(BoundarySigmaPx > 0))
-            throw new ArgumentException("--flatten, --smooth, --seed-window and --boundary-sigma must be > 0");
+        if (!(FlattenDiameters > 0) || !(SmoothFraction > 0) || !(SeedWindowFraction > 0) || !(BoundarySigmaPx > 0) || !(RidgeSigmaPx > 0))
+            throw new ArgumentException("--flatten, --smooth, --seed-window, --boundary-sigma and --ridge-sigma must be > 0");
+        if (!(BoundarySigmaWidthFactor >= 0)) throw new ArgumentException($"the junction-width factor must be >= 0 (got {BoundarySigmaWidthFactor})");
         if (MinAreaFraction < 0 || !(MaxAreaFactor > 1)) throw new ArgumentException("--min-area-fraction must be >= 0 and --max-area-factor > 1");
         if (!(SeedDepthSd > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepthSd})");
         if (!(RidgeContrastSd >= 0)) throw new ArgumentException($"--ridge-contrast must be >= 0 noise sd (got {RidgeContrastSd})");
@@ -76,7 +86,16 @@ public enum SeedMethod
 /// <param name="RidgelessMerges">Merges across boundaries without a ridge.</param>
 /// <param name="FragmentMerges">Fragments merged into a neighbour.</param>
 /// <param name="RidgeMoves">Boundary pixels moved onto the ridge.</param>
-public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, int RidgelessMerges, int FragmentMerges, int RidgeMoves);
+public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, int RidgelessMerges, int FragmentMerges, int RidgeMoves)
+{
+    /// <summary>The flattened frame blurred by <see cref="SegmentOptions.RidgeSigmaPx"/>, row-major:
+    /// the junction signal whose crest the sub-pixel outlines follow (docs/segmentation.md#sub-pixel-boundaries).</summary>
+    public float[] RidgeSignal { get; init; } = [];
+    /// <summary>Boundary smoothing σ_b (px) the frame was segmented with (after the junction-width rule).</summary>
+    public double BoundarySigmaPx { get; init; }
+    /// <summary>Junction width σ_j (px) measured on the frame when <see cref="SegmentOptions.BoundarySigmaWidthFactor"/> &gt; 0, else NaN.</summary>
+    public double JunctionSigmaPx { get; init; } = double.NaN;
+}
 
 /// <summary>
 /// Segments one frame of a junction or membrane marker into cells (docs/segmentation.md#method): flatten the background
@@ -117,6 +136,14 @@ public static class JunctionSegmenter
         double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
         var smooth = Blurred(flat, seedSigma);
         var fine = Blurred(flat, o.BoundarySigmaPx);
+        if (o.BoundarySigmaWidthFactor > 0)
+        {
+            var first = SegmentFrame(raw, width, height, o with { BoundarySigmaWidthFactor = 0 }, previous);
+            double sj = JunctionWidth(flat, first.Labels, width, height, d);
+            double sb = o.BoundarySigmaWidthFactor * sj;
+            if (!(sb > o.BoundarySigmaPx + 0.1)) return first with { JunctionSigmaPx = sj };
+            return SegmentFrame(raw, width, height, o with { BoundarySigmaWidthFactor = 0, BoundarySigmaPx = sb }, previous) with { JunctionSigmaPx = sj };
+        }
         var labels = new int[raw.Length];
         int next = 0;
         bool[]? free = null;
@@ -132,7 +159,78 @@ public static class JunctionSegmenter
         int fragments = Regions.MergeSmall(labels, width, height, (int)(o.MinAreaFraction * area));
         int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
         Regions.DropLarge(labels, o.MaxAreaFactor * area);
-        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves);
+        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = RidgeSigma(o) == o.BoundarySigmaPx ? fine : Blurred(flat, RidgeSigma(o)), BoundarySigmaPx = o.BoundarySigmaPx };
+    }
+
+    /// <summary>The junction signal whose crest the sub-pixel outlines follow: the frame divided by its Gaussian blur of
+    /// <see cref="SegmentOptions.FlattenDiameters"/> diameters, then blurred by <see cref="SegmentOptions.RidgeSigmaPx"/>
+    /// (as <see cref="SegmentedFrame.RidgeSignal"/>; docs/segmentation.md#sub-pixel-boundaries).</summary>
+    /// <param name="raw">Row-major intensities.</param>
+    /// <param name="width">Frame width (px).</param>
+    /// <param name="height">Frame height (px).</param>
+    /// <param name="o">Segmentation options (diameter in px, flattening, ridge smoothing).</param>
+    /// <param name="boundarySigmaPx">The boundary smoothing the frame was segmented with (<see cref="SegmentedFrame.BoundarySigmaPx"/>):
+    /// the signal is blurred by the larger of it and <see cref="SegmentOptions.RidgeSigmaPx"/>.</param>
+    public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o, double boundarySigmaPx = 0)
+    {
+        var f = new float[raw.Length];
+        for (int i = 0; i < raw.Length; i++) f[i] = raw[i];
+        using var img = FromArray(f, width, height);
+        using var wide = new Mat();
+        Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * o.DiameterPx);
+        using var flat = new Mat();
+        Cv2.Divide(img, wide, flat);
+        return Blurred(flat, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
+    }
+
+    /// <summary>Smoothing of the crest signal: the larger of <see cref="SegmentOptions.RidgeSigmaPx"/> and the boundary
+    /// smoothing (broad junctions, whose boundary smoothing follows their width, get as steady a crest).</summary>
+    private static double RidgeSigma(SegmentOptions o) => Math.Max(o.RidgeSigmaPx, o.BoundarySigmaPx);
+
+    /// <summary>Junction width σ_j (px): mean flattened intensity I(r) in bins of 0.25 px of the distance r from the nearest
+    /// boundary pixel (a pixel with a 4-neighbour of another label) of a segmentation, background I_b = its mean over
+    /// r in [0.2, 0.3] D; σ_j = r_½ / √(2 ln 2) with r_½ where I(r) − I_b first falls to half of I(0) − I_b
+    /// (half width at half maximum of a Gaussian; docs/segmentation.md#junction-width).</summary>
+    public static double JunctionWidth(Mat flat, int[] labels, int w, int h, double d)
+    {
+        var mask = new byte[labels.Length];
+        for (int y = 0; y < h; y++)
+            for (int x = 0; x < w; x++)
+            {
+                int i = y * w + x, l = labels[i];
+                bool b = (x + 1 < w && labels[i + 1] != l) || (y + 1 < h && labels[i + w] != l) || (x > 0 && labels[i - 1] != l) || (y > 0 && labels[i - w] != l);
+                mask[i] = b ? (byte)0 : (byte)255;
+            }
+        using var m = new Mat(h, w, MatType.CV_8UC1);
+        System.Runtime.InteropServices.Marshal.Copy(mask, 0, m.Data, mask.Length);
+        using var dist = new Mat();
+        Cv2.DistanceTransform(m, dist, DistanceTypes.L2, DistanceTransformMasks.Precise);
+        var dt = ToArray(dist); var f = ToArray(flat);
+        const double bin = 0.25;
+        int nb = (int)(0.3 * d / bin) + 2;
+        var sum = new double[nb]; var cnt = new long[nb];
+        for (int i = 0; i < f.Length; i++)
+        {
+            if (labels[i] == 0) continue;
+            int k = (int)(dt[i] / bin);
+            if (k < nb) { sum[k] += f[i]; cnt[k]++; }
+        }
+        double bg = 0; long nbg = 0;
+        for (int k = (int)(0.2 * d / bin); k < nb; k++) { bg += sum[k]; nbg += cnt[k]; }
+        if (nbg == 0 || cnt[0] == 0) return double.NaN;
+        bg /= nbg;
+        double peak = sum[0] / cnt[0] - bg;
+        if (!(peak > 0)) return double.NaN;
+        // Boundary pixels are the pixel centres on either side of the crack between two labels: half a pixel from it.
+        double prev = peak, prevR = 0.5;
+        for (int k = 1; k < nb; k++)
+        {
+            if (cnt[k] == 0) continue;
+            double v = sum[k] / cnt[k] - bg, r = (k + 0.5) * bin + 0.5;
+            if (v <= peak / 2) return (prevR + (prev - peak / 2) / (prev - v) * (r - prevR)) / Math.Sqrt(2 * Math.Log(2));
+            prev = v; prevR = r;
+        }
+        return double.NaN;
     }
 
     /// <summary>Writes the previous frame's cells shrunk by <paramref name="erodePx"/> into <paramref name="labels"/>; returns where new seeds may go (outside every shrunk cell).</summary>

@@ -1,6 +1,9 @@
 using ShapeNoise.Imaging.Segmentation;
 using ShapeNoise.Segmentation;
 using ShapeNoise.Synthesis;
+using ShapeNoise.Outlines;
+using ShapeNoise.Reading;
+using ShapeNoise.Shape;
 
 namespace ShapeNoise.Tests.Segmentation;
 
@@ -71,6 +74,26 @@ public static class RenderFamily
 
     /// <summary>Boundary jitter: the member's first tissue frame held still, rendered <paramref name="frames"/> times with fresh noise and no bleaching.</summary>
     public static BoundaryJitter Jitter(RenderMember m, int seed, int frames = 6, SegmentOptions? options = null)
+        => JitterBoth(m, seed, frames, options).Mask;
+
+    private static double Sq(double x) => x * x;
+
+    /// <summary>Midpoint outlines of every cell of a label frame, passed through <paramref name="map"/>.</summary>
+    public static Dictionary<int, Point2[]> Outlines(int[] labels, int w, int h, Func<Point2[], Point2[]> map)
+    {
+        var polys = new Dictionary<int, Point2[]>();
+        var scan = LabelScan.Of(new LabelFrame(0, w, h, labels));
+        for (int i = 0; i < scan.Boxes.Length; i++)
+        {
+            var ol = OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[i], i + 1, OutlineMethod.Midpoint, 1, 3);
+            if (ol.Status == OutlineStatus.Ok) polys[ol.Label] = map(ol.Vertices);
+        }
+        return polys;
+    }
+
+    /// <summary>Jitter of the label masks and of the outlines refined onto the ridge crest (<see cref="RidgeRefinement"/>),
+    /// on the same static tissue and noise.</summary>
+    public static (BoundaryJitter Mask, BoundaryJitter Refined, double MovedFraction, double MaskErrorPx, double RefinedErrorPx) JitterBoth(RenderMember m, int seed, int frames = 6, SegmentOptions? options = null)
     {
         var movie = m.Tissue(seed, 2);
         var truth = movie.Frames().First();
@@ -78,14 +101,34 @@ public static class RenderFamily
         var rng = new Random(ro.Seed);
         var o = (options ?? new SegmentOptions()) with { CellDiameterUm = m.DiameterPx, PixelSizeUm = 1 };
         var seg = new List<int[]>();
+        var refined = new List<IReadOnlyDictionary<int, Point2[]>>();
+        long moved = 0, total = 0;
         int[]? previous = null;
         for (int t = 0; t < frames; t++)
         {
             var raw = JunctionRenderer.Render(truth, movie.Width, movie.Height, t, frames, ro, rng);
-            var s = JunctionSegmenter.Segment(raw, movie.Width, movie.Height, o, previous);
-            previous = s;
-            seg.Add(s);
+            var sf = JunctionSegmenter.SegmentFrame(raw, movie.Width, movie.Height, o, previous);
+            previous = sf.Labels;
+            seg.Add(sf.Labels);
+            var polys = Outlines(sf.Labels, movie.Width, movie.Height, v =>
+            {
+                var (r, mv) = RidgeRefinement.Refine(v, sf.RidgeSignal, movie.Width, movie.Height);
+                moved += mv; total += r.Length;
+                return r;
+            });
+            refined.Add(polys);
         }
-        return BoundaryJitter.Measure(truth, seg, movie.Width, movie.Height);
+        // Error against the true contact: frames (truth, segmented) of the jitter measure; its frame-to-frame rms is the
+        // rms of r_seg - r_truth along the rays (the truth contact is the crack between truth labels: midpoint outline).
+        var truthPolys = Outlines(truth, movie.Width, movie.Height, v => v);
+        double maskErr = 0, refErr = 0;
+        for (int t = 0; t < frames; t++)
+        {
+            maskErr += Sq(BoundaryJitter.Measure(truth, [truth, seg[t]], movie.Width, movie.Height).FrameToFrameRmsPx);
+            refErr += Sq(BoundaryJitter.MeasureOutlines(truth, [truth, seg[t]], [truthPolys, refined[t]], movie.Width, movie.Height).FrameToFrameRmsPx);
+        }
+        return (BoundaryJitter.Measure(truth, seg, movie.Width, movie.Height),
+            BoundaryJitter.MeasureOutlines(truth, seg, refined, movie.Width, movie.Height), total > 0 ? (double)moved / total : 0,
+            Math.Sqrt(maskErr / frames), Math.Sqrt(refErr / frames));
     }
 }

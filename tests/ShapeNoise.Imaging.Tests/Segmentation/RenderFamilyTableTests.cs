@@ -10,21 +10,34 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
     public void Segment_FullRenderFamily_PrintsTable()
     {
         var mode = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_TABLE");
-        if (string.IsNullOrEmpty(mode)) return;   // opt-in: the table takes minutes
+        if (string.IsNullOrEmpty(mode)) return;
+        if (mode == "jitter") { JitterOnly(); return; }   // opt-in: the table takes minutes
         // "tune" uses tuning seeds 100-105; anything else the held-back seeds 900-905.
         var seeds = mode == "tune" ? new[] { 100, 101, 102 } : RenderFamily.HeldBackSeeds;
         var members = mode == "ci" || mode == "tune" ? RenderFamily.Ci : Full();
         var opts = Options();
-        log.WriteLine("| member | seed | SEG | F1 | precision | recall | jitter rms px | frame-to-frame px |");
-        log.WriteLine("| --- | --- | --- | --- | --- | --- | --- | --- |");
+        log.WriteLine("| member | seed | SEG | F1 | precision | recall | jitter rms px | frame-to-frame px | sub-pixel jitter px | sub-pixel frame-to-frame px | vertices moved |");
+        log.WriteLine("| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |");
         foreach (var m in members)
         {
             foreach (var seed in mode == "full" ? seeds : seeds.Take(mode == "tune" ? 3 : 1))
             {
                 var (sc, _, _, _, _) = RenderFamily.Run(m, seed, opts);
-                var j = RenderFamily.Jitter(m, seed, options: opts);
-                log.WriteLine($"| {m} | {seed} | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} |");
+                var (j, jr, moved, _, _) = RenderFamily.JitterBoth(m, seed, options: opts);
+                log.WriteLine($"| {m} | {seed} | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} | {jr.RmsPx:F3} | {jr.FrameToFrameRmsPx:F3} | {moved:F2} |");
             }
+        }
+    }
+
+    /// <summary>Mask and sub-pixel jitter only, CI members on held-back seed 900 (SHAPENOISE_SEG_TABLE=jitter; =jitter-tune: 100).</summary>
+    private void JitterOnly()
+    {
+        var opts = Options();
+        int seed = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_SEED") is { Length: > 0 } sd ? int.Parse(sd) : 900;
+        foreach (var m in RenderFamily.Ci)
+        {
+            var (j, jr, moved, em, er) = RenderFamily.JitterBoth(m, seed, options: opts);
+            log.WriteLine($"| {m} | {seed} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} | {jr.RmsPx:F3} | {jr.FrameToFrameRmsPx:F3} | {moved:F2} | {jr.Cells} | {em:F3} | {er:F3} |");
         }
     }
 

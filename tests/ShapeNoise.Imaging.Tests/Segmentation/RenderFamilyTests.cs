@@ -17,7 +17,7 @@ public class RenderFamilyTests(ITestOutputHelper log)
         {
             // Measured on the held-back seeds (docs/segmentation.md#render-family); floor = measured value - 0.02 (the
             // spread between seeds 100-102 of the same member was below 0.015).
-            ["dim-wide"] = (0.82, 0.95),
+            ["dim-wide"] = (0.84, 0.95),
             ["small"] = (0.845, 0.95),
         };
         var failures = new List<string>();
@@ -41,9 +41,19 @@ public class RenderFamilyTests(ITestOutputHelper log)
         // displacement is r_k(t) - mean_t r_k(t) along 32 rays per cell (BoundaryJitter); a boundary that lands one pixel
         // to either side at random gives 0.5 px, so 0.3 px needs most boundary pixels to stay put.
         var m = RenderFamily.Ci[0];
-        var j = RenderFamily.Jitter(m, RenderFamily.HeldBackSeeds[0]);
+        var (j, sub, moved, maskErr, subErr) = RenderFamily.JitterBoth(m, RenderFamily.HeldBackSeeds[0]);
         log.WriteLine($"{m}: jitter rms {j.RmsPx:F3} px, frame-to-frame rms {j.FrameToFrameRmsPx:F3} px over {j.Cells} cells, {j.Frames} frames");
+        log.WriteLine($"sub-pixel outlines: jitter rms {sub.RmsPx:F3} px, frame-to-frame rms {sub.FrameToFrameRmsPx:F3} px over {sub.Cells} cells; " +
+            $"{moved:P0} of vertices moved; rms error against the true contact {subErr:F3} px (mask {maskErr:F3} px)");
         Assert.True(j.Cells > 100, $"only {j.Cells} cells matched in every frame");
         Assert.True(j.RmsPx < 0.3, $"jitter {j.RmsPx:F3} px");
+        // Issue 17, with sub-pixel placement on the crest (RidgeRefinement; its parabolic crest is checked against the
+        // vertex of a parabola and a Gaussian ridge at known offsets in RidgeRefinementTests): the frame-to-frame rms
+        // displacement, the stricter reading of "rms boundary displacement", must be under 0.3 px too.
+        Assert.True(sub.Cells > 100, $"only {sub.Cells} cells with sub-pixel outlines in every frame");
+        Assert.True(sub.FrameToFrameRmsPx < 0.3, $"sub-pixel frame-to-frame {sub.FrameToFrameRmsPx:F3} px");
+        // The crest must not move boundaries away from the true contact (the crack between truth labels, where the
+        // renderer centres the junction band, docs/segmentation.md#render-family): no worse than the pixel mask.
+        Assert.True(subErr <= maskErr, $"sub-pixel error {subErr:F3} px > mask {maskErr:F3} px");
     }
 }
