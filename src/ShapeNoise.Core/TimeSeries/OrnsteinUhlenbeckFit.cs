@@ -150,13 +150,16 @@ internal static class OrnsteinUhlenbeckFit
         for (int k = 0; k < K; k++) { target[k] = c[k]; weight[k] = pairs[k]; }
 
         double lo = Math.Log(MinTauFrames), hi = Math.Log(maxTauFrames > 0 ? maxTauFrames : 20.0 * maxLen);
+        // At the search grid's points the expectations are the same in every fit (every bootstrap resample): tabulated once.
+        var tables = new GridExpectations[groups.Length];
+        for (int g = 0; g < groups.Length; g++) tables[g] = GridExpectations.Of(groups[g].Length, K, lo, hi);
         double Objective(double rho, int grid, out double s2, out double e2)
         {
             Array.Clear(eS); Array.Clear(eN);
-            foreach (var (len, gw) in groups)
+            for (int gi = 0; gi < groups.Length; gi++)
             {
-                // At the search grid's points the expectations are the same in every fit (every bootstrap resample): tabulated once.
-                if (grid >= 0) { var t = GridExpectations.Of(len, K, lo, hi); t.Signal[grid].CopyTo(tS, 0); t.Noise[grid].CopyTo(tN, 0); }
+                var (len, gw) = groups[gi];
+                if (grid >= 0) { tables[gi].Signal[grid].CopyTo(tS, 0); tables[gi].Noise[grid].CopyTo(tN, 0); }
                 else ExpectedSumsContiguous(len, rho, tS, tN);
                 for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
             }
@@ -201,7 +204,8 @@ internal sealed record GridExpectations(double[][] Signal, double[][] Noise)
 
     public static GridExpectations Of(int n, int K, double lo, double hi)
     {
-        if (Cache.Count > 4096) Cache.Clear();   // bounded: a run needs one entry per track length
+        if (Cache.TryGetValue((n, K, lo, hi), out var hit)) return hit;
+        if (Cache.Count > 4096) Cache.Clear();   // bounded: a run needs one entry per track length (Count locks: only on a miss)
         return Cache.GetOrAdd((n, K, lo, hi), static key =>
         {
             int points = Statistics.Minimize.DefaultGrid + 1;
