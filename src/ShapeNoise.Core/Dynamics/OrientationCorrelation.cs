@@ -116,24 +116,11 @@ internal static class OrientationCorrelation
             if (wi == 0) continue;
             var t = tracks[i];
             for (int a = 0; a < m; a++) { int k = idx[a] + 1; d[a] = (t.Sum[k] - c[k] * t.Pairs[k]) / pairs[k]; }
-            for (int a = 0; a < m; a++) AddScaled(flat.AsSpan(a * m, a + 1), d.AsSpan(0, a + 1), wi * d[a]);
+            for (int a = 0; a < m; a++) SpanMath.AddScaled(flat.AsSpan(a * m, a + 1), d.AsSpan(0, a + 1), wi * d[a]);
         }
         var cov = new double[m, m];
         for (int a = 0; a < m; a++) for (int b = 0; b <= a; b++) cov[a, b] = flat[a * m + b];
         return cov;
-    }
-
-    private static void AddScaled(Span<double> dst, ReadOnlySpan<double> src, double f)
-    {
-        int x = 0;
-        if (System.Numerics.Vector.IsHardwareAccelerated)
-        {
-            int n = System.Numerics.Vector<double>.Count;
-            var fv = new System.Numerics.Vector<double>(f);
-            for (; x <= dst.Length - n; x += n)
-                (new System.Numerics.Vector<double>(dst[x..]) + fv * new System.Numerics.Vector<double>(src[x..])).CopyTo(dst[x..]);
-        }
-        for (; x < dst.Length; x++) dst[x] += f * src[x];
     }
 
     public static PlateauFit FitTracks(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames)

@@ -165,7 +165,7 @@ public static class CoarseGraining
             {
                 // dst[x] += k_i src[x + i] for the x with 0 <= x + i < nx.
                 int lo = Math.Max(0, -i), hi = Math.Min(nx, nx - i);
-                if (hi > lo) MultiplyAdd(dst[lo..hi], src[(lo + i)..(hi + i)], k[i + r]);
+                if (hi > lo) SpanMath.AddScaled(dst[lo..hi], src[(lo + i)..(hi + i)], k[i + r]);
             }
         }
         Array.Clear(f);
@@ -173,25 +173,7 @@ public static class CoarseGraining
         {
             var dst = f.AsSpan(y * nx, nx);
             int lo = Math.Max(-r, -y), hi = Math.Min(r, ny - 1 - y);
-            for (int i = lo; i <= hi; i++) MultiplyAdd(dst, tmp.AsSpan((y + i) * nx, nx), k[i + r]);
+            for (int i = lo; i <= hi; i++) SpanMath.AddScaled(dst, tmp.AsSpan((y + i) * nx, nx), k[i + r]);
         }
-    }
-
-    /// <summary>dst[x] += c src[x] (a multiply then an add, not fused, so the rounding is that of the scalar loop).</summary>
-    private static void MultiplyAdd(Span<double> dst, ReadOnlySpan<double> src, double c)
-    {
-        int x = 0;
-        if (System.Numerics.Vector.IsHardwareAccelerated)
-        {
-            int w = System.Numerics.Vector<double>.Count;
-            var cv = new System.Numerics.Vector<double>(c);
-            for (; x <= dst.Length - w; x += w)
-            {
-                var d = new System.Numerics.Vector<double>(dst[x..]);
-                var s = new System.Numerics.Vector<double>(src[x..]);
-                (d + cv * s).CopyTo(dst[x..]);
-            }
-        }
-        for (; x < dst.Length; x++) dst[x] += c * src[x];
     }
 }
