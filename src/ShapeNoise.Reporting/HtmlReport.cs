@@ -125,8 +125,9 @@ public static class HtmlReport
           .Append(" merges of analysed cells; one-frame errors bridged: ").Append(r.Counts.Outliers).Append(" outlier outlines, ")
           .Append(r.Counts.BridgedMerges).Append(" merges, ").Append(r.Counts.BridgedSplits).Append(" splits, --max-gap ")
           .Append(r.Options.MaxGapFrames).Append("); units: ")
-          .Append(E(u.LengthName)).Append(", ").Append(E(u.TimeName)).Append(". Intervals are 95% bootstrap intervals over tracks (seed ")
-          .Append(r.Options.Seed).Append(").</p>\n<h2>Headline</h2>\n<ul>\n");
+          .Append(E(u.LengthName)).Append(", ").Append(E(u.TimeName)).Append(". Intervals are 95% bootstrap intervals (seed ")
+          .Append(r.Options.Seed).Append("); the shape statistics resample ").Append(E(r.ResamplingUnit))
+          .Append(", the collective-motion measures blocks of frames, and every estimate names its unit and count.</p>\n<h2>Headline</h2>\n<ul>\n");
         foreach (var h in Headlines(r)) sb.Append("<li>").Append(E(h)).Append("</li>\n");
         sb.Append("</ul>\n");
         if (r.Warnings.Count > 0)

@@ -38,5 +38,7 @@ public class HtmlReportTests
         if (s["plus_half_defects"] is { } plus) Assert.Contains(HtmlReport.Round(plus.GetValue<double>()), html);
         else Assert.Contains("not applicable", html);
         Assert.Contains("no clinical or diagnostic claim", html);
+        // The header names the resampling unit summary.json reports (spatial blocks on this confluent demo), not "tracks" always.
+        Assert.Contains($"the shape statistics resample {s["resampling_unit"]!.GetValue<string>()}", html);
     }
 }
