@@ -120,22 +120,11 @@ public static class JunctionSegmenter
     public static SegmentedFrame SegmentFrame(int[] raw, int width, int height, SegmentOptions o, int[]? previous = null)
     {
         double d = o.DiameterPx;
-        var f = new float[raw.Length];
-        for (int i = 0; i < raw.Length; i++) f[i] = raw[i];
-        using var img = FromArray(f, width, height);
-        // Flatten: divide by the wide blur (uneven illumination and bleaching are multiplicative).
-        using var wide = new Mat();
-        Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * d);
-        using var flat = new Mat();
-        Cv2.Divide(img, wide, flat);
-        // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count, 1/sqrt(12)),
-        // divided by the median background level (docs/segmentation.md#noise-level).
-        var wideArr = ToArray(wide);
-        Array.Sort(wideArr);
-        double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
-        double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
-        var smooth = Blurred(flat, seedSigma);
-        var fine = Blurred(flat, o.BoundarySigmaPx);
+        var (f, wideMat, flatMat) = Flattened(raw, width, height, o);
+        using var wide = wideMat;
+        using var flat = flatMat;
+        // Junction width first: it sets the boundary smoothing of the segmentation that is kept (nothing below is needed
+        // for this outer pass, which only measures the width on a first segmentation).
         if (o.BoundarySigmaWidthFactor > 0)
         {
             var first = SegmentFrame(raw, width, height, o with { BoundarySigmaWidthFactor = 0 }, previous);
@@ -144,6 +133,14 @@ public static class JunctionSegmenter
             if (!(sb > o.BoundarySigmaPx + 0.1)) return first with { JunctionSigmaPx = sj };
             return SegmentFrame(raw, width, height, o with { BoundarySigmaWidthFactor = 0, BoundarySigmaPx = sb }, previous) with { JunctionSigmaPx = sj };
         }
+        // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count, 1/sqrt(12)),
+        // divided by the median background level (docs/segmentation.md#noise-level).
+        var wideArr = ToArray(wide);
+        Array.Sort(wideArr);
+        double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
+        double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
+        var smooth = Blurred(flat, seedSigma);
+        var fine = Blurred(flat, o.BoundarySigmaPx);
         var labels = new int[raw.Length];
         int next = 0;
         bool[]? free = null;
@@ -173,14 +170,25 @@ public static class JunctionSegmenter
     /// the signal is blurred by the larger of it and <see cref="SegmentOptions.RidgeSigmaPx"/>.</param>
     public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o, double boundarySigmaPx = 0)
     {
+        var (_, wide, flat) = Flattened(raw, width, height, o);
+        using (wide)
+        using (flat)
+            return Blurred(flat, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
+    }
+
+    /// <summary>Flattening (docs/segmentation.md#method, step 1): the counts as floats, their Gaussian blur of
+    /// <see cref="SegmentOptions.FlattenDiameters"/> × D, and the counts divided by it (uneven illumination and bleaching
+    /// are multiplicative). The caller disposes both images.</summary>
+    private static (float[] Counts, Mat Wide, Mat Flat) Flattened(int[] raw, int width, int height, SegmentOptions o)
+    {
         var f = new float[raw.Length];
         for (int i = 0; i < raw.Length; i++) f[i] = raw[i];
         using var img = FromArray(f, width, height);
-        using var wide = new Mat();
+        var wide = new Mat();
         Cv2.GaussianBlur(img, wide, new Size(0, 0), o.FlattenDiameters * o.DiameterPx);
-        using var flat = new Mat();
+        var flat = new Mat();
         Cv2.Divide(img, wide, flat);
-        return Blurred(flat, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
+        return (f, wide, flat);
     }
 
     /// <summary>Smoothing of the crest signal: the larger of <see cref="SegmentOptions.RidgeSigmaPx"/> and the boundary
