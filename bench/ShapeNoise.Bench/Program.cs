@@ -25,7 +25,7 @@ bool scale = args.Contains("--scale");       // also the 2048 x 2048 px, 200-fra
 string root = FindRoot();
 string data = Path.Combine(root, "bench", "data");
 int side = quick ? 512 : 1024, cells = quick ? 625 : 2500, frames = quick ? 30 : 100;
-var movieLong = Ensure(Path.Combine(data, $"monolayer-{side}-{2 * frames}"), 2 * frames);
+var movieLong = Ensure(Path.Combine(data, $"monolayer-{side}-{2 * frames}"), side, cells, 2 * frames);
 var movieShort = Path.Combine(data, $"monolayer-{side}-{frames}.tif");
 if (!File.Exists(movieShort)) FirstPages(movieLong, movieShort, frames);
 
@@ -99,7 +99,7 @@ var ratios = new JsonObject
 if (scale && !quick)
 {
     // 4 x the cells and 2 x the frames: linear work predicts 8 x the 1024 x 1024, 100-frame time.
-    string big = Ensure2048(Path.Combine(data, "monolayer-2048-200"));
+    string big = Ensure(Path.Combine(data, "monolayer-2048-200"), 2048, 10000, 200);
     var (e2eBig, peakBig) = EndToEnd(big, root);
     ratios["scale_2048_200_s"] = e2eBig;
     ratios["scale_2048_200_over_8x"] = e2eBig / (8 * e2e);
@@ -137,21 +137,12 @@ static string FindRoot()
     return d?.FullName ?? throw new InvalidOperationException("ShapeNoise.sln not found above the benchmark");
 }
 
-string Ensure(string dir, int n)
+static string Ensure(string dir, int side, int cells, int n)
 {
     string tif = Path.Combine(dir, "labels.tif");
     if (File.Exists(tif)) return tif;
     Console.WriteLine($"generating {tif} ({side} px, {cells} cells, {n} frames) ...");
-    SynthJob.Monolayer(new MonolayerMovieOptions { Cells = cells, CellAreaPx2 = side * side / (double)cells, Frames = n, Width = side, Height = side }, dir);
-    return tif;
-}
-
-static string Ensure2048(string dir)
-{
-    string tif = Path.Combine(dir, "labels.tif");
-    if (File.Exists(tif)) return tif;
-    Console.WriteLine($"generating {tif} (2048 px, 10000 cells, 200 frames) ...");
-    SynthJob.Monolayer(new MonolayerMovieOptions { Cells = 10000, CellAreaPx2 = 2048.0 * 2048 / 10000, Frames = 200, Width = 2048, Height = 2048 }, dir);
+    SynthJob.Monolayer(new MonolayerMovieOptions { Cells = cells, CellAreaPx2 = side * (double)side / cells, Frames = n, Width = side, Height = side }, dir);
     return tif;
 }
 

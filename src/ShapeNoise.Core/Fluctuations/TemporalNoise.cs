@@ -83,13 +83,13 @@ public static class TemporalNoise
             for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau);
             return r;
         }
-        OuFit[] FitAll(int[] w, bool memoise = true) => memoise ? memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), Fitted) : Fitted(w);
+        OuFit[] FitAll(int[] w) => memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), Fitted);
         var ones = new int[t.Count]; Array.Fill(ones, 1);
         var point = FitAll(ones);
         Parallel.ForEach(plan.Draws, d => FitAll(d));   // warm the cache in parallel; the estimates below read it in order
         // The block-edge inflation's leave-one-track-out fits, once for every statistic and in parallel, not through the cache
         // (docs/statistics.md#block-edges).
-        var loo = LeaveOneOut(plan, t.Count, w => FitAll(w, memoise: false));
+        var loo = LeaveOneOut(plan, t.Count, Fitted);
 
         Func<int, double>? Loo(Func<OuFit[], double> f) => loo is null ? null : i => f(loo[i]);
 
