@@ -5,6 +5,7 @@ using ShapeNoise.Cli.Jobs;
 //   --quick : 512 x 512 px, ~625 cells, 30 and 60 frames
 //   --phases: decode and the in-process phases only (with --quick for the small movie)
 //   --scale : also 2048 x 2048 px, ~10 000 cells, 200 frames end to end, against 4 x 2 x the 1024 x 1024, 100-frame time
+//   --micro : per-call cost of the two kernels every bootstrap and leave-one-out fit runs (pooling, one OU fit)
 //   --guard : quick run that fails (exit 1) when analysis/decode exceeds 3x the ratio recorded in bench/baseline.json
 using System.Diagnostics;
 using System.Text.Json;
@@ -18,6 +19,7 @@ using ShapeNoise.Reporting;
 using ShapeNoise.Shape;
 using ShapeNoise.Synthesis;
 
+if (args.Contains("--micro")) return Micro();
 bool quick = args.Contains("--quick") || args.Contains("--guard");
 bool guard = args.Contains("--guard");
 bool phasesOnly = args.Contains("--phases");
@@ -54,6 +56,7 @@ if (phasesOnly)
 {
     foreach (var (name, sec, _) in rows) Console.WriteLine($"{name,-28}{sec,10:F3}");
     Console.WriteLine($"{"analysis total",-28}{analysisTotal,10:F3}  ({analysisTotal / decode:F1} x decode)");
+    Console.WriteLine($"garbage collections (whole process): gen0 {GC.CollectionCount(0)}, gen1 {GC.CollectionCount(1)}, gen2 {GC.CollectionCount(2)}; pause {GC.GetTotalPauseDuration().TotalSeconds:F2} s; allocated {GC.GetTotalAllocatedBytes() / 1e9:F1} GB");
     return 0;
 }
 // Gap closing (docs/measures.md#one-frame-errors): the default --max-gap 2 against 0, same movie, in-process, best of 2.
@@ -216,4 +219,27 @@ static (double Seconds, long PeakBytes) EndToEnd(string movie, string root)
     if (p.ExitCode != 0) throw new InvalidOperationException($"analyze failed: {err.Result}");
     Directory.Delete(outDir, true);
     return (s, peak);
+}
+
+// Per-call cost of the pooled autocovariance and of one Ornstein-Uhlenbeck fit on 2300 tracks of 93-100 frames (the
+// benchmark movie's shape), single-threaded, after a warm-up: what 20 000 refits a run multiply (bench/README.md).
+static int Micro()
+{
+    var rnd = new Random(1);
+    var frames = Enumerable.Range(0, 2300).Select(i => Enumerable.Range(i % 7, 100 - i % 7).ToArray()).ToArray();
+    var tracks = frames.Select(f => ShapeNoise.TimeSeries.PooledAutocovariance.Of(new ShapeNoise.TimeSeries.TrackSeries(f, f.Select(_ => rnd.NextDouble()).ToArray()), 40)).ToList();
+    var w = Enumerable.Range(0, 2300).Select(_ => rnd.Next(3)).ToArray();
+    double Time(int n, Func<int, double> call)
+    {
+        for (int i = 0; i < n / 10; i++) call(i);
+        var sw = Stopwatch.StartNew();
+        double acc = 0;
+        for (int i = 0; i < n; i++) acc += call(i);
+        GC.KeepAlive(acc);
+        return sw.Elapsed.TotalMilliseconds * 1000 / n;
+    }
+    Console.WriteLine($"pool, 2300 tracks x 41 lags: {Time(10000, i => ShapeNoise.TimeSeries.PooledAutocovariance.Pool(tracks, w, out _, 41)[1]),8:F1} us per call");
+    var ones = Enumerable.Repeat(1, 2300).ToArray();
+    Console.WriteLine($"OU fit, leave one out, 34 lags: {Time(2000, i => { ones[i] = 0; double t = ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, ones, 33).TauFrames; ones[i] = 1; return t; }),8:F1} us per call");
+    return 0;
 }

@@ -38,14 +38,30 @@ internal static class OrnsteinUhlenbeckFit
     /// </summary>
     public static void ExpectedSumsContiguous(int n, double rho, Span<double> signal, Span<double> noise)
     {
+        Span<double> pow = n < 512 ? stackalloc double[n + 1] : new double[n + 1];
+        Powers(rho, pow);
+        ExpectedSumsContiguous(n, rho, pow, signal, noise);
+    }
+
+    /// <summary>pow[j] = Math.Pow(rho, j) for every j of the span: the powers <see cref="ExpectedSumsContiguous(int, double, ReadOnlySpan{double}, Span{double}, Span{double})"/>
+    /// reads, computed once for all the track lengths of one objective evaluation (the same values as calling Math.Pow there).</summary>
+    public static void Powers(double rho, Span<double> pow)
+    {
+        for (int j = 0; j < pow.Length; j++) pow[j] = Math.Pow(rho, j);
+    }
+
+    /// <summary><see cref="ExpectedSumsContiguous(int, double, Span{double}, Span{double})"/> with the powers rho^j (j = 0..n)
+    /// given: <paramref name="pow"/>[j] = Math.Pow(rho, j), at least n + 1 of them.</summary>
+    public static void ExpectedSumsContiguous(int n, double rho, ReadOnlySpan<double> pow, Span<double> signal, Span<double> noise)
+    {
         double q = 1 - rho;
-        double b = (n * (1 + rho) / q - 2 * rho * (1 - Math.Pow(rho, n)) / (q * q)) / ((double)n * n);
+        double b = (n * (1 + rho) / q - 2 * rho * (1 - pow[n]) / (q * q)) / ((double)n * n);
         for (int k = 0; k < signal.Length; k++)
         {
             int m = n - k;
             if (m <= 0) { signal[k] = 0; noise[k] = 0; continue; }
-            double rk = Math.Pow(rho, k);
-            double sumA = 2.0 / (n * q) * (m * (1 + rho) - (rho + rk * rho) * (1 - Math.Pow(rho, m)) / q);
+            double rk = pow[k];
+            double sumA = 2.0 / (n * q) * (m * (1 + rho) - (rho + rk * rho) * (1 - pow[m]) / q);
             signal[k] = m * rk + m * b - sumA;
             noise[k] = (k == 0 ? m : 0) - (double)m / n;
         }
@@ -153,14 +169,19 @@ internal static class OrnsteinUhlenbeckFit
         // At the search grid's points the expectations are the same in every fit (every bootstrap resample): tabulated once.
         var tables = new GridExpectations[groups.Length];
         for (int g = 0; g < groups.Length; g++) tables[g] = GridExpectations.Of(groups[g].Length, K, lo, hi);
+        // rho^j for j up to the longest group length (and the lags): once per evaluation, read by every group.
+        int longest = K;
+        foreach (var (len, _) in groups) longest = Math.Max(longest, len);
+        var pow = new double[longest + 1];
         double Objective(double rho, int grid, out double s2, out double e2)
         {
             Array.Clear(eS); Array.Clear(eN);
+            if (grid < 0) Powers(rho, pow);
             for (int gi = 0; gi < groups.Length; gi++)
             {
                 var (len, gw) = groups[gi];
                 if (grid >= 0) { tables[gi].Signal[grid].CopyTo(tS, 0); tables[gi].Noise[grid].CopyTo(tN, 0); }
-                else ExpectedSumsContiguous(len, rho, tS, tN);
+                else ExpectedSumsContiguous(len, rho, pow, tS, tN);
                 for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
             }
             gaps.AddTo(rho, eS, eN);
@@ -195,7 +216,7 @@ internal static class OrnsteinUhlenbeckFit
     }
 }
 
-/// <summary><see cref="OrnsteinUhlenbeckFit.ExpectedSumsContiguous"/> of a track of n frames at the points of the fit's search
+/// <summary><see cref="OrnsteinUhlenbeckFit.ExpectedSumsContiguous(int, double, Span{double}, Span{double})"/> of a track of n frames at the points of the fit's search
 /// grid over log tau in [lo, hi] (rho = exp(-1 / exp(log tau)), the fit's own expression), lags 0..K-1: the same numbers
 /// in every bootstrap fit, computed once (bench/README.md).</summary>
 internal sealed record GridExpectations(double[][] Signal, double[][] Noise)

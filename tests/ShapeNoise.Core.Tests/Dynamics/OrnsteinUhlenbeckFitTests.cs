@@ -128,6 +128,28 @@ public class MeanSubtractionBiasTests
     }
 
     [Fact]
+    public void ExpectedSumsContiguous_PowersGiven_SameDoublesAsMathPow()
+    {
+        // The fit tabulates rho^j once per objective evaluation; the expectation must not move by a rounding step, since the
+        // regression fixtures hold the fitted values to 1e-9 (bench/README.md). Reference: the closed form with Math.Pow
+        // written out here.
+        foreach (double rho in new[] { 0.05, 0.61, 0.93, 0.9995 })
+            foreach (int n in new[] { 2, 7, 40, 100 })
+            {
+                var s = new double[12]; var e = new double[12];
+                OrnsteinUhlenbeckFit.ExpectedSumsContiguous(n, rho, s, e);
+                double q = 1 - rho, b = (n * (1 + rho) / q - 2 * rho * (1 - Math.Pow(rho, n)) / (q * q)) / ((double)n * n);
+                for (int k = 0; k < 12; k++)
+                {
+                    int m = n - k;
+                    double expected = m <= 0 ? 0 : m * Math.Pow(rho, k) + m * b
+                        - 2.0 / (n * q) * (m * (1 + rho) - (rho + Math.Pow(rho, k) * rho) * (1 - Math.Pow(rho, m)) / q);
+                    Assert.Equal(expected, s[k]);
+                }
+            }
+    }
+
+    [Fact]
     public void ExpectedSums_ClosedFormEqualsDirectSum()
     {
         var a = new double[8]; var b = new double[8]; var c = new double[8]; var d = new double[8];
@@ -173,6 +195,36 @@ public class CorrelationTimeTests
         Assert.Equal(2, s.Pairs[2]);      // (0,2), (2,4)
         double m = 3.4;
         Assert.Equal((1 - m) * (2 - m) + (2 - m) * (3 - m) + (5 - m) * (6 - m), s.Sum[1], 12);
+    }
+
+    [Fact]
+    public void Pool_WeightedTracks_EqualsTheDefiningSumsBitForBit()
+    {
+        // c(k) = sum_i w_i Sum_i[k] / sum_i w_i Pairs_i[k] (the pooled estimator's definition, docs/measures.md), summed
+        // here track by track in a plain loop: the vector-wide pooling must give the same doubles, not merely close ones,
+        // since the bootstrap fits' golden-section paths depend on them (bench/README.md).
+        var rnd = new Random(5);
+        var tracks = Enumerable.Range(0, 300).Select(_ => new LagSums(
+            Enumerable.Range(0, 13).Select(_ => rnd.NextDouble() - 0.3).ToArray(), Enumerable.Range(0, 13).Select(_ => rnd.Next(1, 60)).ToArray())).ToList();
+        var w = Enumerable.Range(0, 300).Select(_ => rnd.Next(0, 4)).ToArray();
+        var c = PooledAutocovariance.Pool(tracks, w, out var pairs, 11);
+        Assert.Equal(11, c.Length);
+        for (int k = 0; k < 11; k++)
+        {
+            double sum = 0; long n = 0;
+            for (int i = 0; i < tracks.Count; i++) { sum += w[i] * tracks[i].Sum[k]; n += (long)w[i] * tracks[i].Pairs[k]; }
+            Assert.Equal(n, pairs[k]);
+            Assert.Equal(sum / n, c[k]);
+        }
+    }
+
+    [Fact]
+    public void Pool_ListChangedBetweenCalls_PoolsTheNewTracks()
+    {
+        var tracks = new List<LagSums> { new([4, 2], [2, 1]), new([6, 1], [3, 2]) };
+        Assert.Equal(10.0 / 5, PooledAutocovariance.Pool(tracks, [], out _)[0]);
+        tracks[1] = new LagSums([1, 1], [1, 1]);     // same list, other track: the cached table must not be reused
+        Assert.Equal(5.0 / 3, PooledAutocovariance.Pool(tracks, [], out _)[0]);
     }
 
     [Fact]
