@@ -52,12 +52,13 @@ public static class FieldCorrelation
     {
         int px = PowerOfTwo(nx + bins), py = PowerOfTwo(ny + bins);
         int reachX = Math.Min(bins, nx - 1), reachY = Math.Min(bins, ny - 1);
-        var (zr, zi) = Spectrum(nx, ny, px, py, a, b);
-        var (mr, mi) = Spectrum(nx, ny, px, py, keep, null);
+        var ws = Workspace.For(px, py, 2 * reachY + 1);
+        var (zr, zi) = Spectrum(nx, ny, px, py, a, b, ws.Zr, ws.Zi, ws);
+        var (mr, mi) = Spectrum(nx, ny, px, py, keep, null, ws.Mr, ws.Mi, ws);
         // Power spectra: |A|^2 + |B|^2 = (|Z(k)|^2 + |Z(-k)|^2) / 2 for z = a + i b; the mask's |M|^2 in the imaginary part
         // (both autocorrelations are real and even, so one inverse transform returns them as real and imaginary parts).
         // The spectra are stored transposed: index kx py + ky.
-        var sr = new double[px * py]; var si = new double[px * py];
+        var sr = ws.Sr; var si = ws.Si;
         for (int kx = 0; kx < px; kx++)
             for (int ky = 0; ky < py; ky++)
             {
@@ -65,7 +66,7 @@ public static class FieldCorrelation
                 sr[k] = b is null ? Half(zr[k], zi[k], zr[kn], zi[kn]) : 0.5 * (zr[k] * zr[k] + zi[k] * zi[k] + zr[kn] * zr[kn] + zi[kn] * zi[kn]);
                 si[k] = mr[k] * mr[k] + mi[k] * mi[k];
             }
-        var (cr, ci) = Inverse(sr, si, px, py, reachY);
+        var (cr, ci) = Inverse(sr, si, px, py, reachY, ws);
         return Binned(cr, ci, px, reachX, reachY, spacingPx, bins);
     }
 
@@ -85,11 +86,11 @@ public static class FieldCorrelation
 
     /// <summary>The 2D transform of a + i b (b null: 0) zero-padded to px x py, returned transposed (index kx py + ky):
     /// the row transforms skip the py - ny rows that are all zero (docs/motion.md#spatial-correlations-by-fft).</summary>
-    private static (double[] Re, double[] Im) Spectrum(int nx, int ny, int px, int py, double[] a, double[]? b)
+    private static (double[] Re, double[] Im) Spectrum(int nx, int ny, int px, int py, double[] a, double[]? b, double[] tr, double[] ti, Workspace ws)
     {
         var fx = Radix2Fft.For(px);
-        var rowR = new double[px]; var rowI = new double[px];
-        var tr = new double[px * py]; var ti = new double[px * py];
+        var rowR = ws.RowR; var rowI = ws.RowI;
+        Array.Clear(tr); Array.Clear(ti);     // the padding rows j >= ny stay zero
         for (int j = 0; j < ny; j++)
         {
             Array.Clear(rowR); Array.Clear(rowI);
@@ -105,13 +106,13 @@ public static class FieldCorrelation
 
     /// <summary>The inverse transform of the transposed spectrum s, conj(FFT(conj s)) / (px py), at the displacements
     /// |d_y| &lt;= <paramref name="reachY"/> only: row r = d_y + reachY holds d_x = 0..px - 1 (negative d_x wrapped).</summary>
-    private static (double[] Re, double[] Im) Inverse(double[] sr, double[] si, int px, int py, int reachY)
+    private static (double[] Re, double[] Im) Inverse(double[] sr, double[] si, int px, int py, int reachY, Workspace ws)
     {
         for (int k = 0; k < si.Length; k++) si[k] = -si[k];
         var fy = Radix2Fft.For(py);
         for (int i = 0; i < px; i++) fy.Forward(sr.AsSpan(i * py, py), si.AsSpan(i * py, py));
         int rows = 2 * reachY + 1;
-        var ur = new double[rows * px]; var ui = new double[rows * px];
+        var ur = ws.Ur; var ui = ws.Ui;      // every element written below
         for (int r = 0; r < rows; r++)
         {
             int dy = (r - reachY + py) % py;
@@ -141,5 +142,31 @@ public static class FieldCorrelation
                 r.Sum[bin] += re[k]; r.Pairs[bin] += pairs; r.RSum[bin] += pairs * dist * h;
             }
         return r;
+    }
+
+    /// <summary>The transforms' arrays of one thread, kept between frames: a frame's three correlations on a 512 x 512 padded
+    /// grid would otherwise allocate about 40 MB of short-lived large objects, each batch a full garbage collection
+    /// (bench/README.md). Every array is cleared or overwritten before it is read.</summary>
+    private sealed class Workspace
+    {
+        [ThreadStatic] private static Workspace? _current;
+        public readonly int Px, Py, Rows;
+        public readonly double[] Zr, Zi, Mr, Mi, Sr, Si, Ur, Ui, RowR, RowI;
+
+        private Workspace(int px, int py, int rows)
+        {
+            Px = px; Py = py; Rows = rows;
+            Zr = new double[px * py]; Zi = new double[px * py]; Mr = new double[px * py]; Mi = new double[px * py];
+            Sr = new double[px * py]; Si = new double[px * py];
+            Ur = new double[rows * px]; Ui = new double[rows * px];
+            RowR = new double[px]; RowI = new double[px];
+        }
+
+        public static Workspace For(int px, int py, int rows)
+        {
+            var w = _current;
+            if (w is null || w.Px != px || w.Py != py || w.Rows != rows) _current = w = new Workspace(px, py, rows);
+            return w;
+        }
     }
 }
