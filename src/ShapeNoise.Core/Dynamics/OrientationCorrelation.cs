@@ -148,12 +148,28 @@ internal static class OrientationCorrelation
         var one = MathNet.Numerics.LinearAlgebra.Vector<double>.Build.Dense(m, 1.0);
         var invY = inv * yv; var invOne = inv * one;
         double yy = yv.DotProduct(invY), y1 = one.DotProduct(invY), o1 = one.DotProduct(invOne);
+        // Each chi^2 evaluation (about 170 per fit, one fit per bootstrap resample) multiplies by the inverse on plain arrays:
+        // row-by-row sums in natural order, which is how MathNet's managed provider forms the matrix-vector and dot products,
+        // so the values are the same doubles without a MathNet vector allocated per evaluation (bench/README.md).
+        var invRows = new double[m * m];
+        for (int a = 0; a < m; a++) for (int b = 0; b < m; b++) invRows[a * m + b] = inv[a, b];
+        var invYs = invY.ToArray(); var invOnes = invOne.ToArray();
+        var e = new double[m]; var invE = new double[m];
         // Profile chi^2 over the linear parameters (generalized least squares, closed form) at each tau, same constraints as the WLS fit.
         double Chi2(double tau, bool plateau)
         {
-            var e = MathNet.Numerics.LinearAlgebra.Vector<double>.Build.Dense(m, a => Math.Exp(-(idx[a] + 1) / tau));
-            var invE = inv * e;
-            double ee = e.DotProduct(invE), ye = e.DotProduct(invY), e1 = e.DotProduct(invOne);
+            for (int a = 0; a < m; a++) e[a] = Math.Exp(-(idx[a] + 1) / tau);
+            for (int a = 0; a < m; a++)
+            {
+                double sum = 0;
+                var row = invRows.AsSpan(a * m, m);
+                for (int b = 0; b < m; b++) sum += row[b] * e[b];
+                invE[a] = sum;
+            }
+            double ee = 0, ye = 0, e1 = 0;
+            for (int a = 0; a < m; a++) ee += e[a] * invE[a];
+            for (int a = 0; a < m; a++) ye += e[a] * invYs[a];
+            for (int a = 0; a < m; a++) e1 += e[a] * invOnes[a];
             double Q(double p, double amp) => yy - 2 * p * y1 - 2 * amp * ye + p * p * o1 + 2 * p * amp * e1 + amp * amp * ee;
             double aOnly = ee > 0 ? Math.Max(0, ye / ee) : 0;
             if (!plateau) return Q(0, aOnly);
