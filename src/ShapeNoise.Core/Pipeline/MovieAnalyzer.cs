@@ -100,7 +100,16 @@ public static class MovieAnalyzer
         using var tracker = new Tracker(options.Rays, tracking);
         var tally = new FrameTally();
         var tracks = new List<TrackRecord>();
-        void Collect() { foreach (var f in tracker.TakeFinished()) tracks.Add(TrackFluctuations.Of(f, tracking.MinTrackFrames, options.MaxLagFrames)); }
+        // Finished tracks to records: each record depends on its track alone, so a large batch (at the end of the movie nearly
+        // every track finishes at once) is computed in parallel and kept in the tracker's order.
+        void Collect()
+        {
+            var done = tracker.TakeFinished();
+            var records = new TrackRecord[done.Count];
+            if (done.Count < 64) for (int i = 0; i < done.Count; i++) records[i] = TrackFluctuations.Of(done[i], tracking.MinTrackFrames, options.MaxLagFrames);
+            else Parallel.For(0, done.Count, i => records[i] = TrackFluctuations.Of(done[i], tracking.MinTrackFrames, options.MaxLagFrames));
+            tracks.AddRange(records);
+        }
         foreach (var fo in frameOutlines)
         {
             var shapes = times.Time("shape", () => ShapesOf(fo.Outlines, options.Rays));

@@ -31,10 +31,17 @@ internal sealed class RadiusStore : IDisposable
         return _length++;
     }
 
+    /// <summary>Writes the appended radii through to the file; after it, and until the next <see cref="Append"/>, several
+    /// threads may <see cref="Read"/> at once (positional reads).</summary>
+    public void Flush()
+    {
+        if (_dirty) { _file.Flush(); _dirty = false; }
+    }
+
     /// <summary>Reads outline <paramref name="index"/>'s radii into <paramref name="rho"/>.</summary>
     public void Read(long index, Span<double> rho)
     {
-        if (_dirty) { _file.Flush(); _dirty = false; }
+        Flush();
         int bytes = _rays * sizeof(double);
         int got = RandomAccess.Read(_file.SafeFileHandle, MemoryMarshal.AsBytes(rho[.._rays]), index * bytes);
         if (got != bytes) throw new IOException("temporary radius file was cut short");

@@ -78,10 +78,22 @@ internal sealed class TrackBuilder(int rays) : IDisposable
     public void End(int slot, TrackEnd why)
     {
         var tr = _slots[slot] ?? throw new InvalidOperationException("slot is not open");
-        _slots[slot] = null; _free.Push(slot);
+        End(slot, why, Radii(tr));
+    }
+
+    /// <summary>The track's radii read back from the store, frame after frame.</summary>
+    private double[] Radii(Open tr)
+    {
         int n = tr.Frames.Count;
         var rho = new double[n * rays];
         for (int t = 0; t < n; t++) _store.Read(tr.Rho[t], rho.AsSpan(t * rays, rays));
+        return rho;
+    }
+
+    private void End(int slot, TrackEnd why, double[] rho)
+    {
+        var tr = _slots[slot]!;
+        _slots[slot] = null; _free.Push(slot);
         Finished.Add(new FinishedTrack(tr.Id, why, tr.Frames.ToArray(), tr.L.ToArray(), tr.W.ToArray(), tr.Q.ToArray(),
             tr.Theta.ToArray(), tr.Area.ToArray(), tr.Cx.ToArray(), tr.Cy.ToArray(), rays, rho));
     }
@@ -90,8 +102,15 @@ internal sealed class TrackBuilder(int rays) : IDisposable
     public void Dispose() => _store.Dispose();
 
     /// <summary>Closes every open track.</summary>
+    /// <remarks>At the end of a movie nearly every track is open: their radii (one small positional read per outline) are
+    /// read back on all cores, then the tracks are closed in slot order as before (bench/README.md).</remarks>
     public void EndAll(TrackEnd why)
     {
-        for (int s = 0; s < _slots.Count; s++) if (_slots[s] is not null) End(s, why);
+        var open = new List<int>();
+        for (int s = 0; s < _slots.Count; s++) if (_slots[s] is not null) open.Add(s);
+        _store.Flush();
+        var radii = new double[open.Count][];
+        Parallel.For(0, open.Count, i => radii[i] = Radii(_slots[open[i]]!));
+        for (int i = 0; i < open.Count; i++) End(open[i], why, radii[i]);
     }
 }
