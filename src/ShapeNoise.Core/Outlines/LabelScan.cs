@@ -27,15 +27,19 @@ internal sealed class LabelScan
         var labels = frame.Labels;
         var dense = new int[labels.Length];
         var slot = new Dictionary<int, int>();
-        var minX = new List<int>(); var minY = new List<int>(); var maxX = new List<int>(); var maxY = new List<int>();
-        var count = new List<int>(); var ids = new List<int>();
-        int lastLabel = 0, lastSlot = -1;
+        // Per label: min x, max x, min y, max y, pixel count, id; plain arrays grown by doubling (the loop below touches
+        // them once per pixel, so no list indexers there).
+        var minX = new int[256]; var maxX = new int[256]; var minY = new int[256]; var maxY = new int[256];
+        var count = new int[256]; var ids = new int[256];
+        int n = 0, lastLabel = 0, lastSlot = -1;
         for (int y = 0; y < h; y++)
         {
             int row = y * w;
-            for (int x = 0; x < w; x++)
+            var line = labels.AsSpan(row, w);
+            var denseLine = dense.AsSpan(row, w);
+            for (int x = 0; x < line.Length; x++)
             {
-                int l = labels[row + x];
+                int l = line[x];
                 if (l == 0) continue;
                 int s;
                 if (l == lastLabel) s = lastSlot;
@@ -43,18 +47,24 @@ internal sealed class LabelScan
                 {
                     if (!slot.TryGetValue(l, out s))
                     {
-                        s = ids.Count; slot[l] = s; ids.Add(l);
-                        minX.Add(x); maxX.Add(x); minY.Add(y); maxY.Add(y); count.Add(0);
+                        if (n == ids.Length)
+                        {
+                            int size = 2 * n;
+                            Array.Resize(ref minX, size); Array.Resize(ref maxX, size); Array.Resize(ref minY, size);
+                            Array.Resize(ref maxY, size); Array.Resize(ref count, size); Array.Resize(ref ids, size);
+                        }
+                        s = n++; slot[l] = s; ids[s] = l;
+                        minX[s] = x; maxX[s] = x; minY[s] = y; maxY[s] = y;
                     }
                     lastLabel = l; lastSlot = s;
                 }
-                dense[row + x] = s + 1;
+                denseLine[x] = s + 1;
                 count[s]++;
                 if (x < minX[s]) minX[s] = x; else if (x > maxX[s]) maxX[s] = x;
                 maxY[s] = y;
             }
         }
-        var boxes = new LabelBox[ids.Count];
+        var boxes = new LabelBox[n];
         for (int i = 0; i < boxes.Length; i++) boxes[i] = new LabelBox(ids[i], minX[i], minY[i], maxX[i], maxY[i], count[i]);
         return new LabelScan(boxes, dense, w, h);
     }
