@@ -316,7 +316,7 @@ public static class Tables
     public static void WriteAll(AnalysisResult r, string dir)
     {
         var c = AnalysisFolder.Columns(UnitScale.Of(r.Units));
-        Write(Path.Combine(dir, AnalysisFolder.Cells), Cells(r), new CellMap(c));
+        CellsCsv.Write(Path.Combine(dir, AnalysisFolder.Cells), Cells(r), c);
         Write(Path.Combine(dir, AnalysisFolder.Tracks), Tracks(r), new TrackMap(c));
         Write(Path.Combine(dir, AnalysisFolder.Spectrum), Spectrum(r), new SpectrumMap(c));
         Write(Path.Combine(dir, AnalysisFolder.Profile), Profile(r), new ProfileMap(c));
