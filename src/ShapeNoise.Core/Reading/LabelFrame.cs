@@ -40,6 +40,9 @@ public interface ILabelMovie : IDisposable
     MovieInfo Info { get; }
     /// <summary>The frames in order; each is read when enumerated.</summary>
     IEnumerable<LabelFrame> Frames();
+    /// <summary>The frames whose index <paramref name="wanted"/> accepts, in order; a format that can seek does not decode
+    /// the others (the report's overlays need three frames of the movie, not all of them).</summary>
+    IEnumerable<LabelFrame> Frames(Func<int, bool> wanted) => Frames().Where(f => wanted(f.Index));
     /// <summary>The files this movie reads, for provenance.</summary>
     IReadOnlyList<string> Files { get; }
 }

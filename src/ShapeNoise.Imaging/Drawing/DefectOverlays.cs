@@ -25,9 +25,8 @@ public sealed class DefectOverlays(int frames = 3) : IFrameFigures
         var cellsByFrame = result.Cells.Where(c => wanted.Contains(c.Frame)).GroupBy(c => c.Frame).ToDictionary(g => g.Key, g => g.ToList());
         var defectsByFrame = result.Defects.Observations.GroupBy(o => o.Frame).ToDictionary(g => g.Key, g => g.ToList());
         using var movie = reopen();
-        foreach (var frame in movie.Frames())
+        foreach (var frame in movie.Frames(wanted.Contains))
         {
-            if (!wanted.Contains(frame.Index)) continue;
             using var img = Draw(frame, cellsByFrame.GetValueOrDefault(frame.Index) ?? [], defectsByFrame.GetValueOrDefault(frame.Index) ?? [], result.Defects.CoarsePx);
             figures.Add(new Figure($"defects-frame-{frame.Index:D3}.png", Caption, img.ImEncode(".png")));
             if (frame.Index >= wanted.Max()) break;

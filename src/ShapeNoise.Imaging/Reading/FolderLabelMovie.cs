@@ -30,10 +30,14 @@ internal sealed class FolderLabelMovie : ILabelMovie
     }
 
     /// <inheritdoc/>
-    public IEnumerable<LabelFrame> Frames()
+    public IEnumerable<LabelFrame> Frames() => Frames(static _ => true);
+
+    /// <inheritdoc/>
+    public IEnumerable<LabelFrame> Frames(Func<int, bool> wanted)
     {
         for (int i = 0; i < Files.Count; i++)
         {
+            if (!wanted(i)) continue;
             var f = ReadFile(Files[i], out _);
             if (f.Width != Info.Width || f.Height != Info.Height)
                 throw new InputException(Files[i], $"is {f.Width}x{f.Height}, the first frame is {Info.Width}x{Info.Height}");

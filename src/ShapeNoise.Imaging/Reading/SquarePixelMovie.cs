@@ -45,10 +45,13 @@ internal sealed class SquarePixelMovie : ILabelMovie
     }
 
     /// <inheritdoc/>
-    public IEnumerable<LabelFrame> Frames()
+    public IEnumerable<LabelFrame> Frames() => Frames(static _ => true);
+
+    /// <inheritdoc/>
+    public IEnumerable<LabelFrame> Frames(Func<int, bool> wanted)
     {
         int w = Info.Width, h = Info.Height, sw = _inner.Info.Width;
-        foreach (var f in _inner.Frames())
+        foreach (var f in _inner.Frames(wanted))
         {
             var dst = new int[w * h];
             var src = f.Labels.AsSpan();
@@ -75,6 +78,8 @@ internal sealed class RescaledMovie(ILabelMovie inner, MovieInfo info) : ILabelM
     public IReadOnlyList<string> Files => inner.Files;
     /// <inheritdoc/>
     public IEnumerable<LabelFrame> Frames() => inner.Frames();
+    /// <inheritdoc/>
+    public IEnumerable<LabelFrame> Frames(Func<int, bool> wanted) => inner.Frames(wanted);
     /// <inheritdoc/>
     public void Dispose() => inner.Dispose();
 }

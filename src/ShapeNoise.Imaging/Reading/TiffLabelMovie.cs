@@ -47,10 +47,13 @@ internal sealed class TiffLabelMovie : ILabelMovie
     }
 
     /// <inheritdoc/>
-    public IEnumerable<LabelFrame> Frames()
+    public IEnumerable<LabelFrame> Frames() => Frames(static _ => true);
+
+    /// <inheritdoc/>
+    public IEnumerable<LabelFrame> Frames(Func<int, bool> wanted)
     {
         for (int i = 0; i < _pages.Length; i++)
-            yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i]));
+            if (wanted(i)) yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i]));
     }
 
     /// <inheritdoc/>

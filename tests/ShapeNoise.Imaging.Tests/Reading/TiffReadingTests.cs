@@ -14,6 +14,20 @@ public class TiffReadingTests
         return Enumerable.Range(0, n).Select(_ => rng.Next(max + 1)).ToArray();
     }
 
+    [Fact]
+    public void FramesWanted_FivePageStack_ReturnsOnlyThoseFramesWithTheirPixels()
+    {
+        using var d = new TempDir();
+        int w = 19, h = 11;
+        var pages = Enumerable.Range(0, 5).Select(i => RandomLabels(w * h, 60000, 40 + i)).ToList();
+        TiffWriter.Write(d["a.tif"], w, h, pages, TiffWriter.PixelType.UInt16, null, true);
+        using var movie = LabelMovies.Open(d["a.tif"]);
+        var got = movie.Frames(i => i is 1 or 4).ToList();
+        Assert.Equal([1, 4], got.Select(f => f.Index));
+        Assert.Equal(pages[1], got[0].Labels);
+        Assert.Equal(pages[4], got[1].Labels);
+    }
+
     [Theory]
     [InlineData(TiffWriter.PixelType.UInt8, 255, true)]
     [InlineData(TiffWriter.PixelType.UInt16, 65535, true)]
