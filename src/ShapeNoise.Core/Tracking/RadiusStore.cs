@@ -47,6 +47,31 @@ internal sealed class RadiusStore : IDisposable
         if (got != bytes) throw new IOException("temporary radius file was cut short");
     }
 
+    /// <summary>Number of outlines stored.</summary>
+    public long Count => _length;
+
+    /// <summary>Reads every stored outline in index order, in large sequential blocks, handing each one's radii to
+    /// <paramref name="each"/> (index, radii; the span is reused after the call).</summary>
+    public void ReadAll(Action<long, ReadOnlySpan<double>> each)
+    {
+        Flush();
+        const int block = 8192;
+        var buffer = new double[block * _rays];
+        for (long first = 0; first < _length; first += block)
+        {
+            int n = (int)Math.Min(block, _length - first);
+            var bytes = MemoryMarshal.AsBytes(buffer.AsSpan(0, n * _rays));
+            long offset = first * _rays * sizeof(double);
+            while (bytes.Length > 0)
+            {
+                int got = RandomAccess.Read(_file.SafeFileHandle, bytes, offset);
+                if (got <= 0) throw new IOException("temporary radius file was cut short");
+                bytes = bytes[got..]; offset += got;
+            }
+            for (int i = 0; i < n; i++) each(first + i, buffer.AsSpan(i * _rays, _rays));
+        }
+    }
+
     /// <summary>Closes and so deletes the temporary file.</summary>
     public void Dispose() => _file.Dispose();
 }
