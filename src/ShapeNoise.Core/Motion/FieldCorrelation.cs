@@ -52,7 +52,18 @@ public static class FieldCorrelation
     {
         int px = PowerOfTwo(nx + bins), py = PowerOfTwo(ny + bins);
         int reachX = Math.Min(bins, nx - 1), reachY = Math.Min(bins, ny - 1);
-        var ws = Workspace.For(px, py, 2 * reachY + 1);
+        var ws = Workspace.Rent(px, py, 2 * reachY + 1);
+        try { return Correlate(nx, ny, px, py, reachX, reachY, spacingPx, a, b, keep, bins, ws); }
+        finally { Workspace.Return(ws); }
+    }
+
+    /// <summary>Lets the workspaces go (the motion stage calls it when its frames are done, so a large movie's transform
+    /// arrays do not stay allocated through the rest of the run).</summary>
+    public static void ReleaseWorkspaces() => Workspace.Clear();
+
+    private static RadialSums Correlate(int nx, int ny, int px, int py, int reachX, int reachY, double spacingPx, double[] a, double[]? b,
+        double[] keep, int bins, Workspace ws)
+    {
         var (zr, zi) = Spectrum(nx, ny, px, py, a, b, ws.Zr, ws.Zi, ws);
         var (mr, mi) = Spectrum(nx, ny, px, py, keep, null, ws.Mr, ws.Mi, ws);
         // Power spectra: |A|^2 + |B|^2 = (|Z(k)|^2 + |Z(-k)|^2) / 2 for z = a + i b; the mask's |M|^2 in the imaginary part
@@ -144,12 +155,12 @@ public static class FieldCorrelation
         return r;
     }
 
-    /// <summary>The transforms' arrays of one thread, kept between frames: a frame's three correlations on a 512 x 512 padded
-    /// grid would otherwise allocate about 40 MB of short-lived large objects, each batch a full garbage collection
-    /// (bench/README.md). Every array is cleared or overwritten before it is read.</summary>
+    /// <summary>The transforms' arrays, rented by one correlation at a time and reused across frames: a frame's three
+    /// correlations on a 512 x 512 padded grid would otherwise allocate about 40 MB of short-lived large objects, each batch
+    /// a full garbage collection (bench/README.md). Every array is cleared or overwritten before it is read.</summary>
     private sealed class Workspace
     {
-        [ThreadStatic] private static Workspace? _current;
+        private static readonly System.Collections.Concurrent.ConcurrentBag<Workspace> Free = new();
         public readonly int Px, Py, Rows;
         public readonly double[] Zr, Zi, Mr, Mi, Sr, Si, Ur, Ui, RowR, RowI;
 
@@ -162,11 +173,15 @@ public static class FieldCorrelation
             RowR = new double[px]; RowI = new double[px];
         }
 
-        public static Workspace For(int px, int py, int rows)
+        public static Workspace Rent(int px, int py, int rows)
         {
-            var w = _current;
-            if (w is null || w.Px != px || w.Py != py || w.Rows != rows) _current = w = new Workspace(px, py, rows);
-            return w;
+            while (Free.TryTake(out var w))
+                if (w.Px == px && w.Py == py && w.Rows == rows) return w;   // one of another size is dropped
+            return new Workspace(px, py, rows);
         }
+
+        public static void Return(Workspace w) => Free.Add(w);
+
+        public static void Clear() => Free.Clear();
     }
 }

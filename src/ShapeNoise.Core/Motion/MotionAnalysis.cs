@@ -71,6 +71,7 @@ public static class MotionAnalysis
         var frames = new FrameSums[runs.Count];
         Parallel.For(0, runs.Count, f => frames[f] = FrameSums.Of(runs[f].Frame, Samples(cells, runs[f], velocityOf), widthPx, heightPx,
             gridPx, coarsePx, stride, !o.KeepDrift, fieldNotApplicable is null, keepMap: f == runs.Count / 2));
+        FieldCorrelation.ReleaseWorkspaces();
         var lags = LagSums.Of(cells, runs, frames, velocityOf, o.MaxLagFrames);
         return Summarise(frames, lags, gridPx * stride, o, fieldNotApplicable);
     }
