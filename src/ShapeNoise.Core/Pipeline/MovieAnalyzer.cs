@@ -120,7 +120,7 @@ public static class MovieAnalyzer
         }
         if (tally.Frames < 2)
             throw new InputException(info.Path, $"has {tally.Frames} frame(s); fluctuations need a movie of at least 2 frames");
-        times.Time("fluctuations", () => { tracker.Finish(); Collect(); return 0; });
+        times.Time("fluctuations", () => { tracker.Finish(afterBatch: Collect); Collect(); return 0; });
         tracks.Sort((x, y) => x.Id.CompareTo(y.Id));
         // One-frame outliers leave every statistic and the nematic field (docs/measures.md#one-frame-errors).
         var trackCounts = tracker.Counts();

@@ -101,28 +101,47 @@ internal sealed class TrackBuilder(int rays) : IDisposable
     /// <summary>Deletes the temporary radius file.</summary>
     public void Dispose() => _store.Dispose();
 
-    /// <summary>Closes every open track.</summary>
-    /// <remarks>At the end of a movie nearly every track is open: their radii are read back in one sequential pass over the
-    /// store (not one small read per outline), then the tracks are closed in slot order as before (bench/README.md).</remarks>
-    public void EndAll(TrackEnd why)
+    /// <summary>Radii (doubles) read back at once when the open tracks are closed: 2^25 doubles, 256 MB.</summary>
+    public const long EndBatchDoubles = 1L << 25;
+
+    /// <summary>Closes every open track, in slot order; <paramref name="afterBatch"/> (may be null) runs after each batch of
+    /// tracks whose radii together stay within <see cref="EndBatchDoubles"/>, so a caller that takes the finished tracks
+    /// there holds one batch of radii at a time.</summary>
+    /// <remarks>At the end of a movie nearly every track is open: their radii are read back in sequential passes over the
+    /// store (one per batch; not one small read per outline). A 2048 x 2048 px, 200-frame movie has about 1 GB of radii,
+    /// which would otherwise all be in memory at once (bench/README.md).</remarks>
+    public void EndAll(TrackEnd why, Action? afterBatch = null, long batchDoubles = EndBatchDoubles)
     {
         var open = new List<int>();
         for (int s = 0; s < _slots.Count; s++) if (_slots[s] is not null) open.Add(s);
-        var radii = new double[open.Count][];
-        // Where each stored outline goes: open track i, frame position t (-1: an outline of a track that has ended).
+        // Where each stored outline goes: track i of the batch, frame position t (-1: not in this batch).
         var owner = new int[_store.Count]; var position = new int[_store.Count];
         Array.Fill(owner, -1);
-        for (int i = 0; i < open.Count; i++)
+        for (int first = 0; first < open.Count;)
         {
-            var tr = _slots[open[i]]!;
-            radii[i] = new double[tr.Frames.Count * rays];
-            for (int t = 0; t < tr.Rho.Count; t++) { owner[tr.Rho[t]] = i; position[tr.Rho[t]] = t; }
+            int last = first; long held = 0;
+            while (last < open.Count && (last == first || held + (long)_slots[open[last]]!.Frames.Count * rays <= batchDoubles))
+                held += (long)_slots[open[last++]]!.Frames.Count * rays;
+            var radii = new double[last - first][];
+            for (int i = 0; i < radii.Length; i++)
+            {
+                var tr = _slots[open[first + i]]!;
+                radii[i] = new double[tr.Frames.Count * rays];
+                for (int t = 0; t < tr.Rho.Count; t++) { owner[tr.Rho[t]] = i; position[tr.Rho[t]] = t; }
+            }
+            _store.ReadAll((index, rho) =>
+            {
+                int i = owner[index];
+                if (i >= 0) rho.CopyTo(radii[i].AsSpan(position[index] * rays, rays));
+            });
+            for (int i = 0; i < radii.Length; i++)
+            {
+                var tr = _slots[open[first + i]]!;
+                foreach (long index in tr.Rho) owner[index] = -1;
+                End(open[first + i], why, radii[i]);
+            }
+            first = last;
+            afterBatch?.Invoke();
         }
-        _store.ReadAll((index, rho) =>
-        {
-            int i = owner[index];
-            if (i >= 0) rho.CopyTo(radii[i].AsSpan(position[index] * rays, rays));
-        });
-        for (int i = 0; i < open.Count; i++) End(open[i], why, radii[i]);
     }
 }

@@ -28,7 +28,7 @@ public readonly record struct TrackingCounts(int Outliers, int BridgedMerges, in
 /// M's later split (M is then an outlier: a bridged merge); a track that split only at an outline formed by merging its
 /// own parts again (the parts are outliers: a bridged split). A track not continued ends: Division, Merge, Border,
 /// Small (its only successor is excluded), else Lost; the tracks still open after the last frame end in
-/// <see cref="Finish"/> (sleeping ones with the reason they fell asleep, the others MovieEnd). Finished tracks lose their
+/// <see cref="Finish(Action?)"/> (sleeping ones with the reason they fell asleep, the others MovieEnd). Finished tracks lose their
 /// one-frame outliers (<see cref="OutlierRule"/>), which leaves a gap.
 /// </summary>
 /// <remarks>Ended tracks are handed over once by <see cref="TakeFinished"/>, radii included; the radii of open tracks
@@ -220,12 +220,17 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
         return new FrameLinks(pred, new bool[earlier], new bool[later], succ);
     }
 
-    /// <summary>After the last frame: sleeping tracks end with the reason they fell asleep, every other open track MovieEnd.</summary>
-    public void Finish()
+    /// <summary>After the last frame: sleeping tracks end with the reason they fell asleep, every other open track MovieEnd.
+    /// <paramref name="afterBatch"/> (may be null) runs after each batch of ended tracks (<see cref="TrackBuilder.EndAll"/>):
+    /// taking the finished tracks there keeps one batch of radii in memory at a time.</summary>
+    public void Finish(Action? afterBatch = null) => Finish(afterBatch, TrackBuilder.EndBatchDoubles);
+
+    /// <summary><see cref="Finish(Action?)"/> with batches of at most <paramref name="batchDoubles"/> radii (at least one track).</summary>
+    internal void Finish(Action? afterBatch, long batchDoubles)
     {
         foreach (var d in _dormant) _builder.End(d.Slot, d.Why);
         _dormant.Clear();
-        _builder.EndAll(TrackEnd.MovieEnd);
+        _builder.EndAll(TrackEnd.MovieEnd, afterBatch, batchDoubles);
         _prevSlot = null; _prevTrack = null; _prevShapes = null;
     }
 
@@ -258,7 +263,7 @@ public sealed class Tracker(int rays, TrackingOptions options) : IDisposable
     /// a one-frame outlier (known once its track has been handed over by <see cref="TakeFinished"/>).</summary>
     public bool IsOutlier(int trackId, int frame) => _outlierOutlines.Contains((trackId, frame));
 
-    /// <summary>The counts so far (final after <see cref="Finish"/> and <see cref="TakeFinished"/>). A division or merge
+    /// <summary>The counts so far (final after <see cref="Finish(Action?)"/> and <see cref="TakeFinished"/>). A division or merge
     /// that belongs to a bridged error (its parent, its child or all its parts are outlier tracks) is not counted.</summary>
     public TrackingCounts Counts()
     {

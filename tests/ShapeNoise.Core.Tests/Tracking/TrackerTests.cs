@@ -267,4 +267,37 @@ public class TrackerTests
         Assert.False(b.Used); Assert.Null(b.Contour);
         Assert.Equal(a.VarLPx2, b.VarLPx2);
     }
+
+    /// <summary>Closing the open tracks batch by batch (one track per batch here) hands over the same tracks, in the same
+    /// order, with the same radii bit for bit as closing them in one batch (the default for a movie of this size); the
+    /// caller's hook runs once per batch.</summary>
+    [Fact]
+    public void Finish_OneTrackPerBatch_SameTracksAndRadiiAsOneBatch()
+    {
+        List<FinishedTrack> Run(long batchDoubles, out int batches)
+        {
+            using var tracker = new Tracker(Rays, new TrackingOptions(maxGapFrames: 0));
+            var o = new[] { Ellipse(1, 20, 20), Ellipse(2, 60, 20), Ellipse(3, 100, 20) };
+            Step(tracker, 0, o, null);
+            for (int f = 1; f < 4; f++)
+            {
+                o = [Ellipse(1, 20 + f, 20), Ellipse(2, 60, 20 + 0.5 * f), Ellipse(3, 100 - f, 21)];
+                Step(tracker, f, o, OneToOne(3, 0, 1, 2));
+            }
+            var done = new List<FinishedTrack>();
+            int calls = 0;
+            tracker.Finish(() => { calls++; done.AddRange(tracker.TakeFinished()); }, batchDoubles);
+            done.AddRange(tracker.TakeFinished());
+            batches = calls;
+            return done;
+        }
+        var one = Run(TrackBuilder.EndBatchDoubles, out int oneBatches);
+        var each = Run(1, out int eachBatches);
+        Assert.Equal(1, oneBatches);
+        Assert.Equal(3, eachBatches);
+        Assert.Equal(one.Select(t => t.Id), each.Select(t => t.Id));
+        for (int i = 0; i < one.Count; i++) Assert.Equal(one[i].BodyFrameRadiiPx, each[i].BodyFrameRadiiPx);
+        Assert.All(one, t => Assert.Equal(4, t.Frames));
+    }
 }
+
