@@ -15,10 +15,9 @@ internal static class CellsCsv
     public static void Write(string path, IEnumerable<CellRow> rows, AnalysisColumns c)
     {
         using var w = new StreamWriter(path, false, new UTF8Encoding(false), 1 << 16);
-        var names = new List<string> { "frame", c.Time, "label", "track_id", "in_statistics", c.X, c.Y, c.Area, c.Perimeter, c.Length, c.Width,
-            "aspect_ratio", "elongation_q", "theta_rad", c.MeanRadius, c.Mode2Amplitude, "star_shaped", "vertices" };
-        bool px = c.CellPx is not null;
-        if (c.CellPx is { } p) { names.Add(p.X); names.Add(p.Y); }
+        // The header from the class map itself, so the column names have one home.
+        var names = new CellMap(c).MemberMaps.Where(m => !m.Data.Ignore).Select(m => m.Data.Names[0]);
+        bool px = c.CellPx is not null;     // the map's own condition for the x_px, y_px columns
         w.Write(string.Join(",", names));
         w.Write("\r\n");
         var line = new Line(new char[1024]);

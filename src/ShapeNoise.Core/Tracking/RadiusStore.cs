@@ -31,9 +31,8 @@ internal sealed class RadiusStore : IDisposable
         return _length++;
     }
 
-    /// <summary>Writes the appended radii through to the file; after it, and until the next <see cref="Append"/>, several
-    /// threads may <see cref="Read"/> at once (positional reads).</summary>
-    public void Flush()
+    /// <summary>Writes the appended radii through to the file before any read.</summary>
+    private void Flush()
     {
         if (_dirty) { _file.Flush(); _dirty = false; }
     }
