@@ -37,11 +37,13 @@ public sealed record SegmentOptions
     /// a window of <see cref="SeedWindowFraction"/> diameters (the original method).</summary>
     public SeedMethod Seeds { get; init; } = SeedMethod.HMinima;
     /// <summary>h-minima seeds: a minimum of the seed image is a seed when its dynamic is at least this many noise sd of
-    /// the seed image (measured noise of the flattened image, reduced by the smoothing).</summary>
-    public double SeedDepthSd { get; init; } = 5;
+    /// the seed image (measured noise of the flattened image, reduced by the smoothing); 2 chosen on the tuning renders
+    /// (docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
+    public double SeedDepthSd { get; init; } = 2;
     /// <summary>Neighbouring regions whose shared boundary rises less than this many noise sd (of the boundary image)
-    /// above the brighter region's median are merged: the boundary has no ridge.</summary>
-    public double RidgeContrastSd { get; init; } = 4;
+    /// above the brighter region's interior level are merged: the boundary has no ridge; 2 chosen with the seed depth
+    /// (docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
+    public double RidgeContrastSd { get; init; } = 2;
     /// <summary>Passes of the ridge placement of boundaries (default 0 = off; measured to lower SEG on the render family,
     /// docs/segmentation.md#what-did-not-help): boundary pixels on the flank of a crest move to the crest's far side.</summary>
     public int RidgePasses { get; init; }

@@ -12,6 +12,7 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
         var mode = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_TABLE");
         if (string.IsNullOrEmpty(mode)) return;
         if (mode == "jitter") { JitterOnly(); return; }   // opt-in: the table takes minutes
+        if (mode == "probe") { Probe(); return; }
         // "tune" uses tuning seeds 100-105; anything else the held-back seeds 900-905.
         var seeds = mode == "tune" ? new[] { 100, 101, 102 } : RenderFamily.HeldBackSeeds;
         var members = mode == "ci" || mode == "tune" ? RenderFamily.Ci : Full();
@@ -39,6 +40,36 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
             var (j, jr, moved, em, er) = RenderFamily.JitterBoth(m, seed, options: opts);
             log.WriteLine($"| {m} | {seed} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} | {jr.RmsPx:F3} | {jr.FrameToFrameRmsPx:F3} | {moved:F2} | {jr.Cells} | {em:F3} | {er:F3} |");
         }
+    }
+
+    /// <summary>SEG and F1 only, on the tuning seeds, for the members below the targets and the CI members
+    /// (SHAPENOISE_SEG_TABLE=probe; SHAPENOISE_SEG_SEED picks one seed, default 100 and 101).</summary>
+    private void Probe()
+    {
+        var opts = Options();
+        var seeds = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_SEED") is { Length: > 0 } sd ? [int.Parse(sd)] : new[] { 100, 101 };
+        RenderMember[] members =
+        [
+            .. RenderFamily.Ci[..5],
+            new("grid", 8, 5, 1.2, 1), new("grid", 8, 8, 1.2, 1), new("grid", 8, 20, 1.2, 1), new("psf", 12, 8, 2.5, 1),
+        ];
+        // SHAPENOISE_SEG_MEMBERS="D,snr,psf,line;..." replaces the members.
+        if (Environment.GetEnvironmentVariable("SHAPENOISE_SEG_MEMBERS") is { Length: > 0 } ms)
+            members = ms.Split(';').Select(x => x.Split(',').Select(v => double.Parse(v, System.Globalization.CultureInfo.InvariantCulture)).ToArray())
+                .Select(v => new RenderMember("custom", v[0], v[1], v[2], v[3])).ToArray();
+        double worst = 1;
+        foreach (var m in members)
+        {
+            double seg = 0, f1 = 0, pr = 0, rc = 0;
+            foreach (var seed in seeds)
+            {
+                var (sc, _, _, _, _) = RenderFamily.Run(m, seed, opts);
+                seg += sc.Seg / seeds.Length; f1 += sc.F1 / seeds.Length; pr += sc.Precision / seeds.Length; rc += sc.Recall / seeds.Length;
+            }
+            worst = Math.Min(worst, seg);
+            log.WriteLine($"| {m} | {seg:F3} | {f1:F3} | {pr:F3} | {rc:F3} |");
+        }
+        log.WriteLine($"worst SEG {worst:F3}");
     }
 
     private static SegmentOptions Options()
