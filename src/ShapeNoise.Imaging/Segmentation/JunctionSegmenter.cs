@@ -27,6 +27,16 @@ public sealed record SegmentOptions
     /// <summary><c>analyze --raw</c>: move every traced outline onto the crest of the junction signal (default on;
     /// docs/segmentation.md#sub-pixel-boundaries); off: the label masks' midpoint outlines.</summary>
     public bool CrestOutlines { get; init; } = true;
+    /// <summary>Sd (px) of the microscope's Gaussian point-spread function: when &gt; 0 the image the watershed floods is
+    /// deconvolved (Richardson-Lucy) with a Gaussian of min(this, <see cref="DeconvolveMaxSigmaPx"/>) (the seeds are not);
+    /// 0 = off, the default (docs/segmentation.md#deconvolution).</summary>
+    public double DeconvolveSigmaPx { get; init; }
+    /// <summary>Largest kernel (px) the deconvolution uses: broader PSFs are deconvolved only partly (1.5 px, measured on the
+    /// tuning renders, docs/segmentation.md#deconvolution).</summary>
+    public double DeconvolveMaxSigmaPx { get; init; } = 1.5;
+    /// <summary>Richardson-Lucy iterations when <see cref="DeconvolveSigmaPx"/> &gt; 0 (8, chosen on the tuning renders,
+    /// docs/segmentation.md#deconvolution).</summary>
+    public int DeconvolveIterations { get; init; } = 8;
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 
@@ -52,6 +62,9 @@ public sealed record SegmentOptions
     /// <summary>With <see cref="TrackSeeds"/>: the previous frame's cells are shrunk by this fraction of the diameter before seeding.</summary>
     public double TrackErosionFraction { get; init; } = 0.25;
 
+    /// <summary>Sd (px) of the Gaussian the deconvolution uses: min(<see cref="DeconvolveSigmaPx"/>, <see cref="DeconvolveMaxSigmaPx"/>); 0 = off.</summary>
+    public double DeconvolutionKernelPx => DeconvolveIterations > 0 ? Math.Min(DeconvolveSigmaPx, DeconvolveMaxSigmaPx) : 0;
+
     /// <summary>Expected cell diameter in pixels: CellDiameterUm / PixelSizeUm.</summary>
     public double DiameterPx => CellDiameterUm / PixelSizeUm;
 
@@ -67,6 +80,10 @@ public sealed record SegmentOptions
         if (!(SeedDepthSd > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepthSd})");
         if (!(RidgeContrastSd >= 0)) throw new ArgumentException($"--ridge-contrast must be >= 0 noise sd (got {RidgeContrastSd})");
         if (RidgePasses is < 0 or > 50) throw new ArgumentException($"--ridge-passes must be in 0..50 (got {RidgePasses})");
+        if (!(DeconvolveSigmaPx >= 0 && DeconvolveSigmaPx <= 0.25 * DiameterPx))
+            throw new ArgumentException($"--deconvolve must be between 0 (off) and a quarter of the cell diameter, {0.25 * DiameterPx:0.#} px (got {DeconvolveSigmaPx})");
+        if (!(DeconvolveMaxSigmaPx > 0)) throw new ArgumentException($"the largest deconvolution kernel must be > 0 px (got {DeconvolveMaxSigmaPx})");
+        if (DeconvolveIterations is < 1 or > 100) throw new ArgumentException($"--deconvolve-iterations must be in 1..100 (got {DeconvolveIterations})");
         if (!(TrackErosionFraction is >= 0 and < 0.5)) throw new ArgumentException($"--track-erosion must be in [0, 0.5) (got {TrackErosionFraction})");
         return this;
     }
@@ -142,7 +159,8 @@ public static class JunctionSegmenter
         double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
         double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
         var smooth = Blurred(flat, seedSigma);
-        var fine = Blurred(flat, o.BoundarySigmaPx);
+        using var sharp = BoundarySource(flat, o);
+        var fine = Blurred(sharp, o.BoundarySigmaPx);
         var labels = new int[raw.Length];
         int next = 0;
         bool[]? free = null;
@@ -154,11 +172,11 @@ public static class JunctionSegmenter
         if (o.Seeds == SeedMethod.Window) GroupSeeds(labels, width, height);
         Watershed.Flood(fine, labels, width, height);
         double area = Math.PI * d * d / 4;
-        int ridgeless = Regions.MergeRidgeless(labels, fine, width, height, o.RidgeContrastSd * NoiseLevel.AfterBlur(noise, o.BoundarySigmaPx));
+        int ridgeless = Regions.MergeRidgeless(labels, fine, width, height, o.RidgeContrastSd * NoiseAfter(noise, o.BoundarySigmaPx, o));
         int fragments = Regions.MergeSmall(labels, width, height, (int)(o.MinAreaFraction * area));
         int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
         Regions.DropLarge(labels, o.MaxAreaFactor * area);
-        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = RidgeSigma(o) == o.BoundarySigmaPx ? fine : Blurred(flat, RidgeSigma(o)), BoundarySigmaPx = o.BoundarySigmaPx };
+        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = RidgeSigma(o) == o.BoundarySigmaPx ? fine : Blurred(sharp, RidgeSigma(o)), BoundarySigmaPx = o.BoundarySigmaPx };
     }
 
     /// <summary>The junction signal whose crest the sub-pixel outlines follow: the frame divided by its Gaussian blur of
@@ -175,7 +193,8 @@ public static class JunctionSegmenter
         var (_, wide, flat) = Flattened(raw, width, height, o);
         using (wide)
         using (flat)
-            return Blurred(flat, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
+        using (var sharp = BoundarySource(flat, o))
+            return Blurred(sharp, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
     }
 
     /// <summary>Flattening (docs/segmentation.md#method, step 1): the counts as floats, their Gaussian blur of
@@ -192,6 +211,23 @@ public static class JunctionSegmenter
         Cv2.Divide(img, wide, flat);
         return (f, wide, flat);
     }
+
+    /// <summary>The image the boundaries are found on (docs/segmentation.md#deconvolution): the flattened frame, deconvolved
+    /// (Richardson-Lucy, <see cref="SegmentOptions.DeconvolutionKernelPx"/>) when that is on. The seeds always come from the
+    /// flattened frame itself: deconvolved seeds split cells. The caller disposes the copy.</summary>
+    private static Mat BoundarySource(Mat flat, SegmentOptions o)
+    {
+        var m = flat.Clone();
+        if (o.DeconvolutionKernelPx > 0) Deconvolution.RichardsonLucy(m, o.DeconvolutionKernelPx, o.DeconvolveIterations);
+        return m;
+    }
+
+    /// <summary>Sd of the measured white noise <paramref name="sd"/> after the deconvolution (if on) and a blur of
+    /// <paramref name="blurSigmaPx"/> (<see cref="Deconvolution.NoiseGain"/>; without deconvolution <see cref="NoiseLevel.AfterBlur"/>).</summary>
+    private static double NoiseAfter(double sd, double blurSigmaPx, SegmentOptions o)
+        => o.DeconvolutionKernelPx > 0
+            ? sd * Deconvolution.NoiseGain(o.DeconvolutionKernelPx, o.DeconvolveIterations, Math.Max(0.5, blurSigmaPx))
+            : NoiseLevel.AfterBlur(sd, blurSigmaPx);
 
     /// <summary>Smoothing of the crest signal: the larger of <see cref="SegmentOptions.RidgeSigmaPx"/> and the boundary
     /// smoothing (broad junctions, whose boundary smoothing follows their width, get as steady a crest).</summary>

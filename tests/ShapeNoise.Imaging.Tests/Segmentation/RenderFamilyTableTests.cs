@@ -23,8 +23,8 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
         {
             foreach (var seed in mode == "full" ? seeds : seeds.Take(mode == "tune" ? 3 : 1))
             {
-                var (sc, _, _, _, _) = RenderFamily.Run(m, seed, opts);
-                var (j, jr, moved, _, _) = RenderFamily.JitterBoth(m, seed, options: opts);
+                var (sc, _, _, _, _) = RenderFamily.Run(m, seed, WithPsf(opts, m));
+                var (j, jr, moved, _, _) = RenderFamily.JitterBoth(m, seed, options: WithPsf(opts, m));
                 log.WriteLine($"| {m} | {seed} | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} | {jr.RmsPx:F3} | {jr.FrameToFrameRmsPx:F3} | {moved:F2} |");
             }
         }
@@ -37,7 +37,7 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
         int seed = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_SEED") is { Length: > 0 } sd ? int.Parse(sd) : 900;
         foreach (var m in RenderFamily.Ci)
         {
-            var (j, jr, moved, em, er) = RenderFamily.JitterBoth(m, seed, options: opts);
+            var (j, jr, moved, em, er) = RenderFamily.JitterBoth(m, seed, options: WithPsf(opts, m));
             log.WriteLine($"| {m} | {seed} | {j.RmsPx:F3} | {j.FrameToFrameRmsPx:F3} | {jr.RmsPx:F3} | {jr.FrameToFrameRmsPx:F3} | {moved:F2} | {jr.Cells} | {em:F3} | {er:F3} |");
         }
     }
@@ -63,7 +63,7 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
             double seg = 0, f1 = 0, pr = 0, rc = 0;
             foreach (var seed in seeds)
             {
-                var (sc, _, _, _, _) = RenderFamily.Run(m, seed, opts);
+                var (sc, _, _, _, _) = RenderFamily.Run(m, seed, WithPsf(opts, m));
                 seg += sc.Seg / seeds.Length; f1 += sc.F1 / seeds.Length; pr += sc.Precision / seeds.Length; rc += sc.Recall / seeds.Length;
             }
             worst = Math.Min(worst, seg);
@@ -71,6 +71,11 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
         }
         log.WriteLine($"worst SEG {worst:F3}");
     }
+
+    /// <summary>SHAPENOISE_SEG_DECONV=1: deconvolve with the member's rendered PSF, as a user who knows the microscope's PSF
+    /// would (docs/segmentation.md#deconvolution).</summary>
+    private static SegmentOptions WithPsf(SegmentOptions o, RenderMember m)
+        => Environment.GetEnvironmentVariable("SHAPENOISE_SEG_DECONV") == "1" ? o with { DeconvolveSigmaPx = m.PsfPx } : o;
 
     private static SegmentOptions Options()
     {
