@@ -138,33 +138,62 @@ public static class JunctionSegmenter
     /// labels) seeds the cells when <see cref="SegmentOptions.TrackSeeds"/> is set.</summary>
     public static SegmentedFrame SegmentFrame(int[] raw, int width, int height, SegmentOptions o, int[]? previous = null)
     {
-        double d = o.DiameterPx;
-        var (f, wideMat, flatMat) = Flattened(raw, width, height, o);
-        using var wide = wideMat;
-        using var flat = flatMat;
-        // Junction width first: it sets the boundary smoothing of the segmentation that is kept (nothing below is needed
-        // for this outer pass, which only measures the width on a first segmentation).
-        if (o.BoundarySigmaWidthFactor > 0)
+        using var frame = Prepared.Of(raw, width, height, o);
+        // Junction width first: it sets the boundary smoothing of the segmentation that is kept, measured on a first
+        // segmentation; both passes share the flattened (and deconvolved) frame and its noise level.
+        if (!(o.BoundarySigmaWidthFactor > 0)) return Pass(frame, o, previous);
+        var inner = o with { BoundarySigmaWidthFactor = 0 };
+        var first = Pass(frame, inner, previous);
+        double sj = JunctionWidth(frame.Flat, first.Labels, width, height, o.DiameterPx);
+        double sb = o.BoundarySigmaWidthFactor * sj;
+        if (!(sb > o.BoundarySigmaPx + 0.1)) return first with { JunctionSigmaPx = sj };
+        return Pass(frame, inner with { BoundarySigmaPx = sb }, previous) with { JunctionSigmaPx = sj };
+    }
+
+    /// <summary>What every segmentation pass of one frame reads (docs/segmentation.md#method, steps 1–2): the flattened
+    /// frame, the image the boundaries are found on (<see cref="BoundarySource"/>) and the noise sd of the flattened image.</summary>
+    private sealed class Prepared(int width, int height, Mat flat, Mat sharp, double noiseSd) : IDisposable
+    {
+        public int Width => width;
+        public int Height => height;
+        public Mat Flat => flat;
+        /// <summary>The flattened frame deconvolved when <see cref="SegmentOptions.DeconvolutionKernelPx"/> &gt; 0, else <see cref="Flat"/> itself.</summary>
+        public Mat Sharp => sharp;
+        public double NoiseSd => noiseSd;
+
+        public static Prepared Of(int[] raw, int width, int height, SegmentOptions o)
         {
-            var first = SegmentFrame(raw, width, height, o with { BoundarySigmaWidthFactor = 0 }, previous);
-            double sj = JunctionWidth(flat, first.Labels, width, height, d);
-            double sb = o.BoundarySigmaWidthFactor * sj;
-            if (!(sb > o.BoundarySigmaPx + 0.1)) return first with { JunctionSigmaPx = sj };
-            return SegmentFrame(raw, width, height, o with { BoundarySigmaWidthFactor = 0, BoundarySigmaPx = sb }, previous) with { JunctionSigmaPx = sj };
+            var (f, wide, flat) = Flattened(raw, width, height, o);
+            using (wide)
+            {
+                // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count,
+                // 1/sqrt(12)), divided by the median background level (docs/segmentation.md#noise-level).
+                var wideArr = ToArray(wide);
+                Array.Sort(wideArr);
+                double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
+                return new Prepared(width, height, flat, BoundarySource(flat, o), noise);
+            }
         }
-        // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count, 1/sqrt(12)),
-        // divided by the median background level (docs/segmentation.md#noise-level).
-        var wideArr = ToArray(wide);
-        Array.Sort(wideArr);
-        double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
+
+        public void Dispose()
+        {
+            if (!ReferenceEquals(Sharp, Flat)) Sharp.Dispose();
+            Flat.Dispose();
+        }
+    }
+
+    /// <summary>One segmentation pass with the boundary smoothing of <paramref name="o"/> (docs/segmentation.md#method, steps 3–7).</summary>
+    private static SegmentedFrame Pass(Prepared frame, SegmentOptions o, int[]? previous)
+    {
+        int width = frame.Width, height = frame.Height, n = width * height;
+        double d = o.DiameterPx, noise = frame.NoiseSd;
         double seedSigma = Math.Max(0.5, o.SmoothFraction * d);
-        var smooth = Blurred(flat, seedSigma);
-        using var sharp = BoundarySource(flat, o);
-        var fine = Blurred(sharp, o.BoundarySigmaPx);
-        var labels = new int[raw.Length];
+        var smooth = Blurred(frame.Flat, seedSigma);
+        var fine = Blurred(frame.Sharp, o.BoundarySigmaPx);
+        var labels = new int[n];
         int next = 0;
         bool[]? free = null;
-        if (o.TrackSeeds && previous is not null && previous.Length == raw.Length) { free = TrackedCores(previous, labels, width, height, o.TrackErosionFraction * d); next = labels.Max(); }
+        if (o.TrackSeeds && previous is not null && previous.Length == n) { free = TrackedCores(previous, labels, width, height, o.TrackErosionFraction * d); next = labels.Max(); }
         var seeds = o.Seeds == SeedMethod.Window
             ? WindowSeeds(smooth, width, height, o, d)
             : Watershed.HMinima(smooth, width, height, o.SeedDepthSd * NoiseLevel.AfterBlur(noise, seedSigma), free);
@@ -176,7 +205,7 @@ public static class JunctionSegmenter
         int fragments = Regions.MergeSmall(labels, width, height, (int)(o.MinAreaFraction * area));
         int moves = Regions.PlaceOnRidges(labels, fine, width, height, o.RidgePasses);
         Regions.DropLarge(labels, o.MaxAreaFactor * area);
-        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = RidgeSigma(o) == o.BoundarySigmaPx ? fine : Blurred(sharp, RidgeSigma(o)), BoundarySigmaPx = o.BoundarySigmaPx };
+        return new SegmentedFrame(Regions.Relabel(labels), seeds.ToArray(), noise, ridgeless, fragments, moves) { RidgeSignal = RidgeSigma(o) == o.BoundarySigmaPx ? fine : Blurred(frame.Sharp, RidgeSigma(o)), BoundarySigmaPx = o.BoundarySigmaPx };
     }
 
     /// <summary>The junction signal whose crest the sub-pixel outlines follow: the frame divided by its Gaussian blur of
@@ -190,11 +219,8 @@ public static class JunctionSegmenter
     /// the signal is blurred by the larger of it and <see cref="SegmentOptions.RidgeSigmaPx"/>.</param>
     public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o, double boundarySigmaPx = 0)
     {
-        var (_, wide, flat) = Flattened(raw, width, height, o);
-        using (wide)
-        using (flat)
-        using (var sharp = BoundarySource(flat, o))
-            return Blurred(sharp, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
+        using var frame = Prepared.Of(raw, width, height, o);
+        return Blurred(frame.Sharp, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
     }
 
     /// <summary>Flattening (docs/segmentation.md#method, step 1): the counts as floats, their Gaussian blur of
@@ -212,13 +238,14 @@ public static class JunctionSegmenter
         return (f, wide, flat);
     }
 
-    /// <summary>The image the boundaries are found on (docs/segmentation.md#deconvolution): the flattened frame, deconvolved
-    /// (Richardson-Lucy, <see cref="SegmentOptions.DeconvolutionKernelPx"/>) when that is on. The seeds always come from the
-    /// flattened frame itself: deconvolved seeds split cells. The caller disposes the copy.</summary>
+    /// <summary>The image the boundaries are found on (docs/segmentation.md#deconvolution): a deconvolved copy of the
+    /// flattened frame (Richardson-Lucy, <see cref="SegmentOptions.DeconvolutionKernelPx"/>) when that is on, else the
+    /// flattened frame itself. The seeds always come from the flattened frame: deconvolved seeds split cells.</summary>
     private static Mat BoundarySource(Mat flat, SegmentOptions o)
     {
+        if (!(o.DeconvolutionKernelPx > 0)) return flat;
         var m = flat.Clone();
-        if (o.DeconvolutionKernelPx > 0) Deconvolution.RichardsonLucy(m, o.DeconvolutionKernelPx, o.DeconvolveIterations);
+        Deconvolution.RichardsonLucy(m, o.DeconvolutionKernelPx, o.DeconvolveIterations);
         return m;
     }
 
