@@ -24,7 +24,7 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--ridge-passes <N>"), Description("Passes moving boundary pixels on a crest's flank to its far side (0 = off, the default).")] public int RidgePasses { get; init; }
         [CommandOption("--track-seeds"), Description("Seed each frame with the previous frame's cells shrunk by --track-erosion diameters (steadier boundaries and counts on slowly moving tissue).")] public bool TrackSeeds { get; init; }
         [CommandOption("--track-erosion <FRACTION>"), Description("With --track-seeds: shrink the previous cells by this fraction of the diameter.")] public double TrackErosion { get; init; } = 0.25;
-        [CommandOption("--deconvolve <PX>"), Description("Richardson-Lucy deconvolution with a Gaussian point-spread function of this sd (px; your microscope's) before segmenting; 0 = off (default).")] public double Deconvolve { get; init; }
+        [CommandOption("--deconvolve <PX>"), Description("Sd (px) of your microscope's Gaussian point-spread function: the image the watershed floods is deconvolved with it (Richardson-Lucy, kernel at most 1.5 px; the seeds are not); 0 = off (default).")] public double Deconvolve { get; init; }
         [CommandOption("--deconvolve-iterations <N>"), Description("Richardson-Lucy iterations with --deconvolve.")] public int DeconvolveIterations { get; init; } = new SegmentOptions().DeconvolveIterations;
         [CommandOption("--qc-every <N>"), Description("Write a QC overlay every N frames (0 = none).")] public int QcEvery { get; init; } = 10;
     }
