@@ -19,13 +19,16 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--min-area-fraction <FRACTION>"), Description("Fragments below this fraction of the expected cell area are merged into a neighbour.")] public double MinAreaFraction { get; init; } = 0.15;
         [CommandOption("--max-area-factor <FACTOR>"), Description("Regions above this many expected cell areas are not cells and are dropped.")] public double MaxAreaFactor { get; init; } = 6;
         [CommandOption("--seeds <METHOD>"), Description("Seed method: hminima (minima deeper than --seed-depth noise sd; default) or window (minima over --seed-window).")] public string Seeds { get; init; } = "hminima";
-        [CommandOption("--seed-depth <SD>"), Description("hminima seeds: a minimum is a seed when it is at least this many noise sd (measured, of the smoothed image) below the pass to a deeper one.")] public double SeedDepth { get; init; } = new SegmentOptions().SeedDepthSd;
+        [CommandOption("--seed-depth <SD>"), Description("hminima seeds: a minimum is a seed when it is at least this many noise sd (measured, of the smoothed image) below the pass to a deeper one (default 2; 1 with --model-fit).")] public double? SeedDepth { get; init; }
         [CommandOption("--ridge-contrast <SD>"), Description("Neighbouring regions whose shared boundary rises less than this many noise sd above the brighter interior are merged (0 = never).")] public double RidgeContrast { get; init; } = new SegmentOptions().RidgeContrastSd;
         [CommandOption("--ridge-passes <N>"), Description("Passes moving boundary pixels on a crest's flank to its far side (0 = off, the default).")] public int RidgePasses { get; init; }
         [CommandOption("--track-seeds"), Description("Seed each frame with the previous frame's cells shrunk by --track-erosion diameters (steadier boundaries and counts on slowly moving tissue).")] public bool TrackSeeds { get; init; }
         [CommandOption("--track-erosion <FRACTION>"), Description("With --track-seeds: shrink the previous cells by this fraction of the diameter.")] public double TrackErosion { get; init; } = 0.25;
         [CommandOption("--deconvolve <PX>"), Description("Sd (px) of your microscope's Gaussian point-spread function: the image the watershed floods is deconvolved with it (Richardson-Lucy, kernel at most 1.5 px; the seeds are not); 0 = off (default).")] public double Deconvolve { get; init; }
         [CommandOption("--deconvolve-iterations <N>"), Description("Richardson-Lucy iterations with --deconvolve.")] public int DeconvolveIterations { get; init; } = new SegmentOptions().DeconvolveIterations;
+        [CommandOption("--model-fit"), Description("Add a last step: fit a blurred-junction model to the image, moving boundary pixels and merging cells whose shared boundary the signal does not support (better on small or blurred cells; boundaries less steady from frame to frame).")] public bool ModelFit { get; init; }
+        [CommandOption("--fit-prior <BETA>"), Description("Model fit: cost of one pixel edge of boundary, in log-likelihood units (higher = smoother boundaries).")] public double FitPrior { get; init; } = new SegmentOptions().ModelFitBeta;
+        [CommandOption("--merge-margin <LOGL>"), Description("Model fit: merge two neighbouring cells when dropping their shared boundary improves the log-likelihood by more than this (negative = never).")] public double MergeMargin { get; init; } = new SegmentOptions().ModelMergeMargin;
         [CommandOption("--qc-every <N>"), Description("Write a QC overlay every N frames (0 = none).")] public int QcEvery { get; init; } = 10;
     }
 
@@ -44,6 +47,7 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
             },
             SeedDepthSd = s.SeedDepth, RidgeContrastSd = s.RidgeContrast, RidgePasses = s.RidgePasses, TrackSeeds = s.TrackSeeds, TrackErosionFraction = s.TrackErosion,
             DeconvolveSigmaPx = s.Deconvolve, DeconvolveIterations = s.DeconvolveIterations,
+            ModelFit = s.ModelFit, ModelFitBeta = s.FitPrior, ModelMergeMargin = s.MergeMargin,
         }, s.PixelSize, s.FrameInterval, s.QcEvery, Environment.GetCommandLineArgs().Skip(1), p,
             s.Selection());
         if (Console.IsOutputRedirected) Go(null);

@@ -37,6 +37,16 @@ public sealed record SegmentOptions
     /// <summary>Richardson-Lucy iterations when <see cref="DeconvolveSigmaPx"/> &gt; 0 (8, chosen on the tuning renders,
     /// docs/segmentation.md#deconvolution).</summary>
     public int DeconvolveIterations { get; init; } = 8;
+    /// <summary>Refine the boundaries by fitting a model of the junction image (off by default: it raises SEG on small
+    /// and blurred cells but makes the masks' boundaries less steady from frame to frame;
+    /// docs/segmentation.md#junction-model-fit).</summary>
+    public bool ModelFit { get; init; }
+    /// <summary>Strength β of the boundary-length prior of the model fit, per crack edge in units of the log-likelihood
+    /// (docs/segmentation.md#junction-model-fit).</summary>
+    public double ModelFitBeta { get; init; } = 2;
+    /// <summary>Model fit: neighbouring cells merge when dropping their shared boundary from the model raises the
+    /// log-likelihood by more than this (docs/segmentation.md#junction-model-fit); negative = no merging.</summary>
+    public double ModelMergeMargin { get; init; } = 10;
     /// <summary>Regions smaller than this fraction of the expected cell area are merged into a neighbour.</summary>
     public double MinAreaFraction { get; init; } = 0.15;
 
@@ -47,9 +57,12 @@ public sealed record SegmentOptions
     /// a window of <see cref="SeedWindowFraction"/> diameters (the original method).</summary>
     public SeedMethod Seeds { get; init; } = SeedMethod.HMinima;
     /// <summary>h-minima seeds: a minimum of the seed image is a seed when its dynamic is at least this many noise sd of
-    /// the seed image (measured noise of the flattened image, reduced by the smoothing); 2 chosen on the tuning renders
-    /// (docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
-    public double SeedDepthSd { get; init; } = 2;
+    /// the seed image (measured noise of the flattened image, reduced by the smoothing); null = 2, or 1 with
+    /// <see cref="ModelFit"/> on, whose merge test removes the extra splits (both chosen on the tuning renders;
+    /// docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
+    public double? SeedDepthSd { get; init; }
+    /// <summary>The seed depth in use: <see cref="SeedDepthSd"/>, or its default (2; 1 with <see cref="ModelFit"/>).</summary>
+    public double SeedDepth => SeedDepthSd ?? (ModelFit ? 1 : 2);
     /// <summary>Neighbouring regions whose shared boundary rises less than this many noise sd (of the boundary image)
     /// above the brighter region's interior level are merged: the boundary has no ridge; 2 chosen with the seed depth
     /// (docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
@@ -77,13 +90,14 @@ public sealed record SegmentOptions
             throw new ArgumentException("--flatten, --smooth, --seed-window, --boundary-sigma and --ridge-sigma must be > 0");
         if (!(BoundarySigmaWidthFactor >= 0)) throw new ArgumentException($"the junction-width factor must be >= 0 (got {BoundarySigmaWidthFactor})");
         if (MinAreaFraction < 0 || !(MaxAreaFactor > 1)) throw new ArgumentException("--min-area-fraction must be >= 0 and --max-area-factor > 1");
-        if (!(SeedDepthSd > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepthSd})");
+        if (!(SeedDepth > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepth})");
         if (!(RidgeContrastSd >= 0)) throw new ArgumentException($"--ridge-contrast must be >= 0 noise sd (got {RidgeContrastSd})");
         if (RidgePasses is < 0 or > 50) throw new ArgumentException($"--ridge-passes must be in 0..50 (got {RidgePasses})");
         if (!(DeconvolveSigmaPx >= 0 && DeconvolveSigmaPx <= 0.25 * DiameterPx))
             throw new ArgumentException($"--deconvolve must be between 0 (off) and a quarter of the cell diameter, {0.25 * DiameterPx:0.#} px (got {DeconvolveSigmaPx})");
         if (!(DeconvolveMaxSigmaPx > 0)) throw new ArgumentException($"the largest deconvolution kernel must be > 0 px (got {DeconvolveMaxSigmaPx})");
         if (DeconvolveIterations is < 1 or > 100) throw new ArgumentException($"--deconvolve-iterations must be in 1..100 (got {DeconvolveIterations})");
+        if (!(ModelFitBeta >= 0)) throw new ArgumentException($"--fit-prior must be >= 0 (got {ModelFitBeta})");
         if (!(TrackErosionFraction is >= 0 and < 0.5)) throw new ArgumentException($"--track-erosion must be in [0, 0.5) (got {TrackErosionFraction})");
         return this;
     }
@@ -114,6 +128,12 @@ public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, i
     public double BoundarySigmaPx { get; init; }
     /// <summary>Junction width σ_j (px) measured on the frame when <see cref="SegmentOptions.BoundarySigmaWidthFactor"/> &gt; 0, else NaN.</summary>
     public double JunctionSigmaPx { get; init; } = double.NaN;
+    /// <summary>Width σ_m (px) of the fitted junction model when <see cref="SegmentOptions.ModelFit"/> is on, else NaN.</summary>
+    public double ModelSigmaPx { get; init; } = double.NaN;
+    /// <summary>Pixels the model fit moved to another cell.</summary>
+    public int ModelMoves { get; init; }
+    /// <summary>Cells the model fit merged into a neighbour.</summary>
+    public int ModelMerges { get; init; }
 }
 
 /// <summary>
@@ -139,6 +159,17 @@ public static class JunctionSegmenter
     public static SegmentedFrame SegmentFrame(int[] raw, int width, int height, SegmentOptions o, int[]? previous = null)
     {
         using var frame = Prepared.Of(raw, width, height, o);
+        var kept = Segmented(frame, o, previous);
+        if (!o.ModelFit) return kept;
+        var fit = JunctionModelFit.Refine(ToArray(frame.Flat), kept.Labels, width, height, frame.NoiseSd, o.ModelFitBeta, 0.5, Math.Max(1.5, Math.Min(4, 0.3 * o.DiameterPx)), o.ModelMergeMargin);
+        if (fit.Merges > 0) kept = kept with { Labels = Regions.Relabel(kept.Labels) };
+        return kept with { ModelSigmaPx = fit.SigmaPx, ModelMoves = fit.Moves, ModelMerges = fit.Merges };
+    }
+
+    /// <summary>The watershed segmentation before the model fit (docs/segmentation.md#method, steps 1–7).</summary>
+    private static SegmentedFrame Segmented(Prepared frame, SegmentOptions o, int[]? previous)
+    {
+        int width = frame.Width, height = frame.Height;
         // Junction width first: it sets the boundary smoothing of the segmentation that is kept, measured on a first
         // segmentation; both passes share the flattened (and deconvolved) frame and its noise level.
         if (!(o.BoundarySigmaWidthFactor > 0)) return Pass(frame, o, previous);
@@ -196,7 +227,7 @@ public static class JunctionSegmenter
         if (o.TrackSeeds && previous is not null && previous.Length == n) { free = TrackedCores(previous, labels, width, height, o.TrackErosionFraction * d); next = labels.Max(); }
         var seeds = o.Seeds == SeedMethod.Window
             ? WindowSeeds(smooth, width, height, o, d)
-            : Watershed.HMinima(smooth, width, height, o.SeedDepthSd * NoiseLevel.AfterBlur(noise, seedSigma), free);
+            : Watershed.HMinima(smooth, width, height, o.SeedDepth * NoiseLevel.AfterBlur(noise, seedSigma), free);
         foreach (var p in seeds) if (labels[p] == 0) labels[p] = ++next;
         if (o.Seeds == SeedMethod.Window) GroupSeeds(labels, width, height);
         Watershed.Flood(fine, labels, width, height);

@@ -1,0 +1,405 @@
+namespace ShapeNoise.Imaging.Segmentation;
+
+/// <summary>What <see cref="JunctionModelFit.Refine"/> did: the junction width and gain it fitted and the pixels it moved.</summary>
+/// <param name="SigmaPx">Width σ_m (px) of the fitted junction model, last round.</param>
+/// <param name="Gain">Fitted junction amplitude a (flattened units per unit of line coverage), last round.</param>
+/// <param name="Moves">Pixels that changed label, all rounds.</param>
+/// <param name="Merges">Cells merged into a neighbour, all rounds.</param>
+/// <param name="Sweeps">Sweeps over the boundary pixels, all rounds.</param>
+public readonly record struct ModelFitResult(double SigmaPx, double Gain, int Moves, int Merges, int Sweeps);
+
+/// <summary>
+/// Boundary refinement by fitting a forward model of the junction image (docs/segmentation.md#junction-model-fit).
+/// The model of the flattened frame F given labels L is F(x) ≈ ℓ(x) + a M_L(x), with M_L = G_σ * C_L: C_L(p) the area
+/// of pixel p within 1/2 px of a crack of L (a pixel edge between different labels: the one-pixel-wide junction band
+/// centred on the contact), G_σ a normalised sampled Gaussian, and ℓ = G_σ * (Σ_k ℓ_k 1_k) the blurred per-cell levels
+/// (background, haze and cytoplasm). σ is fitted by golden-section search of the squared residual, a and the ℓ_k by
+/// joint least squares; then a boundary pixel changes to a neighbouring label when that lowers
+/// Σ_x (F − ℓ − a M_L)² / (2 σ_n²) + β × (crack edges) (a Potts prior on the boundary length, σ_n the noise sd), one pixel
+/// at a time (iterated conditional modes), keeping every cell locally connected; fit and sweeps are repeated for a
+/// few rounds.
+/// </summary>
+/// <remarks>Iterated conditional modes for the labels of a blurred, noisy image with a Potts prior: Besag J. (1986),
+/// "On the statistical analysis of dirty pictures", J. R. Statist. Soc. B 48:259-302. A band of physical width w adds
+/// w²/12 to the fitted σ², so a junction wider than the band is absorbed by σ (docs/segmentation.md#junction-model-fit).
+/// Golden-section search: Kiefer J. (1953), Proc. AMS 4:502-506.</remarks>
+public static class JunctionModelFit
+{
+    /// <summary>Refines <paramref name="labels"/> (row-major, 0 = no cell, changed in place) against the flattened frame
+    /// <paramref name="flat"/> with noise sd <paramref name="noiseSd"/> and prior strength <paramref name="beta"/>; σ is
+    /// searched in [<paramref name="minSigmaPx"/>, <paramref name="maxSigmaPx"/>] on the central crop of at most 256 x 256 px.</summary>
+    public static ModelFitResult Refine(float[] flat, int[] labels, int w, int h, double noiseSd, double beta,
+        double minSigmaPx, double maxSigmaPx, double mergeMargin, int rounds = 3, int maxSweeps = 10)
+    {
+        double sigma = minSigmaPx, gain = 0;
+        int moves = 0, sweeps = 0, merged = 0;
+        for (int round = 0; round < rounds; round++)
+        {
+            sigma = FitSigma(flat, labels, w, h, minSigmaPx, maxSigmaPx);
+            var state = new State(flat, labels, w, h, sigma);
+            (_, gain) = state.Initialise();
+            if (!(gain > 0)) break;
+            state.Penalty = beta * 2 * noiseSd * noiseSd;
+            int roundMoves = 0;
+            for (int k = 0; k < maxSweeps; k++)
+            {
+                sweeps++;
+                int m = state.Sweep();
+                roundMoves += m;
+                if (m == 0) break;
+            }
+            moves += roundMoves;
+            int merges = 0;
+            if (mergeMargin >= 0)
+            {
+                state = new State(flat, labels, w, h, sigma);
+                state.Initialise();
+                state.NoiseVar = noiseSd * noiseSd;
+                state.MergeMargin = mergeMargin;
+                merges = state.MergePass();
+            }
+            merged += merges;
+            if (roundMoves == 0 && merges == 0) break;
+        }
+        return new ModelFitResult(sigma, gain, moves, merged, sweeps);
+    }
+
+    /// <summary>Squared residual and gain of the model of width <paramref name="sigmaPx"/> for the given labels (after the
+    /// joint least-squares fit of the gain and the cells' levels).</summary>
+    public static (double Rss, double Gain) Residual(float[] flat, int[] labels, int w, int h, double sigmaPx)
+        => new State(flat, labels, w, h, sigmaPx).Initialise();
+
+    /// <summary>C_L: the area of each pixel within 1/2 px of a crack of <paramref name="labels"/> (row-major).</summary>
+    public static double[] Coverage(int[] labels, int w, int h)
+    {
+        var st = new State(new float[labels.Length], labels, w, h, 1);
+        var c = new double[labels.Length];
+        for (int y = 0; y < h; y++) for (int x = 0; x < w; x++) c[y * w + x] = st.Coverage(x, y);
+        return c;
+    }
+
+    /// <summary>σ of least squared residual in [lo, hi] by golden-section search (0.02 px) on the central crop of at most 256 x 256 px.</summary>
+    private static double FitSigma(float[] flat, int[] labels, int w, int h, double lo, double hi)
+    {
+        int cw = Math.Min(w, 256), ch = Math.Min(h, 256), x0 = (w - cw) / 2, y0 = (h - ch) / 2;
+        var f = new float[cw * ch]; var l = new int[cw * ch];
+        for (int y = 0; y < ch; y++)
+        {
+            Array.Copy(flat, (y + y0) * w + x0, f, y * cw, cw);
+            Array.Copy(labels, (y + y0) * w + x0, l, y * cw, cw);
+        }
+        double Rss(double s) => new State(f, l, cw, ch, s).Initialise().Rss;
+        double g = (Math.Sqrt(5) - 1) / 2, a = lo, b = hi;
+        double c = b - g * (b - a), d = a + g * (b - a), fc = Rss(c), fd = Rss(d);
+        while (b - a > 0.02)
+        {
+            if (fc < fd) { b = d; d = c; fd = fc; c = b - g * (b - a); fc = Rss(c); }
+            else { a = c; c = d; fc = fd; d = a + g * (b - a); fd = Rss(d); }
+        }
+        return 0.5 * (a + b);
+    }
+
+    private sealed class State
+    {
+        private const double QuarterDisc = Math.PI / 16;   // area of a quarter disc of radius 1/2
+        private readonly float[] flat;
+        private readonly int[] lab;
+        private readonly int w, h, r;
+        private readonly double[] g;     // normalised sampled Gaussian of σ_m, taps −r..r
+        private readonly double[] k2;    // its 2-D outer product, (2r+1)²
+        private double[] cover = [], level = [], resid = [], interior = [];
+        private double gain;
+        private readonly double[] dc = new double[9];
+        private bool[]? dirty;
+        /// <summary>Cost, in squared-residual units, of one crack edge (the Potts prior: 2σ_n² β per edge).</summary>
+        public double Penalty { get; set; }
+
+        public State(float[] flat, int[] labels, int w, int h, double sigma)
+        {
+            this.flat = flat; lab = labels; this.w = w; this.h = h;
+            r = (int)Math.Ceiling(3 * sigma);
+            g = new double[2 * r + 1];
+            double sum = 0;
+            for (int i = -r; i <= r; i++) { g[i + r] = Math.Exp(-0.5 * i * i / (sigma * sigma)); sum += g[i + r]; }
+            for (int i = 0; i < g.Length; i++) g[i] /= sum;
+            k2 = new double[g.Length * g.Length];
+            for (int a = 0; a < g.Length; a++) for (int b = 0; b < g.Length; b++) k2[a * g.Length + b] = g[a] * g[b];
+        }
+
+        private int from = -1, to = -1;
+        private int L(int i) => lab[i] == from ? to : lab[i];
+        private bool Crack(int i, int j) => L(i) != L(j);
+
+        /// <summary>Area of pixel (x, y) within 1/2 px of a crack: per quadrant 1/4 when one of the two pixel edges bounding
+        /// it is a crack, else π/16 when a crack leaves the quadrant's outer corner along one of the other two edges there.</summary>
+        public double Coverage(int x, int y)
+        {
+            int i = y * w + x;
+            bool l = x > 0 && Crack(i, i - 1), rr = x + 1 < w && Crack(i, i + 1), t = y > 0 && Crack(i, i - w), b = y + 1 < h && Crack(i, i + w);
+            double c = 0;
+            c += Quadrant(l, t, x > 0 && y > 0 && Crack(i - 1, i - w - 1), x > 0 && y > 0 && Crack(i - w, i - w - 1));
+            c += Quadrant(rr, t, x + 1 < w && y > 0 && Crack(i + 1, i - w + 1), x + 1 < w && y > 0 && Crack(i - w, i - w + 1));
+            c += Quadrant(l, b, x > 0 && y + 1 < h && Crack(i - 1, i + w - 1), x > 0 && y + 1 < h && Crack(i + w, i + w - 1));
+            c += Quadrant(rr, b, x + 1 < w && y + 1 < h && Crack(i + 1, i + w + 1), x + 1 < w && y + 1 < h && Crack(i + w, i + w + 1));
+            return c;
+        }
+
+        private static double Quadrant(bool side1, bool side2, bool far1, bool far2)
+            => side1 || side2 ? 0.25 : far1 || far2 ? QuarterDisc : 0;
+
+        private double[] Blur(double[] f)
+        {
+            var tmp = new double[f.Length]; var o = new double[f.Length];
+            for (int y = 0; y < h; y++)
+                for (int x = 0; x < w; x++)
+                {
+                    double s = 0;
+                    for (int k = -r; k <= r; k++) s += g[k + r] * f[y * w + Math.Clamp(x + k, 0, w - 1)];
+                    tmp[y * w + x] = s;
+                }
+            for (int y = 0; y < h; y++)
+                for (int x = 0; x < w; x++)
+                {
+                    double s = 0;
+                    for (int k = -r; k <= r; k++) s += g[k + r] * tmp[Math.Clamp(y + k, 0, h - 1) * w + x];
+                    o[y * w + x] = s;
+                }
+            return o;
+        }
+
+        public (double Rss, double Gain) Initialise()
+        {
+            int n = w * h, max = 0;
+            foreach (var l in lab) if (l > max) max = l;
+            cover = new double[n];
+            for (int y = 0; y < h; y++) for (int x = 0; x < w; x++) cover[y * w + x] = Coverage(x, y);
+            var model = Blur(cover);
+            // Joint least squares of the gain and the cells' levels (the levels unblurred while fitting): with cell means
+            // F̄_k and M̄_k, a = Σ (F − F̄)(M − M̄) / Σ (M − M̄)², ℓ_k = F̄_k − a M̄_k.
+            interior = new double[max + 1];
+            var sf = new double[max + 1]; var sm = new double[max + 1]; var cnt = new int[max + 1];
+            for (int i = 0; i < n; i++) { sf[lab[i]] += flat[i]; sm[lab[i]] += model[i]; cnt[lab[i]]++; }
+            for (int k = 0; k <= max; k++) if (cnt[k] > 0) { sf[k] /= cnt[k]; sm[k] /= cnt[k]; }
+            double sfm = 0, smm = 0;
+            for (int i = 0; i < n; i++) { double mc = model[i] - sm[lab[i]]; sfm += (flat[i] - sf[lab[i]]) * mc; smm += mc * mc; }
+            gain = smm > 0 ? sfm / smm : 0;
+            for (int k = 0; k <= max; k++) interior[k] = sf[k] - gain * sm[k];
+            var pc = new double[n];
+            for (int i = 0; i < n; i++) pc[i] = interior[lab[i]];
+            level = Blur(pc);
+            resid = new double[n];
+            double rss = 0;
+            for (int i = 0; i < n; i++) { resid[i] = flat[i] - level[i] - gain * model[i]; rss += resid[i] * resid[i]; }
+            return (rss, gain);
+        }
+
+        /// <summary>Merges neighbouring cells when removing their shared crack from the model raises the log-likelihood
+        /// by more than <see cref="MergeMargin"/>: −ΔRSS / (2σ_n²) &gt; margin (a boundary the junction signal does not
+        /// support); best first, each cell at most once per pass. Returns the merges.</summary>
+        public int MergePass()
+        {
+            // Shared boundaries: for each pair of neighbouring cells, the pixels on either side of their crack.
+            var pairs = new Dictionary<long, List<int>>();
+            int shared = 0;
+            for (int y = 1; y < h - 1; y++)
+                for (int x = 1; x < w - 1; x++)
+                {
+                    int i = y * w + x, a = lab[i];
+                    if (a <= 0) continue;
+                    Add(i, i + 1); Add(i, i + w);
+                    void Add(int p, int q)
+                    {
+                        int b = lab[q];
+                        if (b <= 0 || b == a) return;
+                        long key = a < b ? (long)a << 32 | (uint)b : (long)b << 32 | (uint)a;
+                        if (!pairs.TryGetValue(key, out var list)) pairs[key] = list = [];
+                        list.Add(p); list.Add(q); shared++;
+                    }
+                }
+            var count = new int[interior.Length];
+            foreach (var l in lab) count[l]++;
+            var candidates = new List<(double E, int A, int B)>();
+            foreach (var (key, pix) in pairs)
+            {
+                int a = (int)(key >> 32), b = (int)(key & 0xffffffff);
+                double e = MergeChange(a, b, pix, count) / (2 * NoiseVar) + MergeMargin;
+                if (e < 0) candidates.Add((e, a, b));
+            }
+            candidates.Sort();
+            var used = new HashSet<int>();
+            int merges = 0;
+            foreach (var (_, a, b) in candidates)
+            {
+                if (used.Contains(a) || used.Contains(b)) continue;
+                used.Add(a); used.Add(b);
+                for (int i = 0; i < lab.Length; i++) if (lab[i] == b) lab[i] = a;
+                merges++;
+            }
+            return merges;
+        }
+
+        /// <summary>Noise variance σ_n² of the flattened frame.</summary>
+        public double NoiseVar { get; set; } = 1;
+        /// <summary>Least log-likelihood gain for a merge (see <see cref="Refine"/>).</summary>
+        public double MergeMargin { get; set; }
+
+        /// <summary>Change of the squared residual when cell b joins cell a: the coverage around their shared crack
+        /// (<paramref name="pix"/>) changes, and both cells take their pooled level.</summary>
+        private double MergeChange(int a, int b, List<int> pix, int[] count)
+        {
+            int minX = int.MaxValue, minY = int.MaxValue, maxX = -1, maxY = -1;
+            foreach (var p in pix) { int x = p % w, y = p / w; minX = Math.Min(minX, x); maxX = Math.Max(maxX, x); minY = Math.Min(minY, y); maxY = Math.Max(maxY, y); }
+            int m = r + 2;
+            int x0 = Math.Max(0, minX - m), x1 = Math.Min(w - 1, maxX + m), y0 = Math.Max(0, minY - m), y1 = Math.Min(h - 1, maxY + m);
+            int bw = x1 - x0 + 1, bh = y1 - y0 + 1;
+            var dcov = new double[bw * bh];
+            from = b; to = a;
+            foreach (var p in pix)
+            {
+                int px = p % w, py = p / w;
+                for (int dy = -1; dy <= 1; dy++)
+                    for (int dx = -1; dx <= 1; dx++)
+                    {
+                        int x = px + dx, y = py + dy;
+                        if (x < 1 || y < 1 || x >= w - 1 || y >= h - 1) continue;
+                        int k = (y - y0) * bw + x - x0;
+                        dcov[k] = gain * (Coverage(x, y) - cover[y * w + x]);
+                    }
+            }
+            from = to = -1;
+            double pooled = (count[a] * interior[a] + count[b] * interior[b]) / Math.Max(1, count[a] + count[b]);
+            // The model change over the box: the blurred coverage change, plus the level change inside both cells
+            // (unblurred: the pooled level is itself a fit).
+            var dm = new double[bw * bh];
+            int kw = 2 * r + 1;
+            for (int k = 0; k < dcov.Length; k++)
+            {
+                if (dcov[k] == 0) continue;
+                int cx = k % bw, cy = k / bw;
+                for (int dy = -r; dy <= r; dy++)
+                {
+                    int yy = cy + dy;
+                    if (yy < 0 || yy >= bh) continue;
+                    for (int dx = -r; dx <= r; dx++)
+                    {
+                        int xx = cx + dx;
+                        if (xx < 0 || xx >= bw) continue;
+                        dm[yy * bw + xx] += dcov[k] * k2[(dy + r) * kw + dx + r];
+                    }
+                }
+            }
+            double change = 0;
+            for (int y = y0; y <= y1; y++)
+                for (int x = x0; x <= x1; x++)
+                {
+                    int i = y * w + x, k = (y - y0) * bw + x - x0;
+                    double d = dm[k] + (lab[i] == a ? pooled - interior[a] : lab[i] == b ? pooled - interior[b] : 0);
+                    change += d * d - 2 * resid[i] * d;
+                }
+            // Level change on the parts of the cells outside the box.
+            double ca = pooled - interior[a], cb = pooled - interior[b];
+            int outA = count[a], outB = count[b];
+            for (int y = y0; y <= y1; y++)
+                for (int x = x0; x <= x1; x++) { int l = lab[y * w + x]; if (l == a) outA--; else if (l == b) outB--; }
+            change += outA * ca * ca + outB * cb * cb;   // residuals there sum to about zero (least-squares levels)
+            return change;
+        }
+
+        /// <summary>One raster sweep over the pixels with a 4-neighbour of another cell (only those near an earlier move
+        /// after the first sweep); returns the moves.</summary>
+        public int Sweep()
+        {
+            int moves = 0;
+            dirty ??= Enumerable.Repeat(true, w * h).ToArray();
+            var next = new bool[w * h];
+            Span<int> nb = stackalloc int[4];
+            for (int y = 2; y < h - 2; y++)
+                for (int x = 2; x < w - 2; x++)
+                {
+                    int i = y * w + x, a = lab[i];
+                    if (a <= 0 || !dirty[i]) continue;
+                    int bestB = 0; double best = -1e-12;
+                    nb[0] = lab[i - 1]; nb[1] = lab[i + 1]; nb[2] = lab[i - w]; nb[3] = lab[i + w];
+                    for (int k = 0; k < 4; k++)
+                    {
+                        int b = nb[k];
+                        if (b <= 0 || b == a) continue;
+                        bool seen = false;
+                        for (int j = 0; j < k; j++) if (nb[j] == b) seen = true;
+                        if (seen) continue;
+                        double d = Change(x, y, a, b, apply: false);
+                        if (d < best) { best = d; bestB = b; }
+                    }
+                    if (bestB == 0 || !Simple(x, y, a)) continue;
+                    Change(x, y, a, bestB, apply: true);
+                    moves++;
+                    // The residual changed within r + 1 px and the coverage within 1 px: neighbours there are looked at again.
+                    int o = r + 2;
+                    for (int yy = Math.Max(0, y - o); yy <= Math.Min(h - 1, y + o); yy++)
+                        for (int xx = Math.Max(0, x - o); xx <= Math.Min(w - 1, x + o); xx++) next[yy * w + xx] = true;
+                }
+            dirty = next;
+            return moves;
+        }
+
+        /// <summary>Change of the squared residual when pixel (x, y) goes from label a to b: the coverage of the 3 x 3
+        /// pixels around it changes (its edges toggle), and its level by ℓ_b − ℓ_a; with apply, the label, coverage and
+        /// residual are updated.</summary>
+        private double Change(int x, int y, int a, int b, bool apply)
+        {
+            int i = y * w + x;
+            lab[i] = b;
+            for (int dy = -1; dy <= 1; dy++)
+                for (int dx = -1; dx <= 1; dx++)
+                    dc[(dy + 1) * 3 + dx + 1] = gain * (Coverage(x + dx, y + dy) - cover[i + dy * w + dx]);
+            int cracks = (lab[i - 1] != b ? 1 : 0) + (lab[i + 1] != b ? 1 : 0) + (lab[i - w] != b ? 1 : 0) + (lab[i + w] != b ? 1 : 0)
+                       - (lab[i - 1] != a ? 1 : 0) - (lab[i + 1] != a ? 1 : 0) - (lab[i - w] != a ? 1 : 0) - (lab[i + w] != a ? 1 : 0);
+            if (!apply) lab[i] = a;
+            dc[4] += interior[b] - interior[a];
+            double change = Penalty * cracks;
+            int o = r + 1, kw = 2 * r + 1;
+            for (int ey = -o; ey <= o; ey++)
+            {
+                int yy = y + ey;
+                if (yy < 0 || yy >= h) continue;
+                for (int ex = -o; ex <= o; ex++)
+                {
+                    int xx = x + ex;
+                    if (xx < 0 || xx >= w) continue;
+                    double dm = 0;
+                    for (int q = 0; q < 9; q++)
+                    {
+                        if (dc[q] == 0) continue;
+                        int ky = ey - (q / 3 - 1) + r, kx = ex - (q % 3 - 1) + r;
+                        if (ky < 0 || kx < 0 || ky >= kw || kx >= kw) continue;
+                        dm += dc[q] * k2[ky * kw + kx];
+                    }
+                    if (dm == 0) continue;
+                    int j = yy * w + xx;
+                    change += dm * dm - 2 * resid[j] * dm;
+                    if (apply) resid[j] -= dm;
+                }
+            }
+            if (apply)
+                for (int dy = -1; dy <= 1; dy++)
+                    for (int dx = -1; dx <= 1; dx++) cover[i + dy * w + dx] = Coverage(x + dx, y + dy);
+            return change;
+        }
+
+        /// <summary>Whether removing (x, y) from label <paramref name="a"/> keeps a's pixels around it in one 4-connected
+        /// run of the 8-ring (consecutive ring pixels are 4-adjacent), so the cell stays locally connected.</summary>
+        private bool Simple(int x, int y, int a)
+        {
+            int i = y * w + x;
+            Span<int> ring = [i - w, i - w + 1, i + 1, i + w + 1, i + w, i + w - 1, i - 1, i - w - 1];
+            int runs = 0, count = 0;
+            for (int k = 0; k < 8; k++)
+            {
+                bool cur = lab[ring[k]] == a, prev = lab[ring[(k + 7) % 8]] == a;
+                if (cur) count++;
+                if (cur && !prev) runs++;
+            }
+            return count > 0 && runs <= 1;
+        }
+    }
+}
