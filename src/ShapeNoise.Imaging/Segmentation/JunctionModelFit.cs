@@ -69,6 +69,18 @@ public static class JunctionModelFit
     public static (double Rss, double Gain) Residual(float[] flat, int[] labels, int w, int h, double sigmaPx)
         => new State(flat, labels, w, h, sigmaPx).Initialise();
 
+    /// <summary>For tests: the change of the squared residual predicted for moving pixel (x, y) to label b (gain and
+    /// levels held), and the same change recomputed from scratch on the whole frame.</summary>
+    internal static (double Predicted, double Recomputed) FlipCheck(float[] flat, int[] labels, int w, int h, double sigmaPx, int x, int y, int b)
+    {
+        var st = new State(flat, labels, w, h, sigmaPx);
+        var (rss, _) = st.Initialise();
+        double predicted = st.PredictedChange(x, y, labels[y * w + x], b);
+        var moved = (int[])labels.Clone();
+        moved[y * w + x] = b;
+        return (predicted, st.RssWith(moved) - rss);
+    }
+
     /// <summary>C_L: the area of each pixel within 1/2 px of a crack of <paramref name="labels"/> (row-major).</summary>
     public static double[] Coverage(int[] labels, int w, int h)
     {
@@ -191,6 +203,31 @@ public static class JunctionModelFit
             double rss = 0;
             for (int i = 0; i < n; i++) { resid[i] = flat[i] - level[i] - gain * model[i]; rss += resid[i] * resid[i]; }
             return (rss, gain);
+        }
+
+        /// <summary>Change of the squared residual for moving pixel (x, y) from a to b, without the prior and without moving it.</summary>
+        public double PredictedChange(int x, int y, int a, int b)
+        {
+            double p = Penalty;
+            Penalty = 0;
+            double c = Change(x, y, a, b, apply: false);
+            Penalty = p;
+            return c;
+        }
+
+        /// <summary>Squared residual of the labels <paramref name="other"/> under this state's σ, gain and levels, computed afresh.</summary>
+        public double RssWith(int[] other)
+        {
+            var st = new State(flat, other, w, h, 1);
+            var cov = new double[w * h];
+            for (int y = 0; y < h; y++) for (int x = 0; x < w; x++) cov[y * w + x] = st.Coverage(x, y);
+            var model = Blur(cov);
+            var pc = new double[w * h];
+            for (int i = 0; i < pc.Length; i++) pc[i] = interior[other[i]];
+            var lev = Blur(pc);
+            double rss = 0;
+            for (int i = 0; i < pc.Length; i++) { double r = flat[i] - lev[i] - gain * model[i]; rss += r * r; }
+            return rss;
         }
 
         /// <summary>Merges neighbouring cells when removing their shared crack from the model raises the log-likelihood

@@ -74,4 +74,23 @@ public class JunctionModelFitTests
         Assert.True(after.Seg > 0.98, $"SEG {after.Seg:F3} ({fit})");
         Assert.True(fit.Moves < 0.01 * truth.Length, $"{fit.Moves} moves");
     }
+
+    [Fact]
+    public void FlipCheck_BoundaryPixels_LocalChangeEqualsWholeFrameRecomputation()
+    {
+        // Invariance: the sweep's local update (coverage of the 3 x 3 pixels around the move, blurred in a window) must
+        // equal the squared residual recomputed from scratch over the whole frame (1e-6 relative: rounding of the sums).
+        var (truth, flat, w, h) = Render(1.2);
+        var rng = new Random(5);
+        int checkedMoves = 0;
+        while (checkedMoves < 40)
+        {
+            int x = rng.Next(8, w - 8), y = rng.Next(8, h - 8), i = y * w + x;
+            int b = truth[i + 1] != truth[i] ? truth[i + 1] : truth[i + w] != truth[i] ? truth[i + w] : 0;
+            if (b == 0) continue;
+            var (p, r) = JunctionModelFit.FlipCheck(flat, truth, w, h, 1.2, x, y, b);
+            Assert.True(Math.Abs(p - r) <= 1e-6 * Math.Max(1e-9, Math.Abs(r)), $"({x},{y}) -> {b}: predicted {p}, recomputed {r}");
+            checkedMoves++;
+        }
+    }
 }
