@@ -27,7 +27,8 @@ public static class JunctionModelFit
 {
     /// <summary>Refines <paramref name="labels"/> (row-major, 0 = no cell, changed in place) against the flattened frame
     /// <paramref name="flat"/> with noise sd <paramref name="noiseSd"/> and prior strength <paramref name="beta"/>; σ is
-    /// searched in [<paramref name="minSigmaPx"/>, <paramref name="maxSigmaPx"/>] on the central crop of at most 256 x 256 px.</summary>
+    /// searched in [<paramref name="minSigmaPx"/>, <paramref name="maxSigmaPx"/>] on the central crop of at most 256 x 256 px
+    /// (later rounds: within 0.3 px of the previous round's σ).</summary>
     public static ModelFitResult Refine(float[] flat, int[] labels, int w, int h, double noiseSd, double beta,
         double minSigmaPx, double maxSigmaPx, double mergeMargin, int rounds = 3, int maxSweeps = 10)
     {
@@ -35,7 +36,9 @@ public static class JunctionModelFit
         int moves = 0, sweeps = 0, merged = 0;
         for (int round = 0; round < rounds; round++)
         {
-            sigma = FitSigma(flat, labels, w, h, minSigmaPx, maxSigmaPx);
+            // Later rounds search within 0.3 px of the previous width (the labels changed little).
+            sigma = round == 0 ? FitSigma(flat, labels, w, h, minSigmaPx, maxSigmaPx)
+                : FitSigma(flat, labels, w, h, Math.Max(minSigmaPx, sigma - 0.3), Math.Min(maxSigmaPx, sigma + 0.3));
             var state = new State(flat, labels, w, h, sigma);
             (_, gain) = state.Initialise();
             if (!(gain > 0)) break;
@@ -52,8 +55,7 @@ public static class JunctionModelFit
             int merges = 0;
             if (mergeMargin >= 0)
             {
-                state = new State(flat, labels, w, h, sigma);
-                state.Initialise();
+                // The sweep state is current (labels, coverage and residual updated move by move; gain and levels held).
                 state.NoiseVar = noiseSd * noiseSd;
                 state.MergeMargin = mergeMargin;
                 merges = state.MergePass();
@@ -159,23 +161,34 @@ public static class JunctionModelFit
         private static double Quadrant(bool side1, bool side2, bool far1, bool far2)
             => side1 || side2 ? 0.25 : far1 || far2 ? QuarterDisc : 0;
 
+        /// <summary>Separable blur by the sampled Gaussian, edges replicated; the vertical pass adds whole rows.</summary>
         private double[] Blur(double[] f)
         {
             var tmp = new double[f.Length]; var o = new double[f.Length];
             for (int y = 0; y < h; y++)
+            {
+                var src = f.AsSpan(y * w, w);
+                var dst = tmp.AsSpan(y * w, w);
                 for (int x = 0; x < w; x++)
                 {
                     double s = 0;
-                    for (int k = -r; k <= r; k++) s += g[k + r] * f[y * w + Math.Clamp(x + k, 0, w - 1)];
-                    tmp[y * w + x] = s;
+                    if (x >= r && x < w - r)
+                        for (int k = -r; k <= r; k++) s += g[k + r] * src[x + k];
+                    else
+                        for (int k = -r; k <= r; k++) s += g[k + r] * src[Math.Clamp(x + k, 0, w - 1)];
+                    dst[x] = s;
                 }
+            }
             for (int y = 0; y < h; y++)
-                for (int x = 0; x < w; x++)
+            {
+                var dst = o.AsSpan(y * w, w);
+                for (int k = -r; k <= r; k++)
                 {
-                    double s = 0;
-                    for (int k = -r; k <= r; k++) s += g[k + r] * tmp[Math.Clamp(y + k, 0, h - 1) * w + x];
-                    o[y * w + x] = s;
+                    var src = tmp.AsSpan(Math.Clamp(y + k, 0, h - 1) * w, w);
+                    double gk = g[k + r];
+                    for (int x = 0; x < w; x++) dst[x] += gk * src[x];
                 }
+            }
             return o;
         }
 
@@ -394,25 +407,36 @@ public static class JunctionModelFit
             if (!apply) lab[i] = a;
             dc[4] += interior[b] - interior[a];
             double change = Penalty * cracks;
-            int o = r + 1, kw = 2 * r + 1;
+            // The blurred change, separably: t_qy(ex) = Σ_qx ΔC(qx, qy) g(ex − qx), then ΔM(ex, ey) = Σ_qy g(ey − qy) t_qy(ex).
+            int o = r + 1, span = 2 * o + 1;
+            Span<double> t = stackalloc double[3 * span];
+            for (int qy = 0; qy < 3; qy++)
+                for (int ex = -o; ex <= o; ex++)
+                {
+                    double v = 0;
+                    for (int qx = 0; qx < 3; qx++)
+                    {
+                        double d = dc[qy * 3 + qx];
+                        int k = ex - (qx - 1);
+                        if (d != 0 && k >= -r && k <= r) v += d * g[k + r];
+                    }
+                    t[qy * span + ex + o] = v;
+                }
             for (int ey = -o; ey <= o; ey++)
             {
                 int yy = y + ey;
                 if (yy < 0 || yy >= h) continue;
+                int k0 = ey + 1, k1 = ey, k2i = ey - 1;   // ey − qy for qy = −1, 0, 1
+                double g0 = k0 >= -r && k0 <= r ? g[k0 + r] : 0, g1 = k1 >= -r && k1 <= r ? g[k1 + r] : 0, g2 = k2i >= -r && k2i <= r ? g[k2i + r] : 0;
+                int row = yy * w;
                 for (int ex = -o; ex <= o; ex++)
                 {
                     int xx = x + ex;
                     if (xx < 0 || xx >= w) continue;
-                    double dm = 0;
-                    for (int q = 0; q < 9; q++)
-                    {
-                        if (dc[q] == 0) continue;
-                        int ky = ey - (q / 3 - 1) + r, kx = ex - (q % 3 - 1) + r;
-                        if (ky < 0 || kx < 0 || ky >= kw || kx >= kw) continue;
-                        dm += dc[q] * k2[ky * kw + kx];
-                    }
+                    int c = ex + o;
+                    double dm = g0 * t[c] + g1 * t[span + c] + g2 * t[2 * span + c];
                     if (dm == 0) continue;
-                    int j = yy * w + xx;
+                    int j = row + xx;
                     change += dm * dm - 2 * resid[j] * dm;
                     if (apply) resid[j] -= dm;
                 }
