@@ -2,26 +2,27 @@ namespace ShapeNoise.Imaging.Segmentation;
 
 /// <summary>What <see cref="JunctionModelFit.Refine"/> did: the junction width and gain it fitted and the pixels it moved.</summary>
 /// <param name="SigmaPx">Width σ_m (px) of the fitted junction model, last round.</param>
+/// <param name="BandPx">Band width (px) of the fitted junction model.</param>
 /// <param name="Gain">Fitted junction amplitude a (flattened units per unit of line coverage), last round.</param>
 /// <param name="Moves">Pixels that changed label, all rounds.</param>
 /// <param name="Merges">Cells merged into a neighbour, all rounds.</param>
 /// <param name="Sweeps">Sweeps over the boundary pixels, all rounds.</param>
-public readonly record struct ModelFitResult(double SigmaPx, double Gain, int Moves, int Merges, int Sweeps);
+public readonly record struct ModelFitResult(double SigmaPx, double BandPx, double Gain, int Moves, int Merges, int Sweeps);
 
 /// <summary>
 /// Boundary refinement by fitting a forward model of the junction image (docs/segmentation.md#junction-model-fit).
 /// The model of the flattened frame F given labels L is F(x) ≈ ℓ(x) + a M_L(x), with M_L = G_σ * C_L: C_L(p) the area
-/// of pixel p within 1/2 px of a crack of L (a pixel edge between different labels: the one-pixel-wide junction band
-/// centred on the contact), G_σ a normalised sampled Gaussian, and ℓ = G_σ * (Σ_k ℓ_k 1_k) the blurred per-cell levels
-/// (background, haze and cytoplasm). σ is fitted by golden-section search of the squared residual, a and the ℓ_k by
-/// joint least squares; then a boundary pixel changes to a neighbouring label when that lowers
+/// of pixel p within w/2 of a crack of L (a pixel edge between different labels: a junction band of width w centred on
+/// the contact, <see cref="BandTable"/>), G_σ a normalised sampled Gaussian, and ℓ = G_σ * (Σ_k ℓ_k 1_k) the blurred
+/// per-cell levels (background, haze and cytoplasm). w (1, 1.5, 2 px or the pixel line) and σ are chosen by least squared
+/// residual (σ by golden-section search), a and the ℓ_k by joint least squares; then a boundary pixel changes to a neighbouring label when that lowers
 /// Σ_x (F − ℓ − a M_L)² / (2 σ_n²) + β × (crack edges) (a Potts prior on the boundary length, σ_n the noise sd), one pixel
 /// at a time (iterated conditional modes), keeping every cell locally connected; fit and sweeps are repeated for a
 /// few rounds.
 /// </summary>
 /// <remarks>Iterated conditional modes for the labels of a blurred, noisy image with a Potts prior: Besag J. (1986),
-/// "On the statistical analysis of dirty pictures", J. R. Statist. Soc. B 48:259-302. A band of physical width w adds
-/// w²/12 to the fitted σ², so a junction wider than the band is absorbed by σ (docs/segmentation.md#junction-model-fit).
+/// "On the statistical analysis of dirty pictures", J. R. Statist. Soc. B 48:259-302. A junction wider than 2 px is
+/// absorbed by σ (a band of width w adds about w²/12 to σ²; docs/segmentation.md#junction-model-fit).
 /// Golden-section search: Kiefer J. (1953), Proc. AMS 4:502-506.</remarks>
 public static class JunctionModelFit
 {
@@ -32,14 +33,23 @@ public static class JunctionModelFit
     public static ModelFitResult Refine(float[] flat, int[] labels, int w, int h, double noiseSd, double beta,
         double minSigmaPx, double maxSigmaPx, double mergeMargin, int rounds = 3, int maxSweeps = 10)
     {
-        double sigma = minSigmaPx, gain = 0;
+        double sigma = minSigmaPx, gain = 0, band = 1;
         int moves = 0, sweeps = 0, merged = 0;
         for (int round = 0; round < rounds; round++)
         {
-            // Later rounds search within 0.3 px of the previous width (the labels changed little).
-            sigma = round == 0 ? FitSigma(flat, labels, w, h, minSigmaPx, maxSigmaPx)
-                : FitSigma(flat, labels, w, h, Math.Max(minSigmaPx, sigma - 0.3), Math.Min(maxSigmaPx, sigma + 0.3));
-            var state = new State(flat, labels, w, h, sigma);
+            // The band width (1, 1.5 or 2 px, or the pixel line) with the least squared residual in the first round, each at its best σ; later
+            // rounds keep it and search σ within 0.3 px of the previous one (the labels changed little).
+            if (round == 0)
+            {
+                double best = double.MaxValue;
+                foreach (var b in BandWidthsPx)
+                {
+                    var (s, rss) = FitSigma(flat, labels, w, h, minSigmaPx, maxSigmaPx, b);
+                    if (rss < best) { best = rss; sigma = s; band = b; }
+                }
+            }
+            else sigma = FitSigma(flat, labels, w, h, Math.Max(minSigmaPx, sigma - 0.3), Math.Min(maxSigmaPx, sigma + 0.3), band).Sigma;
+            var state = new State(flat, labels, w, h, sigma, band);
             (_, gain) = state.Initialise();
             if (!(gain > 0)) break;
             state.Penalty = beta * 2 * noiseSd * noiseSd;
@@ -63,13 +73,17 @@ public static class JunctionModelFit
             merged += merges;
             if (roundMoves == 0 && merges == 0) break;
         }
-        return new ModelFitResult(sigma, gain, moves, merged, sweeps);
+        return new ModelFitResult(sigma, band, gain, moves, merged, sweeps);
     }
+
+    /// <summary>Band widths (px) the fit chooses from: the junction's physical width before the blur; 0 = the pixel line
+    /// (<see cref="BandTable.Of"/>).</summary>
+    private static readonly double[] BandWidthsPx = [1, 1.5, 2, 0];
 
     /// <summary>Squared residual and gain of the model of width <paramref name="sigmaPx"/> for the given labels (after the
     /// joint least-squares fit of the gain and the cells' levels).</summary>
-    public static (double Rss, double Gain) Residual(float[] flat, int[] labels, int w, int h, double sigmaPx)
-        => new State(flat, labels, w, h, sigmaPx).Initialise();
+    public static (double Rss, double Gain) Residual(float[] flat, int[] labels, int w, int h, double sigmaPx, double bandPx = 1)
+        => new State(flat, labels, w, h, sigmaPx, bandPx).Initialise();
 
     /// <summary>For tests: the change of the squared residual predicted for moving pixel (x, y) to label b (gain and
     /// levels held), and the same change recomputed from scratch on the whole frame.</summary>
@@ -83,17 +97,17 @@ public static class JunctionModelFit
         return (predicted, st.RssWith(moved) - rss);
     }
 
-    /// <summary>C_L: the area of each pixel within 1/2 px of a crack of <paramref name="labels"/> (row-major).</summary>
-    public static double[] Coverage(int[] labels, int w, int h)
+    /// <summary>C_L: the area of each pixel within <paramref name="bandPx"/> / 2 of a crack of <paramref name="labels"/> (row-major; <see cref="BandTable"/>).</summary>
+    public static double[] Coverage(int[] labels, int w, int h, double bandPx = 1)
     {
-        var st = new State(new float[labels.Length], labels, w, h, 1);
+        var st = new State(new float[labels.Length], labels, w, h, 1, bandPx);
         var c = new double[labels.Length];
         for (int y = 0; y < h; y++) for (int x = 0; x < w; x++) c[y * w + x] = st.Coverage(x, y);
         return c;
     }
 
     /// <summary>σ of least squared residual in [lo, hi] by golden-section search (0.02 px) on the central crop of at most 256 x 256 px.</summary>
-    private static double FitSigma(float[] flat, int[] labels, int w, int h, double lo, double hi)
+    private static (double Sigma, double Rss) FitSigma(float[] flat, int[] labels, int w, int h, double lo, double hi, double bandPx)
     {
         int cw = Math.Min(w, 256), ch = Math.Min(h, 256), x0 = (w - cw) / 2, y0 = (h - ch) / 2;
         var f = new float[cw * ch]; var l = new int[cw * ch];
@@ -102,7 +116,7 @@ public static class JunctionModelFit
             Array.Copy(flat, (y + y0) * w + x0, f, y * cw, cw);
             Array.Copy(labels, (y + y0) * w + x0, l, y * cw, cw);
         }
-        double Rss(double s) => new State(f, l, cw, ch, s).Initialise().Rss;
+        double Rss(double s) => new State(f, l, cw, ch, s, bandPx).Initialise().Rss;
         double g = (Math.Sqrt(5) - 1) / 2, a = lo, b = hi;
         double c = b - g * (b - a), d = a + g * (b - a), fc = Rss(c), fd = Rss(d);
         while (b - a > 0.02)
@@ -110,12 +124,12 @@ public static class JunctionModelFit
             if (fc < fd) { b = d; d = c; fd = fc; c = b - g * (b - a); fc = Rss(c); }
             else { a = c; c = d; fc = fd; d = a + g * (b - a); fd = Rss(d); }
         }
-        return 0.5 * (a + b);
+        return (0.5 * (a + b), Math.Min(fc, fd));
     }
 
     private sealed class State
     {
-        private const double QuarterDisc = Math.PI / 16;   // area of a quarter disc of radius 1/2
+        private readonly double bandPx;
         private readonly float[] flat;
         private readonly int[] lab;
         private readonly int w, h, r;
@@ -124,13 +138,16 @@ public static class JunctionModelFit
         private double[] cover = [], level = [], resid = [], interior = [];
         private double gain;
         private readonly double[] dc = new double[9];
+        private readonly double[] table;
         private bool[]? dirty;
         /// <summary>Cost, in squared-residual units, of one crack edge (the Potts prior: 2σ_n² β per edge).</summary>
         public double Penalty { get; set; }
 
-        public State(float[] flat, int[] labels, int w, int h, double sigma)
+        public State(float[] flat, int[] labels, int w, int h, double sigma, double bandPx = 1)
         {
             this.flat = flat; lab = labels; this.w = w; this.h = h;
+            table = BandTable.Of(bandPx);
+            this.bandPx = bandPx;
             r = (int)Math.Ceiling(3 * sigma);
             g = new double[2 * r + 1];
             double sum = 0;
@@ -148,18 +165,18 @@ public static class JunctionModelFit
         /// it is a crack, else π/16 when a crack leaves the quadrant's outer corner along one of the other two edges there.</summary>
         public double Coverage(int x, int y)
         {
-            int i = y * w + x;
-            bool l = x > 0 && Crack(i, i - 1), rr = x + 1 < w && Crack(i, i + 1), t = y > 0 && Crack(i, i - w), b = y + 1 < h && Crack(i, i + w);
-            double c = 0;
-            c += Quadrant(l, t, x > 0 && y > 0 && Crack(i - 1, i - w - 1), x > 0 && y > 0 && Crack(i - w, i - w - 1));
-            c += Quadrant(rr, t, x + 1 < w && y > 0 && Crack(i + 1, i - w + 1), x + 1 < w && y > 0 && Crack(i - w, i - w + 1));
-            c += Quadrant(l, b, x > 0 && y + 1 < h && Crack(i - 1, i + w - 1), x > 0 && y + 1 < h && Crack(i + w, i + w - 1));
-            c += Quadrant(rr, b, x + 1 < w && y + 1 < h && Crack(i + 1, i + w + 1), x + 1 < w && y + 1 < h && Crack(i + w, i + w + 1));
-            return c;
+            int i = y * w + x, bits = 0;
+            bool left = x > 0, right = x + 1 < w, top = y > 0, bottom = y + 1 < h;
+            if (left && Crack(i, i - 1)) bits |= 1;
+            if (right && Crack(i, i + 1)) bits |= 2;
+            if (top && Crack(i, i - w)) bits |= 4;
+            if (bottom && Crack(i, i + w)) bits |= 8;
+            if (left && top) { if (Crack(i - 1, i - w - 1)) bits |= 16; if (Crack(i - w, i - w - 1)) bits |= 32; }
+            if (right && top) { if (Crack(i + 1, i - w + 1)) bits |= 64; if (Crack(i - w, i - w + 1)) bits |= 128; }
+            if (left && bottom) { if (Crack(i - 1, i + w - 1)) bits |= 256; if (Crack(i + w, i + w - 1)) bits |= 512; }
+            if (right && bottom) { if (Crack(i + 1, i + w + 1)) bits |= 1024; if (Crack(i + w, i + w + 1)) bits |= 2048; }
+            return table[bits];
         }
-
-        private static double Quadrant(bool side1, bool side2, bool far1, bool far2)
-            => side1 || side2 ? 0.25 : far1 || far2 ? QuarterDisc : 0;
 
         /// <summary>Separable blur by the sampled Gaussian, edges replicated; the vertical pass adds whole rows.</summary>
         private double[] Blur(double[] f)
@@ -231,7 +248,7 @@ public static class JunctionModelFit
         /// <summary>Squared residual of the labels <paramref name="other"/> under this state's σ, gain and levels, computed afresh.</summary>
         public double RssWith(int[] other)
         {
-            var st = new State(flat, other, w, h, 1);
+            var st = new State(flat, other, w, h, 1, bandPx);
             var cov = new double[w * h];
             for (int y = 0; y < h; y++) for (int x = 0; x < w; x++) cov[y * w + x] = st.Coverage(x, y);
             var model = Blur(cov);

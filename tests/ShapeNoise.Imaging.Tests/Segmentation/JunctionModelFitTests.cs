@@ -30,11 +30,16 @@ public class JunctionModelFitTests
     {
         // Cell 2 fills x >= 5, y >= 5. The pixel diagonally outside the corner, (4, 4), meets the cracks only at its corner
         // vertex: the band covers a quarter disc of radius 1/2 there, area π r² / 4 = π/16 (handbook area of a disc). The
-        // pixel inside the corner, (5, 5), has cracks on two adjacent edges: three of its four quadrants, 3/4.
+        // pixel inside the corner, (5, 5), has cracks on two adjacent edges: three of its four quadrants, 3/4. With a band of
+        // 2 px (half-width 1) the diagonal pixel holds a quarter disc of radius 1, π/4, and the inside pixel is covered.
         var c = JunctionModelFit.Coverage(Halves(10, 10, (x, y) => x >= 5 && y >= 5), 10, 10);
-        Assert.Equal(Math.PI / 16, c[4 * 10 + 4], 12);
+        Assert.Equal(Math.PI / 16, c[4 * 10 + 4], 2);   // 32 x 32 sub-samples: within 0.005 of the exact area
         Assert.Equal(0.75, c[5 * 10 + 5], 12);
         Assert.Equal(0.5, c[4 * 10 + 7], 12);   // above the straight part of the top crack
+        var wide = JunctionModelFit.Coverage(Halves(10, 10, (x, y) => x >= 5 && y >= 5), 10, 10, bandPx: 2);
+        Assert.Equal(Math.PI / 4, wide[4 * 10 + 4], 2);
+        Assert.Equal(1, wide[5 * 10 + 5], 12);
+        Assert.Equal(1, wide[4 * 10 + 7], 12);
     }
 
     /// <summary>A render of our monolayer at SNR 100 without illumination falloff, bleaching, haze or cytoplasm, flattened as the segmenter does.</summary>

@@ -60,10 +60,10 @@ public class RenderFamilyTests(ITestOutputHelper log)
     {
         // docs/segmentation.md#junction-model-fit: with --model-fit the boundaries are refined against a blurred-junction
         // model and unsupported boundaries merged. Issue 17's targets (SEG >= 0.88, F1 >= 0.95; Ulman et al. 2017) must
-        // hold on every asserted CI member but dim-wide (measured 0.880 / 0.992 on its held-back seed 901: at the target,
-        // 0.878 before a speed change; reported in docs/segmentation.md, not asserted), and the small-cell member, whose limit is boundary placement, must gain at
+        // hold on every asserted CI member (dim-wide, the closest, measured 0.883 / 0.992 on its held-back seed 901), and the
+        // small-cell member, whose limit is boundary placement, must gain at
         // least 0.015 SEG (measured +0.030 on its held-back seed 902); no member may lose more than 0.015 (large-thick, whose
-        // 3 px band the 1 px model fits least well, measured -0.002 on its seed 903 and -0.009 on seed 900).
+        // 3 px band the 1 px model fits least well, measured +0.002 on its seed 903 and -0.006 on seed 900).
         var failures = new List<string>();
         for (int k = 0; k < RenderFamily.Ci.Length; k++)
         {
@@ -73,7 +73,7 @@ public class RenderFamilyTests(ITestOutputHelper log)
             var plain = RenderFamily.Run(m, seed).Score;
             var fit = RenderFamily.Run(m, seed, new ShapeNoise.Imaging.Segmentation.SegmentOptions { ModelFit = true }).Score;
             log.WriteLine($"| {m} | {seed} | {plain.Seg:F3} / {plain.F1:F3} | {fit.Seg:F3} / {fit.F1:F3} |");
-            if (m.Name != "dim-wide" && (fit.Seg < 0.88 || fit.F1 < 0.95)) failures.Add($"{m.Name}: SEG {fit.Seg:F3}, F1 {fit.F1:F3} with the model fit");
+            if (fit.Seg < 0.88 || fit.F1 < 0.95) failures.Add($"{m.Name}: SEG {fit.Seg:F3}, F1 {fit.F1:F3} with the model fit");
             if (fit.Seg < plain.Seg - 0.015) failures.Add($"{m.Name}: SEG {plain.Seg:F3} -> {fit.Seg:F3} with the model fit");
             if (m.Name == "small" && fit.Seg < plain.Seg + 0.015) failures.Add($"small: SEG {plain.Seg:F3} -> {fit.Seg:F3}, expected a gain");
         }
