@@ -40,7 +40,7 @@ public static class SegmentJob
                 if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"), r.Seeds);
                 int inCells = 0;
                 foreach (var v in labels) if (v > 0) inCells++;
-                qc.Add(new FrameQc(f.Index, n, inCells / (double)labels.Length, r.Seeds.Length, r.RidgelessMerges, r.FragmentMerges, r.NoiseSd, r.JunctionSigmaPx, r.BoundarySigmaPx));
+                qc.Add(new FrameQc(f.Index, n, inCells / (double)labels.Length, r.Seeds.Length, r.RidgelessMerges, r.FragmentMerges, r.NoiseSd, r.JunctionSigmaPx, r.BoundarySigmaPx, r.ModelSigmaPx, r.ModelBandPx, r.ModelMoves, r.ModelMerges));
                 boundarySigmaPx?.Add(r.BoundarySigmaPx);
                 frames++; cells += n;
                 progress?.Report((frames, info.FrameCount));
@@ -61,6 +61,10 @@ public static class SegmentJob
                     ["ridgeless_merges"] = q.RidgelessMerges, ["fragment_merges"] = q.FragmentMerges, ["noise_sd"] = Math.Round(q.NoiseSd, 5),
                     ["junction_sigma_px"] = double.IsFinite(q.JunctionSigmaPx) ? Math.Round(q.JunctionSigmaPx, 3) : null,
                     ["boundary_sigma_px"] = double.IsFinite(q.BoundarySigmaPx) ? Math.Round(q.BoundarySigmaPx, 3) : null,
+                    ["model_sigma_px"] = double.IsFinite(q.ModelSigmaPx) ? Math.Round(q.ModelSigmaPx, 3) : null,
+                    ["model_band_px"] = double.IsFinite(q.ModelBandPx) ? q.ModelBandPx : null,
+                    ["model_moves"] = double.IsFinite(q.ModelSigmaPx) ? q.ModelMoves : null,
+                    ["model_merges"] = double.IsFinite(q.ModelSigmaPx) ? q.ModelMerges : null,
                 });
             prov["qc"] = new JsonObject { ["frames"] = perFrame, ["warnings"] = new JsonArray(warnings.Select(w => (JsonNode)JsonValue.Create(w)!).ToArray()) };
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
@@ -73,7 +77,8 @@ public static class SegmentJob
 
     /// <summary>QC of one segmented frame (run.json "qc").</summary>
     public readonly record struct FrameQc(int Frame, int Cells, double CellAreaFraction, int Seeds, int RidgelessMerges, int FragmentMerges, double NoiseSd,
-        double JunctionSigmaPx = double.NaN, double BoundarySigmaPx = double.NaN);
+        double JunctionSigmaPx = double.NaN, double BoundarySigmaPx = double.NaN, double ModelSigmaPx = double.NaN, double ModelBandPx = double.NaN,
+        int ModelMoves = 0, int ModelMerges = 0);
 
     /// <summary>One warning per pair of consecutive frames whose cell counts differ by more than <paramref name="fraction"/> of the larger.</summary>
     public static List<string> CountJumps(IReadOnlyList<FrameQc> qc, double fraction)

@@ -130,6 +130,8 @@ public sealed record SegmentedFrame(int[] Labels, int[] Seeds, double NoiseSd, i
     public double JunctionSigmaPx { get; init; } = double.NaN;
     /// <summary>Width σ_m (px) of the fitted junction model when <see cref="SegmentOptions.ModelFit"/> is on, else NaN.</summary>
     public double ModelSigmaPx { get; init; } = double.NaN;
+    /// <summary>Band width (px; 0 = the pixel line) of the fitted junction model when <see cref="SegmentOptions.ModelFit"/> is on, else NaN.</summary>
+    public double ModelBandPx { get; init; } = double.NaN;
     /// <summary>Pixels the model fit moved to another cell.</summary>
     public int ModelMoves { get; init; }
     /// <summary>Cells the model fit merged into a neighbour.</summary>
@@ -163,7 +165,7 @@ public static class JunctionSegmenter
         if (!o.ModelFit) return kept;
         var fit = JunctionModelFit.Refine(ToArray(frame.Flat), kept.Labels, width, height, frame.NoiseSd, o.ModelFitBeta, 0.5, Math.Max(1.5, Math.Min(4, 0.3 * o.DiameterPx)), o.ModelMergeMargin);
         if (fit.Merges > 0) kept = kept with { Labels = Regions.Relabel(kept.Labels) };
-        return kept with { ModelSigmaPx = fit.SigmaPx, ModelMoves = fit.Moves, ModelMerges = fit.Merges };
+        return kept with { ModelSigmaPx = fit.SigmaPx, ModelBandPx = fit.BandPx, ModelMoves = fit.Moves, ModelMerges = fit.Merges };
     }
 
     /// <summary>The watershed segmentation before the model fit (docs/segmentation.md#method, steps 1–7).</summary>
