@@ -20,15 +20,11 @@ public class RenderFamilyTests(ITestOutputHelper log)
             ["dim-wide"] = (0.855, 0.95),
         };
         var failures = new List<string>();
-        for (int k = 0; k < RenderFamily.Ci.Length; k++)
+        foreach (var (m, plain, fit) in PlainAndVariant(_ => new ShapeNoise.Imaging.Segmentation.SegmentOptions { ModelFit = true }))
         {
-            var m = RenderFamily.Ci[k];
-            int seed = RenderFamily.HeldBackSeeds[k];
-            var (sc, _, _, _, _) = RenderFamily.Run(m, seed);
-            log.WriteLine($"| {m} | {seed} | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} |");
-            if (!m.Asserted) continue;
-            var (segMin, f1Min) = shortfall.TryGetValue(m.Name, out var s) ? s : (0.88, 0.95);
-            if (sc.Seg < segMin || sc.F1 < f1Min) failures.Add($"{m.Name}: SEG {sc.Seg:F3} (>= {segMin}), F1 {sc.F1:F3} (>= {f1Min})");
+            if (fit.Seg < 0.88 || fit.F1 < 0.95) failures.Add($"{m.Name}: SEG {fit.Seg:F3}, F1 {fit.F1:F3} with the model fit");
+            if (fit.Seg < plain.Seg - 0.015) failures.Add($"{m.Name}: SEG {plain.Seg:F3} -> {fit.Seg:F3} with the model fit");
+            if (m.Name == "small" && fit.Seg < plain.Seg + 0.015) failures.Add($"small: SEG {plain.Seg:F3} -> {fit.Seg:F3}, expected a gain");
         }
         Assert.True(failures.Count == 0, string.Join("; ", failures));
     }
@@ -41,18 +37,30 @@ public class RenderFamilyTests(ITestOutputHelper log)
         // every asserted CI member, dim-wide included, and no member may lose more than 0.005 SEG against the plain
         // segmentation (the spread between tuning seeds of one member was below 0.015).
         var failures = new List<string>();
+        foreach (var (m, plain, sharp) in PlainAndVariant(m => new ShapeNoise.Imaging.Segmentation.SegmentOptions { DeconvolveSigmaPx = m.PsfPx }))
+        {
+            if (sharp.Seg < 0.88 || sharp.F1 < 0.95) failures.Add($"{m.Name}: SEG {sharp.Seg:F3}, F1 {sharp.F1:F3} with deconvolution");
+            if (sharp.Seg < plain.Seg - 0.005) failures.Add($"{m.Name}: SEG {plain.Seg:F3} -> {sharp.Seg:F3} with deconvolution");
+        }
+        Assert.True(failures.Count == 0, string.Join("; ", failures));
+    }
+
+    /// <summary>Every asserted CI member on its held-back seed, segmented with the defaults and with <paramref name="variant"/>'s options.</summary>
+    private List<(RenderMember M, ShapeNoise.Segmentation.SegmentationScore Plain, ShapeNoise.Segmentation.SegmentationScore Variant)> PlainAndVariant(
+        Func<RenderMember, ShapeNoise.Imaging.Segmentation.SegmentOptions> variant)
+    {
+        var rows = new List<(RenderMember, ShapeNoise.Segmentation.SegmentationScore, ShapeNoise.Segmentation.SegmentationScore)>();
         for (int k = 0; k < RenderFamily.Ci.Length; k++)
         {
             var m = RenderFamily.Ci[k];
             if (!m.Asserted) continue;
             int seed = RenderFamily.HeldBackSeeds[k];
             var plain = RenderFamily.Run(m, seed).Score;
-            var sharp = RenderFamily.Run(m, seed, new ShapeNoise.Imaging.Segmentation.SegmentOptions { DeconvolveSigmaPx = m.PsfPx }).Score;
-            log.WriteLine($"| {m} | {seed} | {plain.Seg:F3} / {plain.F1:F3} | {sharp.Seg:F3} / {sharp.F1:F3} |");
-            if (sharp.Seg < 0.88 || sharp.F1 < 0.95) failures.Add($"{m.Name}: SEG {sharp.Seg:F3}, F1 {sharp.F1:F3} with deconvolution");
-            if (sharp.Seg < plain.Seg - 0.005) failures.Add($"{m.Name}: SEG {plain.Seg:F3} -> {sharp.Seg:F3} with deconvolution");
+            var other = RenderFamily.Run(m, seed, variant(m)).Score;
+            log.WriteLine($"| {m} | {seed} | {plain.Seg:F3} / {plain.F1:F3} | {other.Seg:F3} / {other.F1:F3} |");
+            rows.Add((m, plain, other));
         }
-        Assert.True(failures.Count == 0, string.Join("; ", failures));
+        return rows;
     }
 
     [Fact]
@@ -63,7 +71,7 @@ public class RenderFamilyTests(ITestOutputHelper log)
         // hold on every asserted CI member (dim-wide, the closest, measured 0.883 / 0.992 on its held-back seed 901), and the
         // small-cell member, whose limit is boundary placement, must gain at
         // least 0.015 SEG (measured +0.030 on its held-back seed 902); no member may lose more than 0.015 (large-thick, whose
-        // 3 px band the 1 px model fits least well, measured +0.002 on its seed 903 and -0.006 on seed 900).
+        // 3 px band is wider than the widest model band, measured +0.002 on its seed 903 and -0.006 on seed 900).
         var failures = new List<string>();
         for (int k = 0; k < RenderFamily.Ci.Length; k++)
         {
