@@ -20,12 +20,16 @@ internal sealed class LabelScan
 
     private LabelScan(LabelBox[] boxes, int[] dense, int w, int h) { Boxes = boxes; DenseImage = dense; Width = w; Height = h; }
 
-    /// <summary>Scans <paramref name="frame"/> once. Labels are numbered densely in order of first appearance in raster order.</summary>
-    public static LabelScan Of(LabelFrame frame)
+    /// <summary>Scans <paramref name="frame"/> once. Labels are numbered densely in order of first appearance in raster order.
+    /// <paramref name="reuse"/>, when given and of the frame's size, becomes the <see cref="DenseImage"/> (cleared first):
+    /// the caller hands back the dense image of a scan it no longer reads.</summary>
+    public static LabelScan Of(LabelFrame frame, int[]? reuse = null)
     {
         int w = frame.Width, h = frame.Height;
         var labels = frame.Labels;
-        var dense = new int[labels.Length];
+        int[] dense;
+        if (reuse is not null && reuse.Length == labels.Length) { Array.Clear(reuse); dense = reuse; }
+        else dense = new int[labels.Length];
         var slot = new Dictionary<int, int>();
         // Per label: min x, max x, min y, max y, pixel count, id; plain arrays grown by doubling (the loop below touches
         // them once per pixel, so no list indexers there).

@@ -51,13 +51,14 @@ public static class MovieAnalyzer
     {
         var info = movie.Info;
         LabelScan? prevScan = null;
+        int[]? spare = null;   // the dense image of the scan before the previous one: nothing reads it any more
         using var frameStream = movie.Frames().GetEnumerator();
         while (times.Time("decode", frameStream.MoveNext))
         {
             var frame = frameStream.Current;
             if (frame.Width != info.Width || frame.Height != info.Height)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
-            var scan = times.Time("scan", () => LabelScan.Of(frame));
+            var scan = times.Time("scan", () => LabelScan.Of(frame, spare));
             // Coverage with thin gaps between masks closed (docs/defects.md#where-defects-apply).
             int coveredPx = times.Time("scan", () => Coverage.CoveredPixels(scan.DenseImage, scan.Width, scan.Height));
             if (scan.Boxes.Length == 0)
@@ -70,6 +71,9 @@ public static class MovieAnalyzer
             var prev = prevScan;
             FrameLinks? links = prev is null ? null
                 : times.Time("tracking", () => OverlapLinking.Link(prev.DenseImage, PixelCounts(prev), scan.DenseImage, PixelCounts(scan), options.LinkOverlapFraction));
+            // The previous scan's dense image was read for the last time by the linking above (the outlines and links
+            // hold their own arrays); it becomes the next scan's.
+            spare = prev?.DenseImage;
             prevScan = scan;
             yield return new FrameOutlines(frame.Index, outlines, links, links?.Divisions ?? 0, links?.Merges ?? 0, PixelCounts(scan).Sum(), coveredPx);
         }

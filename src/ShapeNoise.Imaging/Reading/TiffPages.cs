@@ -1,3 +1,4 @@
+using System.Buffers;
 using System.Buffers.Binary;
 using System.IO.Compression;
 using System.Runtime.InteropServices;
@@ -322,7 +323,11 @@ public sealed class TiffPages : IDisposable
         try { labels = new int[(long)p.Width * p.Height]; }
         catch (OutOfMemoryException) { throw new InputException(Path, $"page {index + 1}: not enough memory for a {p.Width} x {p.Height} px page ({4L * p.Width * p.Height} bytes of labels)"); }
         int rowBytes = g.BlockW * bytesPer;
-        byte[]? raw = null;
+        // Compressed and inflated blocks in buffers rented for this page and returned at its end (pages of a movie are
+        // megabytes each: fresh arrays would land on the large-object heap page after page).
+        byte[]? raw = null, inflated = null;
+        try
+        {
         for (int bi = 0; bi < g.Blocks; bi++)
         {
             int bx = bi % g.Across, by = bi / g.Across;
@@ -331,10 +336,22 @@ public sealed class TiffPages : IDisposable
             try
             {
                 int count = (int)Math.Min(p.ByteCounts[bi], p.Compression == 1 ? expected : int.MaxValue);
-                if (raw is null || raw.Length < count) raw = new byte[count];
+                if (raw is null || raw.Length < count) { Return(raw); raw = ArrayPool<byte>.Shared.Rent(count); }
                 if (Read(p.Offsets[bi], raw.AsSpan(0, count)) < count) throw new InputException(Path, $"truncated: page {index + 1} pixel data cut short");
-                byte[] data = Decode(p.Compression, raw, count, expected);
-                if (data.Length < expected) throw new InputException(Path, $"truncated or corrupt: page {index + 1} {block} {bi + 1} decodes to {data.Length} bytes, expected {expected}");
+                int decoded;
+                byte[] data;
+                if (p.Compression is 8 or 32946)
+                {
+                    if (inflated is null || inflated.Length < expected) { Return(inflated); inflated = ArrayPool<byte>.Shared.Rent(expected); }
+                    decoded = Inflate(raw, count, inflated, expected);
+                    data = inflated;
+                }
+                else
+                {
+                    data = Decode(p.Compression, raw, count, expected);
+                    decoded = p.Compression == 1 ? Math.Min(count, data.Length) : data.Length;
+                }
+                if (decoded < expected) throw new InputException(Path, $"truncated or corrupt: page {index + 1} {block} {bi + 1} decodes to {decoded} bytes, expected {expected}");
                 if (p.Predictor == 2) UndoPredictor(data, g.BlockW, rows, bytesPer);
                 int x0 = bx * g.BlockW, n = Math.Min(g.BlockW, p.Width - x0);
                 for (int r = 0; r < rows; r++)
@@ -349,7 +366,11 @@ public sealed class TiffPages : IDisposable
                 throw new InputException(Path, $"page {index + 1}: corrupt pixel data in {block} {bi + 1} ({e.GetType().Name}: {OneLine(e.Message)})");
             }
         }
+        }
+        finally { Return(raw); Return(inflated); }
         return labels;
+
+        static void Return(byte[]? b) { if (b is not null) ArrayPool<byte>.Shared.Return(b); }
     }
 
     private void Convert(ReadOnlySpan<byte> src, Span<int> dst, TiffPage p, int index)
@@ -435,11 +456,19 @@ public sealed class TiffPages : IDisposable
 
     private static byte[] Inflate(byte[] raw, int count, int expected)
     {
-        using var z = new ZLibStream(new MemoryStream(raw, 0, count), CompressionMode.Decompress);
         var outp = new byte[expected];
+        int got = Inflate(raw, count, outp, expected);
+        return got == expected ? outp : outp[..got];
+    }
+
+    /// <summary>Inflates the first <paramref name="count"/> bytes of <paramref name="raw"/> into <paramref name="outp"/>,
+    /// at most <paramref name="expected"/> bytes; returns the bytes written.</summary>
+    private static int Inflate(byte[] raw, int count, byte[] outp, int expected)
+    {
+        using var z = new ZLibStream(new MemoryStream(raw, 0, count), CompressionMode.Decompress);
         int got = 0, n;
         while (got < expected && (n = z.Read(outp, got, expected - got)) > 0) got += n;
-        return got == expected ? outp : outp[..got];
+        return got;
     }
 
     /// <summary>PackBits (TIFF 6.0 section 9); a run cut short by the end of the data ends the output there.</summary>
