@@ -156,7 +156,11 @@ public static class CoarseGraining
         int r = Math.Max(1, (int)Math.Ceiling(3 * sigma));
         var k = new double[2 * r + 1];
         for (int i = -r; i <= r; i++) k[i + r] = Math.Exp(-0.5 * i * i / (sigma * sigma));
-        var tmp = new double[f.Length];
+        // The horizontal pass's scratch is rented (a frame's grid is large-object-heap sized) and cleared: the taps add into it.
+        var tmp = System.Buffers.ArrayPool<double>.Shared.Rent(f.Length);
+        Array.Clear(tmp, 0, f.Length);
+        try
+        {
         for (int y = 0; y < ny; y++)
         {
             var src = f.AsSpan(y * nx, nx);
@@ -175,5 +179,7 @@ public static class CoarseGraining
             int lo = Math.Max(-r, -y), hi = Math.Min(r, ny - 1 - y);
             for (int i = lo; i <= hi; i++) SpanMath.AddScaled(dst, tmp.AsSpan((y + i) * nx, nx), k[i + r]);
         }
+        }
+        finally { System.Buffers.ArrayPool<double>.Shared.Return(tmp); }
     }
 }
