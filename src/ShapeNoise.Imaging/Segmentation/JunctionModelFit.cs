@@ -80,11 +80,6 @@ public static class JunctionModelFit
     /// (<see cref="BandTable.Of"/>).</summary>
     private static readonly double[] BandWidthsPx = [1, 1.5, 2, 0];
 
-    /// <summary>Squared residual and gain of the model of width <paramref name="sigmaPx"/> for the given labels (after the
-    /// joint least-squares fit of the gain and the cells' levels).</summary>
-    public static (double Rss, double Gain) Residual(float[] flat, int[] labels, int w, int h, double sigmaPx, double bandPx = 1)
-        => new State(flat, labels, w, h, sigmaPx, bandPx).Initialise();
-
     /// <summary>For tests: the change of the squared residual predicted for moving pixel (x, y) to label b (gain and
     /// levels held), and the same change recomputed from scratch on the whole frame.</summary>
     internal static (double Predicted, double Recomputed) FlipCheck(float[] flat, int[] labels, int w, int h, double sigmaPx, int x, int y, int b)
