@@ -20,11 +20,15 @@ public class RenderFamilyTests(ITestOutputHelper log)
             ["dim-wide"] = (0.855, 0.95),
         };
         var failures = new List<string>();
-        foreach (var (m, plain, fit) in PlainAndVariant(_ => new ShapeNoise.Imaging.Segmentation.SegmentOptions { ModelFit = true }))
+        for (int k = 0; k < RenderFamily.Ci.Length; k++)
         {
-            if (fit.Seg < 0.88 || fit.F1 < 0.95) failures.Add($"{m.Name}: SEG {fit.Seg:F3}, F1 {fit.F1:F3} with the model fit");
-            if (fit.Seg < plain.Seg - 0.015) failures.Add($"{m.Name}: SEG {plain.Seg:F3} -> {fit.Seg:F3} with the model fit");
-            if (m.Name == "small" && fit.Seg < plain.Seg + 0.015) failures.Add($"small: SEG {plain.Seg:F3} -> {fit.Seg:F3}, expected a gain");
+            var m = RenderFamily.Ci[k];
+            int seed = RenderFamily.HeldBackSeeds[k];
+            var (sc, _, _, _, _) = RenderFamily.Run(m, seed);
+            log.WriteLine($"| {m} | {seed} | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} |");
+            if (!m.Asserted) continue;
+            var (segMin, f1Min) = shortfall.TryGetValue(m.Name, out var s) ? s : (0.88, 0.95);
+            if (sc.Seg < segMin || sc.F1 < f1Min) failures.Add($"{m.Name}: SEG {sc.Seg:F3} (>= {segMin}), F1 {sc.F1:F3} (>= {f1Min})");
         }
         Assert.True(failures.Count == 0, string.Join("; ", failures));
     }
@@ -73,14 +77,8 @@ public class RenderFamilyTests(ITestOutputHelper log)
         // least 0.015 SEG (measured +0.030 on its held-back seed 902); no member may lose more than 0.015 (large-thick, whose
         // 3 px band is wider than the widest model band, measured +0.002 on its seed 903 and -0.006 on seed 900).
         var failures = new List<string>();
-        for (int k = 0; k < RenderFamily.Ci.Length; k++)
+        foreach (var (m, plain, fit) in PlainAndVariant(_ => new ShapeNoise.Imaging.Segmentation.SegmentOptions { ModelFit = true }))
         {
-            var m = RenderFamily.Ci[k];
-            if (!m.Asserted) continue;
-            int seed = RenderFamily.HeldBackSeeds[k];
-            var plain = RenderFamily.Run(m, seed).Score;
-            var fit = RenderFamily.Run(m, seed, new ShapeNoise.Imaging.Segmentation.SegmentOptions { ModelFit = true }).Score;
-            log.WriteLine($"| {m} | {seed} | {plain.Seg:F3} / {plain.F1:F3} | {fit.Seg:F3} / {fit.F1:F3} |");
             if (fit.Seg < 0.88 || fit.F1 < 0.95) failures.Add($"{m.Name}: SEG {fit.Seg:F3}, F1 {fit.F1:F3} with the model fit");
             if (fit.Seg < plain.Seg - 0.015) failures.Add($"{m.Name}: SEG {plain.Seg:F3} -> {fit.Seg:F3} with the model fit");
             if (m.Name == "small" && fit.Seg < plain.Seg + 0.015) failures.Add($"small: SEG {plain.Seg:F3} -> {fit.Seg:F3}, expected a gain");
