@@ -52,7 +52,9 @@ public static class JunctionModelFit
             var state = new State(flat, labels, w, h, sigma, band);
             (_, gain) = state.Initialise();
             if (!(gain > 0)) break;
-            state.Penalty = beta * 2 * noiseSd * noiseSd;
+            state.NoiseVar = noiseSd * noiseSd;
+            state.Penalty = beta * 2 * state.NoiseVar;
+            state.MergeMargin = mergeMargin;
             int roundMoves = 0;
             for (int k = 0; k < maxSweeps; k++)
             {
@@ -63,13 +65,8 @@ public static class JunctionModelFit
             }
             moves += roundMoves;
             int merges = 0;
-            if (mergeMargin >= 0)
-            {
-                // The sweep state is current (labels, coverage and residual updated move by move; gain and levels held).
-                state.NoiseVar = noiseSd * noiseSd;
-                state.MergeMargin = mergeMargin;
-                merges = state.MergePass();
-            }
+            // The sweep state is current (labels, coverage and residual updated move by move; gain and levels held).
+            if (mergeMargin >= 0) merges = state.MergePass();
             merged += merges;
             if (roundMoves == 0 && merges == 0) break;
         }
@@ -156,8 +153,8 @@ public static class JunctionModelFit
         private int L(int i) => lab[i] == from ? to : lab[i];
         private bool Crack(int i, int j) => L(i) != L(j);
 
-        /// <summary>Area of pixel (x, y) within 1/2 px of a crack: per quadrant 1/4 when one of the two pixel edges bounding
-        /// it is a crack, else π/16 when a crack leaves the quadrant's outer corner along one of the other two edges there.</summary>
+        /// <summary>Area of pixel (x, y) within half the band width of a crack: the 12 pixel edges that can reach it looked up
+        /// in the band's <see cref="BandTable"/>.</summary>
         public double Coverage(int x, int y)
         {
             int i = y * w + x, bits = 0;
@@ -262,7 +259,6 @@ public static class JunctionModelFit
         {
             // Shared boundaries: for each pair of neighbouring cells, the pixels on either side of their crack.
             var pairs = new Dictionary<long, List<int>>();
-            int shared = 0;
             for (int y = 1; y < h - 1; y++)
                 for (int x = 1; x < w - 1; x++)
                 {
@@ -275,7 +271,7 @@ public static class JunctionModelFit
                         if (b <= 0 || b == a) return;
                         long key = a < b ? (long)a << 32 | (uint)b : (long)b << 32 | (uint)a;
                         if (!pairs.TryGetValue(key, out var list)) pairs[key] = list = [];
-                        list.Add(p); list.Add(q); shared++;
+                        list.Add(p); list.Add(q);
                     }
                 }
             var count = new int[interior.Length];
@@ -288,15 +284,17 @@ public static class JunctionModelFit
                 if (e < 0) candidates.Add((e, a, b));
             }
             candidates.Sort();
-            var used = new HashSet<int>();
+            // Each cell takes part in at most one merge, so the merges of a pass are a map b -> a applied in one pass over the frame.
+            var into = new int[interior.Length];
             int merges = 0;
             foreach (var (_, a, b) in candidates)
             {
-                if (used.Contains(a) || used.Contains(b)) continue;
-                used.Add(a); used.Add(b);
-                for (int i = 0; i < lab.Length; i++) if (lab[i] == b) lab[i] = a;
+                if (into[a] != 0 || into[b] != 0) continue;
+                into[a] = a; into[b] = a;
                 merges++;
             }
+            if (merges > 0)
+                for (int i = 0; i < lab.Length; i++) if (lab[i] > 0 && into[lab[i]] != 0) lab[i] = into[lab[i]];
             return merges;
         }
 
