@@ -1,5 +1,6 @@
 using System.Buffers;
 using System.Buffers.Binary;
+using System.Diagnostics.CodeAnalysis;
 using System.IO.Compression;
 using System.Runtime.InteropServices;
 using ShapeNoise.Reading;
@@ -336,21 +337,9 @@ public sealed class TiffPages : IDisposable
             try
             {
                 int count = (int)Math.Min(p.ByteCounts[bi], p.Compression == 1 ? expected : int.MaxValue);
-                if (raw is null || raw.Length < count) { Return(raw); raw = ArrayPool<byte>.Shared.Rent(count); }
+                Rented(ref raw, count);
                 if (Read(p.Offsets[bi], raw.AsSpan(0, count)) < count) throw new InputException(Path, $"truncated: page {index + 1} pixel data cut short");
-                int decoded;
-                byte[] data;
-                if (p.Compression is 8 or 32946)
-                {
-                    if (inflated is null || inflated.Length < expected) { Return(inflated); inflated = ArrayPool<byte>.Shared.Rent(expected); }
-                    decoded = Inflate(raw, count, inflated, expected);
-                    data = inflated;
-                }
-                else
-                {
-                    data = Decode(p.Compression, raw, count, expected);
-                    decoded = p.Compression == 1 ? Math.Min(count, data.Length) : data.Length;
-                }
+                int decoded = Decode(p.Compression, raw, count, expected, ref inflated, out var data);
                 if (decoded < expected) throw new InputException(Path, $"truncated or corrupt: page {index + 1} {block} {bi + 1} decodes to {decoded} bytes, expected {expected}");
                 if (p.Predictor == 2) UndoPredictor(data, g.BlockW, rows, bytesPer);
                 int x0 = bx * g.BlockW, n = Math.Min(g.BlockW, p.Width - x0);
@@ -369,9 +358,17 @@ public sealed class TiffPages : IDisposable
         }
         finally { Return(raw); Return(inflated); }
         return labels;
-
-        static void Return(byte[]? b) { if (b is not null) ArrayPool<byte>.Shared.Return(b); }
     }
+
+    /// <summary>Makes <paramref name="buffer"/> a pooled array of at least <paramref name="length"/> bytes (returning a smaller one).</summary>
+    private static void Rented([NotNull] ref byte[]? buffer, int length)
+    {
+        if (buffer is not null && buffer.Length >= length) return;
+        Return(buffer);
+        buffer = ArrayPool<byte>.Shared.Rent(length);
+    }
+
+    private static void Return(byte[]? buffer) { if (buffer is not null) ArrayPool<byte>.Shared.Return(buffer); }
 
     private void Convert(ReadOnlySpan<byte> src, Span<int> dst, TiffPage p, int index)
     {
@@ -445,20 +442,28 @@ public sealed class TiffPages : IDisposable
     }
 
     /// <summary>Decodes one block; the output never exceeds <paramref name="expected"/> bytes (a decompression bomb stops there).</summary>
-    private static byte[] Decode(int compression, byte[] raw, int count, int expected) => compression switch
+    /// <remarks>Returns the bytes decoded, found in <paramref name="data"/>: <paramref name="raw"/> itself when the block is
+    /// stored uncompressed, <paramref name="inflated"/> (a pooled buffer, grown as needed) for Deflate.</remarks>
+    private static int Decode(int compression, byte[] raw, int count, int expected, ref byte[]? inflated, out byte[] data)
     {
-        1 => count >= expected ? raw : raw[..count],
-        8 or 32946 => Inflate(raw, count, expected),
-        32773 => PackBits(raw.AsSpan(0, count), expected),
-        5 => Lzw(raw.AsSpan(0, count), expected),
-        _ => throw new InvalidDataException($"compression {compression}"),
-    };
-
-    private static byte[] Inflate(byte[] raw, int count, int expected)
-    {
-        var outp = new byte[expected];
-        int got = Inflate(raw, count, outp, expected);
-        return got == expected ? outp : outp[..got];
+        switch (compression)
+        {
+            case 1:
+                data = raw;
+                return count;
+            case 8 or 32946:
+                Rented(ref inflated, expected);
+                data = inflated;
+                return Inflate(raw, count, inflated, expected);
+            default:
+                data = compression switch
+                {
+                    32773 => PackBits(raw.AsSpan(0, count), expected),
+                    5 => Lzw(raw.AsSpan(0, count), expected),
+                    _ => throw new InvalidDataException($"compression {compression}"),
+                };
+                return data.Length;
+        }
     }
 
     /// <summary>Inflates the first <paramref name="count"/> bytes of <paramref name="raw"/> into <paramref name="outp"/>,
