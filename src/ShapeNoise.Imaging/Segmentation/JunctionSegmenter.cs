@@ -194,16 +194,23 @@ public static class JunctionSegmenter
         public Mat Sharp => sharp;
         public double NoiseSd => noiseSd;
 
-        public static Prepared Of(int[] raw, int width, int height, SegmentOptions o)
+        /// <summary>Flattens <paramref name="raw"/> and prepares the boundary image; with <paramref name="measureNoise"/> false
+        /// (only the images are needed, <see cref="RidgeSignal"/>) <see cref="NoiseSd"/> is NaN and the two full-frame sorts
+        /// behind it are skipped.</summary>
+        public static Prepared Of(int[] raw, int width, int height, SegmentOptions o, bool measureNoise = true)
         {
             var (f, wide, flat) = Flattened(raw, width, height, o);
             using (wide)
             {
-                // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count,
-                // 1/sqrt(12)), divided by the median background level (docs/segmentation.md#noise-level).
-                var wideArr = ToArray(wide);
-                Array.Sort(wideArr);
-                double noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
+                double noise = double.NaN;
+                if (measureNoise)
+                {
+                    // Noise of the flattened image: measured on the counts (at least the quantisation noise of one count,
+                    // 1/sqrt(12)), divided by the median background level (docs/segmentation.md#noise-level).
+                    var wideArr = ToArray(wide);
+                    Array.Sort(wideArr);
+                    noise = Math.Max(NoiseLevel.Estimate(f, width, height), 1 / Math.Sqrt(12)) / Math.Max(1e-9, wideArr[wideArr.Length / 2]);
+                }
                 return new Prepared(width, height, flat, BoundarySource(flat, o), noise);
             }
         }
@@ -252,7 +259,7 @@ public static class JunctionSegmenter
     /// the signal is blurred by the larger of it and <see cref="SegmentOptions.RidgeSigmaPx"/>.</param>
     public static float[] RidgeSignal(int[] raw, int width, int height, SegmentOptions o, double boundarySigmaPx = 0)
     {
-        using var frame = Prepared.Of(raw, width, height, o);
+        using var frame = Prepared.Of(raw, width, height, o, measureNoise: false);
         return Blurred(frame.Sharp, RidgeSigma(o with { BoundarySigmaPx = Math.Max(boundarySigmaPx, 1e-3) }));
     }
 
