@@ -194,26 +194,5 @@ public static class JunctionRenderer
     }
 
     private static void Blur(double[] f, int w, int h, double sigma)
-    {
-        int r = (int)Math.Ceiling(3 * sigma);
-        var k = new double[2 * r + 1];
-        double sum = 0;
-        for (int i = -r; i <= r; i++) { k[i + r] = Math.Exp(-0.5 * i * i / (sigma * sigma)); sum += k[i + r]; }
-        for (int i = 0; i < k.Length; i++) k[i] /= sum;
-        var tmp = new double[f.Length];
-        for (int y = 0; y < h; y++)
-            for (int x = 0; x < w; x++)
-            {
-                double s = 0;
-                for (int i = -r; i <= r; i++) { int xx = Math.Clamp(x + i, 0, w - 1); s += k[i + r] * f[y * w + xx]; }
-                tmp[y * w + x] = s;
-            }
-        for (int y = 0; y < h; y++)
-            for (int x = 0; x < w; x++)
-            {
-                double s = 0;
-                for (int i = -r; i <= r; i++) { int yy = Math.Clamp(y + i, 0, h - 1); s += k[i + r] * tmp[yy * w + x]; }
-                f[y * w + x] = s;
-            }
-    }
+        => SampledGaussian.Blur(f, w, h, SampledGaussian.Kernel(sigma)).CopyTo(f, 0);
 }

@@ -140,11 +140,8 @@ public static class JunctionModelFit
             this.flat = flat; lab = labels; this.w = w; this.h = h;
             table = BandTable.Of(bandPx);
             this.bandPx = bandPx;
-            r = (int)Math.Ceiling(3 * sigma);
-            g = new double[2 * r + 1];
-            double sum = 0;
-            for (int i = -r; i <= r; i++) { g[i + r] = Math.Exp(-0.5 * i * i / (sigma * sigma)); sum += g[i + r]; }
-            for (int i = 0; i < g.Length; i++) g[i] /= sum;
+            g = SampledGaussian.Kernel(sigma);
+            r = g.Length / 2;
             k2 = new double[g.Length * g.Length];
             for (int a = 0; a < g.Length; a++) for (int b = 0; b < g.Length; b++) k2[a * g.Length + b] = g[a] * g[b];
         }
@@ -170,36 +167,8 @@ public static class JunctionModelFit
             return table[bits];
         }
 
-        /// <summary>Separable blur by the sampled Gaussian, edges replicated; the vertical pass adds whole rows.</summary>
-        private double[] Blur(double[] f)
-        {
-            var tmp = new double[f.Length]; var o = new double[f.Length];
-            for (int y = 0; y < h; y++)
-            {
-                var src = f.AsSpan(y * w, w);
-                var dst = tmp.AsSpan(y * w, w);
-                for (int x = 0; x < w; x++)
-                {
-                    double s = 0;
-                    if (x >= r && x < w - r)
-                        for (int k = -r; k <= r; k++) s += g[k + r] * src[x + k];
-                    else
-                        for (int k = -r; k <= r; k++) s += g[k + r] * src[Math.Clamp(x + k, 0, w - 1)];
-                    dst[x] = s;
-                }
-            }
-            for (int y = 0; y < h; y++)
-            {
-                var dst = o.AsSpan(y * w, w);
-                for (int k = -r; k <= r; k++)
-                {
-                    var src = tmp.AsSpan(Math.Clamp(y + k, 0, h - 1) * w, w);
-                    double gk = g[k + r];
-                    for (int x = 0; x < w; x++) dst[x] += gk * src[x];
-                }
-            }
-            return o;
-        }
+        /// <summary>Blur by the model's sampled Gaussian, edges replicated (<see cref="SampledGaussian"/>, as the renderer's PSF).</summary>
+        private double[] Blur(double[] f) => SampledGaussian.Blur(f, w, h, g);
 
         public (double Rss, double Gain) Initialise()
         {
