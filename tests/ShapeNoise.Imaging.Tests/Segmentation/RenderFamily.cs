@@ -61,9 +61,21 @@ public static class RenderFamily
         o = o with { CellDiameterUm = m.DiameterPx, PixelSizeUm = 1 };
         var seg = new List<int[]>(); var sums = new List<SegmentationScore.Sums>();
         int[]? previous = null;
+        var raws = new List<int[]>();
+        for (int t = 0; t < truth.Count; t++) raws.Add(JunctionRenderer.Render(truth[t], movie.Width, movie.Height, t, truth.Count, ro, rng));
+        bool temporal = Environment.GetEnvironmentVariable("SHAPENOISE_SEG_TEMPORAL") == "1";
         for (int t = 0; t < truth.Count; t++)
         {
-            var raw = JunctionRenderer.Render(truth[t], movie.Width, movie.Height, t, truth.Count, ro, rng);
+            var raw = raws[t];
+            if (temporal)
+            {
+                raw = new int[raws[t].Length];
+                for (int i = 0; i < raw.Length; i++)
+                {
+                    int a = t > 0 ? raws[t - 1][i] : raws[t][i], c = t + 1 < raws.Count ? raws[t + 1][i] : raws[t][i];
+                    raw[i] = a + 2 * raws[t][i] + c;
+                }
+            }
             var s = JunctionSegmenter.Segment(raw, movie.Width, movie.Height, o, previous);
             previous = s;
             seg.Add(s);
