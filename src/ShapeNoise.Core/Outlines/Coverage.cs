@@ -22,56 +22,79 @@ public static class Coverage
 
     /// <summary>Closed foreground: covered[i] = labels[i] != 0, or pixel i lies in a run of at most
     /// <paramref name="maxGapPx"/> background pixels, along a row, column or diagonal, with labelled pixels at both ends.
-    /// O(pixels): each direction is one pass over the frame.</summary>
+    /// O(pixels + background pixels x maxGapPx): only background pixels are examined, each in the four directions.</summary>
     /// <param name="labels">Row-major label image (0 = background), <paramref name="width"/> x <paramref name="height"/>.</param>
     /// <param name="width">Frame width (px).</param>
     /// <param name="height">Frame height (px).</param>
     /// <param name="maxGapPx">Widest gap that is closed (px, at least 0; 0 = the labelled pixels only).</param>
     public static bool[] Closed(ReadOnlySpan<int> labels, int width, int height, int maxGapPx = MaxGapPx)
     {
-        if (width < 0 || height < 0 || labels.Length != width * height)
-            throw new ArgumentException($"label image has {labels.Length} pixels, not {width} x {height}", nameof(labels));
-        ArgumentOutOfRangeException.ThrowIfNegative(maxGapPx);
+        Check(labels, width, height, maxGapPx);
         var covered = new bool[labels.Length];
-        for (int i = 0; i < labels.Length; i++) covered[i] = labels[i] != 0;
-        if (maxGapPx == 0) return covered;
-        foreach (var (dx, dy) in Directions)
-        {
-            // Every line of this direction starts on the left column, or (for the columns and diagonals) on the top or
-            // bottom row.
-            if (dx == 1)
-                for (int y = 0; y < height; y++) FillLine(labels, covered, width, height, 0, y, dx, dy, maxGapPx);
-            int startY = dy >= 0 ? 0 : height - 1;
-            for (int x = dx == 1 ? 1 : 0; x < width && dy != 0; x++) FillLine(labels, covered, width, height, x, startY, dx, dy, maxGapPx);
-        }
+        for (int y = 0, i = 0; y < height; y++)
+            for (int x = 0; x < width; x++, i++)
+                covered[i] = labels[i] != 0 || InGap(labels, width, height, x, y, maxGapPx);
         return covered;
     }
 
-    /// <summary>Number of covered pixels of <see cref="Closed"/>.</summary>
+    /// <summary>Number of covered pixels of <see cref="Closed"/>, without building the mask: a confluent frame has few
+    /// background pixels, and only those are examined.</summary>
     /// <param name="labels">Row-major label image (0 = background).</param>
     /// <param name="width">Frame width (px).</param>
     /// <param name="height">Frame height (px).</param>
     /// <param name="maxGapPx">Widest gap that is closed (px).</param>
     public static int CoveredPixels(ReadOnlySpan<int> labels, int width, int height, int maxGapPx = MaxGapPx)
     {
-        var c = Closed(labels, width, height, maxGapPx);
+        Check(labels, width, height, maxGapPx);
         int n = 0;
-        foreach (bool b in c) if (b) n++;
-        return n;
+        for (int y = 0; y < height; y++)
+        {
+            var row = labels.Slice(y * width, width);
+            for (int x = row.IndexOf(0); x >= 0; x = NextBackground(row, x + 1))
+                if (!InGap(labels, width, height, x, y, maxGapPx)) n++;
+        }
+        return labels.Length - n;
     }
 
-    /// <summary>Walks one line from (x, y) in steps (dx, dy); every background run of 1..maxGap pixels between two
-    /// labelled pixels of the original image is marked covered.</summary>
-    private static void FillLine(ReadOnlySpan<int> labels, bool[] covered, int w, int h, int x, int y, int dx, int dy, int maxGap)
+    private static int NextBackground(ReadOnlySpan<int> row, int from)
     {
-        int lastLabelled = -1, step = 0, lastX = 0, lastY = 0;
-        for (; x >= 0 && x < w && y >= 0 && y < h; x += dx, y += dy, step++)
+        int k = row[from..].IndexOf(0);
+        return k < 0 ? -1 : from + k;
+    }
+
+    private static void Check(ReadOnlySpan<int> labels, int width, int height, int maxGapPx)
+    {
+        if (width < 0 || height < 0 || labels.Length != width * height)
+            throw new ArgumentException($"label image has {labels.Length} pixels, not {width} x {height}", nameof(labels));
+        ArgumentOutOfRangeException.ThrowIfNegative(maxGapPx);
+    }
+
+    /// <summary>Whether background pixel (x, y) lies, in one of the four directions, in a background run of at most
+    /// <paramref name="maxGap"/> pixels with a labelled pixel at each end: b background pixels behind it and f ahead, the
+    /// labelled ends inside the frame, b + f + 1 &lt;= maxGap.</summary>
+    private static bool InGap(ReadOnlySpan<int> labels, int w, int h, int x, int y, int maxGap)
+    {
+        if (labels[y * w + x] != 0 || maxGap == 0) return false;
+        foreach (var (dx, dy) in Directions)
         {
-            if (labels[y * w + x] == 0) continue;
-            int run = step - lastLabelled - 1;
-            if (lastLabelled >= 0 && run > 0 && run <= maxGap)
-                for (int k = 1; k <= run; k++) covered[(lastY + k * dy) * w + lastX + k * dx] = true;
-            lastLabelled = step; lastX = x; lastY = y;
+            int b = RunTo(labels, w, h, x, y, -dx, -dy, maxGap);
+            if (b < 0) continue;
+            int f = RunTo(labels, w, h, x, y, dx, dy, maxGap - b);
+            if (f >= 0 && b + f + 1 <= maxGap) return true;
         }
+        return false;
+    }
+
+    /// <summary>Background pixels between (x, y) and the first labelled pixel in direction (dx, dy), if that pixel is inside
+    /// the frame within <paramref name="reach"/> steps; -1 otherwise.</summary>
+    private static int RunTo(ReadOnlySpan<int> labels, int w, int h, int x, int y, int dx, int dy, int reach)
+    {
+        for (int k = 1; k <= reach; k++)
+        {
+            int xx = x + k * dx, yy = y + k * dy;
+            if (xx < 0 || xx >= w || yy < 0 || yy >= h) return -1;
+            if (labels[yy * w + xx] != 0) return k - 1;
+        }
+        return -1;
     }
 }

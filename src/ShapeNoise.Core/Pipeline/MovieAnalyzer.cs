@@ -60,7 +60,7 @@ public static class MovieAnalyzer
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is {frame.Width}x{frame.Height}, the first is {info.Width}x{info.Height}");
             var scan = times.Time("scan", () => LabelScan.Of(frame, spare));
             // Coverage with thin gaps between masks closed (docs/defects.md#where-defects-apply).
-            int coveredPx = times.Time("scan", () => Coverage.CoveredPixels(scan.DenseImage, scan.Width, scan.Height));
+            int coveredPx = times.Time("coverage", () => Coverage.CoveredPixels(scan.DenseImage, scan.Width, scan.Height));
             if (scan.Boxes.Length == 0)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
             var outlines = new Outline[scan.Boxes.Length];

@@ -67,6 +67,8 @@ public class CoverageTests
     [InlineData(1, 0.5)]
     [InlineData(2, 0.7)]
     [InlineData(3, 0.8)]
+    [InlineData(4, 0.95)]
+    [InlineData(5, 0.2)]
     public void Closed_RandomMask_MatchesClosingByDefinition(int seed, double density)
     {
         int w = 23, h = 17, n = Coverage.MaxGapPx + 1; var rng = new Random(seed);
@@ -97,6 +99,8 @@ public class CoverageTests
                 }
                 Assert.True(expected == c[y * w + x], $"pixel ({x}, {y}): expected {expected}");
             }
+        // The count (examined per background pixel, without the mask) is the mask's.
+        Assert.Equal(c.Count(b => b), Coverage.CoveredPixels(img, w, h));
     }
 
     [Fact]
