@@ -199,20 +199,21 @@ public static class DynamicsAnalysis
         int B = draws.Length;
         var r = new Resamples(B, new double[m, B], new double[m, B], new double[m, B], new double[m + 1][,], new double[B], new double[B], new double[B]);
         for (int s = 0; s <= m; s++) r.Curve[s] = new double[B, K + 1];
+        var units = UnitSplit.Of(plan);   // each resample pooled per unit (docs/statistics.md#within-movie-intervals)
         Parallel.For(0, B, b =>
         {
             var w = draws[b];
             for (int s = 0; s < m; s++)
             {
-                var f = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, w, inp.FitLags, inp.MaxTau);
+                var f = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, w, inp.FitLags, inp.MaxTau, units);
                 r.Tau[s, b] = f.TauFrames; r.Var[s, b] = f.SignalVariance; r.D[s, b] = f.SignalVariance / f.TauFrames;
-                var c = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[s], w, out _));
+                var c = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[s], w, out _, int.MaxValue, units));
                 for (int k = 0; k <= K; k++) r.Curve[s][b, k] = c[k];
                 if (s == 0) r.TauInt[b] = IntegratedTime.Sokal(c).TauInt;
             }
-            var ct = OrientationCorrelation.Pool(inp.ThetaSums, w, out var tp);
+            var ct = PooledAutocovariance.Pool(inp.ThetaSums, w, out var tp, int.MaxValue, units);
             for (int k = 0; k <= K; k++) r.Curve[m][b, k] = ct[k];
-            var tf = OrientationCorrelation.FitTracks(inp.ThetaSums, w, K, inp.MaxTau);
+            var tf = OrientationCorrelation.FitTracks(inp.ThetaSums, w, K, inp.MaxTau, units);
             r.Theta[b] = tf.TauFrames; r.Plateau[b] = tf.Plateau;
         });
         return r;

@@ -75,12 +75,14 @@ public static class TemporalNoise
         }
         int fitted = contour ? 4 : 2;
 
+        // Every resample and leave-one-out fit pools per unit (docs/statistics.md#within-movie-intervals).
+        var units = UnitSplit.Of(plan);
         var memo = new ConcurrentDictionary<int[], OuFit[]>(new WeightComparer());
         OuFit[] Fitted(int[] key)
         {
             var r = new OuFit[4];
             for (int s = 2; s < 4; s++) r[s] = new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
-            for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau);
+            for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau, units);
             return r;
         }
         OuFit[] FitAll(int[] w) => memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), Fitted);

@@ -130,39 +130,21 @@ internal static class OrnsteinUhlenbeckFit
     /// <remarks>About 70 lines on purpose: the least-squares objective (closed-form s2, e2 for each rho) is a local function
     /// over the track groups it closes on; it runs once per grid point per bootstrap resample, so the groups are built once
     /// here rather than passed around.</remarks>
-    public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames = 0)
+    public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames = 0,
+        Statistics.UnitSplit? units = null)
     {
         int K = fitLags + 1;
-        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2));   // only the fitted lags (and lag 1)
+        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2), units);   // only the fitted lags (and lag 1)
         if (c.Length < 2 || !(c[0] > 0) || pairs[1] == 0) return new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
         K = Math.Min(K, c.Length);
         double r1 = c[1] / c[0];
         double uncorrected = r1 > 0 && r1 < 1 ? -1 / Math.Log(r1) : double.NaN;
 
-        // Group tracks by shape: contiguous tracks of the same length share one expectation (groups in order of first
-        // appearance among the tracks with a weight, as the objective sums them).
-        var shapes = TrackShapes.Of(frames);
-        var groupWeight = new long[shapes.LongestContiguous + 1];
-        var order = new List<int>();
-        var gapped = new List<(int[] Frames, int W)>();
-        int maxLen = 1;
-        for (int i = 0; i < tracks.Count; i++)
-        {
-            int wi = weights.Length == 0 ? 1 : weights[i];
-            if (wi == 0) continue;
-            maxLen = Math.Max(maxLen, shapes.Span[i]);
-            int len = shapes.ContiguousLength[i];
-            if (len < 0) { gapped.Add((frames[i], wi)); continue; }
-            if (groupWeight[len] == 0) order.Add(len);
-            groupWeight[len] += wi;
-        }
-        var groups = new (int Length, long Weight)[order.Count];
-        for (int g = 0; g < groups.Length; g++) groups[g] = (order[g], groupWeight[order[g]]);
+        var (groups, gaps, maxLen) = units is not null && weights.Length > 0
+            ? UnitGroups.Of(frames, units).Groups(weights, K, maxTauFrames <= 0)
+            : GroupsByTrack(frames, weights, K);
         var eS = new double[K]; var eN = new double[K]; var tS = new double[K]; var tN = new double[K];
         var target = new double[K]; var weight = new double[K];
-        // Gapped tracks: their expectation is linear in the powers rho^h, so their weighted lag structure is summed once
-        // per call (not once per rho) and each objective costs O(K x span) for all of them together.
-        var gaps = GapLags.Sum(gapped, K);
         for (int k = 0; k < K; k++) { target[k] = c[k]; weight[k] = pairs[k]; }
 
         double lo = Math.Log(MinTauFrames), hi = Math.Log(maxTauFrames > 0 ? maxTauFrames : 20.0 * maxLen);
@@ -213,6 +195,36 @@ internal static class OrnsteinUhlenbeckFit
         double tau = Math.Exp(logTau), rho = Math.Exp(-1 / tau);
         Objective(rho, -1, out var sig2, out var eta2);
         return new OuFit(rho, tau, sig2, eta2, uncorrected);
+    }
+
+    /// <summary>The tracks with a multiplicity, grouped by shape: contiguous tracks of the same length share one expectation
+    /// (groups by increasing length, the order the objective sums them in, whichever tracks a resample holds); gapped tracks'
+    /// expectations are linear in the powers rho^h, so their weighted lag structure is summed once per fit (not once per
+    /// rho) and each objective costs O(K x span) for all of them together. maxLen: the longest weighted span.</summary>
+    private static ((int Length, long Weight)[] Groups, GapLags Gaps, int MaxLen) GroupsByTrack(IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int K)
+    {
+        var shapes = TrackShapes.Of(frames);
+        var groupWeight = new long[shapes.LongestContiguous + 1];
+        var gapped = new List<(int[] Frames, int W)>();
+        int maxLen = 1;
+        for (int i = 0; i < frames.Count; i++)
+        {
+            int wi = weights.Length == 0 ? 1 : weights[i];
+            if (wi == 0) continue;
+            maxLen = Math.Max(maxLen, shapes.Span[i]);
+            int len = shapes.ContiguousLength[i];
+            if (len < 0) gapped.Add((frames[i], wi));
+            else groupWeight[len] += wi;
+        }
+        return (Increasing(groupWeight), GapLags.Sum(gapped, K), maxLen);
+    }
+
+    /// <summary>The lengths with a positive weight, by increasing length.</summary>
+    internal static (int Length, long Weight)[] Increasing(long[] groupWeight)
+    {
+        var groups = new List<(int Length, long Weight)>();
+        for (int len = 0; len < groupWeight.Length; len++) if (groupWeight[len] > 0) groups.Add((len, groupWeight[len]));
+        return groups.ToArray();
     }
 }
 
@@ -265,6 +277,75 @@ internal sealed class TrackShapes
     }
 
     public static TrackShapes Of(IReadOnlyList<int[]> frames) => Cache.GetValue(frames, static f => new TrackShapes(f));
+}
+
+/// <summary>The track groups of <see cref="OrnsteinUhlenbeckFit.Fit"/> for resamples of units (<see cref="Statistics.UnitSplit"/>):
+/// the number of contiguous tracks of each length over all tracks and per unit, built once per frame list and split; a
+/// resample's counts are then the totals plus each changed unit's and each correction's, instead of a pass over every
+/// track. The gapped tracks (few: one-frame errors) are summed track by track, in track order, as the pass over the tracks
+/// does, so the groups, their order and the gapped sum are those of that pass.</summary>
+internal sealed class UnitGroups
+{
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<IReadOnlyList<int[]>, UnitGroups> Cache = new();
+    private readonly IReadOnlyList<int[]> _frames;
+    private readonly Statistics.UnitSplit _split;
+    private readonly TrackShapes _shapes;
+    private readonly long[] _total;                            // contiguous tracks per length, all tracks
+    private readonly (int Length, int Count)[][] _unitGroups;  // the same per unit
+    private readonly int[] _gapped;                            // the tracks with gaps, in order
+
+    private UnitGroups(IReadOnlyList<int[]> frames, Statistics.UnitSplit split)
+    {
+        _frames = frames; _split = split; _shapes = TrackShapes.Of(frames);
+        if (split.UnitOfItem.Length != frames.Count) throw new ArgumentException($"the split covers {split.UnitOfItem.Length} items, there are {frames.Count} tracks");
+        _total = new long[_shapes.LongestContiguous + 1];
+        var gapped = new List<int>();
+        for (int i = 0; i < frames.Count; i++)
+        {
+            int len = _shapes.ContiguousLength[i];
+            if (len < 0) gapped.Add(i); else _total[len]++;
+        }
+        _gapped = gapped.ToArray();
+        _unitGroups = new (int, int)[split.Units][];
+        var count = new SortedDictionary<int, int>();
+        for (int u = 0; u < split.Units; u++)
+        {
+            count.Clear();
+            foreach (int i in split.Members[u])
+                if (_shapes.ContiguousLength[i] is var len and >= 0) count[len] = count.GetValueOrDefault(len) + 1;
+            _unitGroups[u] = count.Select(kv => (kv.Key, kv.Value)).ToArray();
+        }
+    }
+
+    /// <summary>The groups of <paramref name="frames"/> for resamples of <paramref name="split"/>'s units (cached per frame list).</summary>
+    public static UnitGroups Of(IReadOnlyList<int[]> frames, Statistics.UnitSplit split)
+    {
+        if (Cache.TryGetValue(frames, out var hit) && ReferenceEquals(hit._split, split)) return hit;
+        var g = new UnitGroups(frames, split);
+        Cache.AddOrUpdate(frames, g);
+        return g;
+    }
+
+    /// <summary>The groups by increasing length (those with a positive weight), the gapped tracks' summed structure over
+    /// <paramref name="lags"/> lags and, when <paramref name="needMaxLen"/>, the longest weighted span (else 1).</summary>
+    public ((int Length, long Weight)[] Groups, GapLags Gaps, int MaxLen) Groups(ReadOnlySpan<int> weights, int lags, bool needMaxLen)
+    {
+        int u = _split.Units;
+        Span<int> change = u <= 1024 ? stackalloc int[u] : new int[u];
+        var corrections = new List<(int Item, int Change)>();
+        _split.Split(weights, change, corrections);
+        var gw = (long[])_total.Clone();
+        for (int j = 0; j < u; j++)
+            if (change[j] != 0) foreach (var (len, n) in _unitGroups[j]) gw[len] += (long)change[j] * n;
+        foreach (var (i, d) in corrections)
+            if (_shapes.ContiguousLength[i] is var len and >= 0) gw[len] += d;
+        var gapped = new List<(int[] Frames, int W)>();
+        foreach (int i in _gapped) if (weights[i] != 0) gapped.Add((_frames[i], weights[i]));
+        int maxLen = 1;
+        if (needMaxLen)
+            for (int i = 0; i < weights.Length; i++) if (weights[i] > 0) maxLen = Math.Max(maxLen, _shapes.Span[i]);
+        return (OrnsteinUhlenbeckFit.Increasing(gw), GapLags.Sum(gapped, lags), maxLen);
+    }
 }
 
 /// <summary>

@@ -39,41 +39,35 @@ internal static class PooledAutocovariance
 
     /// <summary>Pooled autocovariance c(k) = sum_i w_i Sum_i[k] / sum_i w_i Pairs_i[k] with track weights (bootstrap multiplicities).</summary>
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs)
-        => Pool(tracks, weights, out pairs, int.MaxValue);
+        => Pool(tracks, weights, out pairs, int.MaxValue, null);
 
     /// <summary>The same for lags 0..<paramref name="lags"/> - 1 only (each lag is pooled on its own, so these values are
     /// those of the full pooling; a fit over its first lags need not pool the rest).</summary>
-    /// <remarks>Every bootstrap and leave-one-out fit pools the same tracks with other weights (20 000 times a run on the
-    /// benchmark movie), so the tracks' sums are laid out once in one contiguous table (<see cref="PooledTable"/>) and
-    /// each track adds a vector-wide w x row: per element the same multiply and add, in the same track order, as the
-    /// scalar loop, so the sums are bit-identical (bench/README.md).</remarks>
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags)
+        => Pool(tracks, weights, out pairs, lags, null);
+
+    /// <summary>The same, for the multiplicities of a resample of <paramref name="units"/> (null: any multiplicities): the
+    /// sums are then formed from the sum over all tracks and per-unit sums (<see cref="Statistics.UnitSplit"/>).</summary>
+    /// <remarks>Every bootstrap, jackknife and leave-one-out fit pools the same tracks with other weights (20 000 times a
+    /// run on the benchmark movie). The sums are exact: each track's lag sums are held as integers in units of 2^-s
+    /// (<see cref="PooledTable"/>) and added in 128-bit integers, then rounded once to a double. So the pooled values do
+    /// not depend on the order of the tracks or on how the sum is formed (track by track, or per unit), and the fits on
+    /// them (whose minimum is located only to about the square root of the double precision, 1.5e-8) are the same
+    /// whichever way the resample was pooled (docs/statistics.md#within-movie-intervals).</remarks>
+    public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags, Statistics.UnitSplit? units)
     {
-        int K = tracks.Count > 0 ? Math.Min(lags, tracks[0].Sum.Length) : 0;
-        var c = new double[K];
-        var counts = new double[K];   // pair counts as doubles: integers far below 2^53, so exact
         var table = PooledTable.Of(tracks);
-        for (int i = 0; i < tracks.Count; i++)
-        {
-            int w = weights.Length == 0 ? 1 : weights[i];
-            if (w == 0) continue;
-            if (table is not null)
-            {
-                SpanMath.AddScaled(c, table.Sums(i, K), w);
-                SpanMath.AddScaled(counts, table.Pairs(i, K), w);
-            }
-            else
-            {
-                var track = tracks[i];
-                for (int k = 0; k < K; k++) { c[k] += w * track.Sum[k]; counts[k] += (double)w * track.Pairs[k]; }
-            }
-        }
-        pairs = new long[K];
+        if (table is null) { pairs = []; return []; }
+        int K = Math.Min(lags, table.Lags);
+        var sums = new Int128[K];
+        var counts = new long[K];
+        var bad = new long[K];
+        if (units is not null && weights.Length > 0) table.AddByUnits(units, weights, sums, counts, bad);
+        else table.AddByTracks(weights, sums, counts, bad);
+        var c = new double[K];
+        pairs = counts;
         for (int k = 0; k < K; k++)
-        {
-            pairs[k] = (long)counts[k];
-            c[k] = pairs[k] > 0 ? c[k] / pairs[k] : double.NaN;
-        }
+            c[k] = bad[k] > 0 ? double.NaN : counts[k] > 0 ? table.ToDouble(sums[k]) / counts[k] : double.NaN;
         return c;
     }
 
@@ -86,44 +80,116 @@ internal static class PooledAutocovariance
     }
 }
 
-/// <summary>The lag sums and pair counts of a list of tracks in two contiguous row-major tables (row i = track i), built once
-/// per list and cached while the list lives; null when the tracks' lag counts differ (callers then read the tracks).</summary>
+/// <summary>The lag sums and pair counts of a list of tracks as contiguous row-major integer tables (row i = track i),
+/// built once per list and cached while the list lives: sums as Int128 multiples of 2^-<see cref="Shift"/>, exact for every
+/// double at or above 2^-Shift (about 2^-85 times the largest sum; smaller ones are rounded to that step), so weighted sums
+/// over tracks are exact and independent of their order. Non-finite sums are kept out of the integers and flagged: a lag
+/// whose weighted tracks include one is NaN, as a floating-point sum would be.</summary>
 internal sealed class PooledTable
 {
     private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<IReadOnlyList<LagSums>, PooledTable> Cache = new();
     private readonly LagSums[] _tracks;
-    private readonly double[] _sums, _pairs;
+    private readonly Int128[] _sums;
+    private readonly long[] _pairs, _bad;
     private readonly int _stride;
+    private readonly bool _anyBad;
+    private (Statistics.UnitSplit Split, Int128[] Sums, long[] Pairs, long[] Bad, Int128[] UnitSums, long[] UnitPairs, long[] UnitBad)? _units;
+
+    /// <summary>Lags per track (the longest track's; shorter rows are padded with zero sums and pairs).</summary>
+    public int Lags => _stride;
+    /// <summary>The sums are integers in units of 2^-Shift.</summary>
+    public int Shift { get; }
 
     private PooledTable(LagSums[] tracks, int stride)
     {
         _tracks = tracks; _stride = stride;
-        _sums = new double[tracks.Length * stride]; _pairs = new double[tracks.Length * stride];
+        double max = 0;
+        foreach (var t in tracks) foreach (var v in t.Sum) if (double.IsFinite(v)) max = Math.Max(max, Math.Abs(v));
+        // |sum| <= (sum of |weights|) 2^(e + 1 + Shift) = (sum of |weights|) 2^86 < 2^127 for up to 2^40 weighted tracks.
+        Shift = max > 0 ? 85 - Math.ILogB(max) : 0;
+        _sums = new Int128[tracks.Length * stride]; _pairs = new long[tracks.Length * stride]; _bad = new long[tracks.Length * stride];
         for (int i = 0; i < tracks.Length; i++)
         {
-            tracks[i].Sum.CopyTo(_sums, i * stride);
-            for (int k = 0; k < stride; k++) _pairs[i * stride + k] = tracks[i].Pairs[k];
+            var t = tracks[i];
+            for (int k = 0; k < t.Sum.Length; k++)
+            {
+                double v = t.Sum[k];
+                if (double.IsFinite(v)) _sums[i * stride + k] = (Int128)Math.Round(Math.ScaleB(v, Shift));
+                else { _bad[i * stride + k] = 1; _anyBad = true; }
+                _pairs[i * stride + k] = t.Pairs[k];
+            }
         }
     }
 
-    /// <summary>Track i's lag sums, lags 0..K-1.</summary>
-    public ReadOnlySpan<double> Sums(int i, int K) => _sums.AsSpan(i * _stride, K);
+    /// <summary>An exact sum back to the nearest double.</summary>
+    public double ToDouble(Int128 sum) => Math.ScaleB((double)sum, -Shift);
 
-    /// <summary>Track i's pair counts, lags 0..K-1.</summary>
-    public ReadOnlySpan<double> Pairs(int i, int K) => _pairs.AsSpan(i * _stride, K);
+    /// <summary>Adds sum_i w_i row_i (lags 0..sums.Length - 1) track by track; empty weights = all 1.</summary>
+    public void AddByTracks(ReadOnlySpan<int> weights, Span<Int128> sums, Span<long> pairs, Span<long> bad)
+    {
+        for (int i = 0; i < _tracks.Length; i++)
+        {
+            int w = weights.Length == 0 ? 1 : weights[i];
+            if (w != 0) AddRow(_sums.AsSpan(i * _stride), _pairs.AsSpan(i * _stride), _bad.AsSpan(i * _stride), w, sums, pairs, bad);
+        }
+    }
 
-    /// <summary>The table of <paramref name="tracks"/>: cached, and rebuilt when the list no longer holds the same tracks.</summary>
+    /// <summary>Adds the same sums for the multiplicities of a resample of <paramref name="split"/>'s units: the sum over all
+    /// tracks, plus each changed unit's sum times its change, plus each correction (<see cref="Statistics.UnitSplit"/>).
+    /// Exact, so equal to <see cref="AddByTracks"/>.</summary>
+    public void AddByUnits(Statistics.UnitSplit split, ReadOnlySpan<int> weights, Span<Int128> sums, Span<long> pairs, Span<long> bad)
+    {
+        var t = UnitTotals(split);
+        int u = split.Units;
+        Span<int> change = u <= 1024 ? stackalloc int[u] : new int[u];
+        var corrections = new List<(int Item, int Change)>();
+        split.Split(weights, change, corrections);
+        AddRow(t.Sums, t.Pairs, t.Bad, 1, sums, pairs, bad);
+        for (int j = 0; j < u; j++)
+            if (change[j] != 0) AddRow(t.UnitSums.AsSpan(j * _stride), t.UnitPairs.AsSpan(j * _stride), t.UnitBad.AsSpan(j * _stride), change[j], sums, pairs, bad);
+        foreach (var (i, d) in corrections) AddRow(_sums.AsSpan(i * _stride), _pairs.AsSpan(i * _stride), _bad.AsSpan(i * _stride), d, sums, pairs, bad);
+    }
+
+    private void AddRow(ReadOnlySpan<Int128> rowSums, ReadOnlySpan<long> rowPairs, ReadOnlySpan<long> rowBad, int w, Span<Int128> sums, Span<long> pairs, Span<long> bad)
+    {
+        int K = sums.Length;
+        if (w == 1)
+            for (int k = 0; k < K; k++) { sums[k] += rowSums[k]; pairs[k] += rowPairs[k]; }
+        else
+            for (int k = 0; k < K; k++) { sums[k] += w * rowSums[k]; pairs[k] += w * rowPairs[k]; }
+        if (_anyBad) for (int k = 0; k < K; k++) bad[k] += w * rowBad[k];
+    }
+
+    private (Statistics.UnitSplit Split, Int128[] Sums, long[] Pairs, long[] Bad, Int128[] UnitSums, long[] UnitPairs, long[] UnitBad) UnitTotals(Statistics.UnitSplit split)
+    {
+        lock (_sums)
+        {
+            if (_units is { } hit && ReferenceEquals(hit.Split, split)) return hit;
+            if (split.UnitOfItem.Length != _tracks.Length) throw new ArgumentException($"the split covers {split.UnitOfItem.Length} items, the table {_tracks.Length} tracks");
+            var sums = new Int128[_stride]; var pairs = new long[_stride]; var bad = new long[_stride];
+            var us = new Int128[split.Units * _stride]; var up = new long[split.Units * _stride]; var ub = new long[split.Units * _stride];
+            for (int i = 0; i < _tracks.Length; i++)
+            {
+                int u = split.UnitOfItem[i];
+                ReadOnlySpan<Int128> rs = _sums.AsSpan(i * _stride, _stride);
+                ReadOnlySpan<long> rp = _pairs.AsSpan(i * _stride, _stride), rb = _bad.AsSpan(i * _stride, _stride);
+                AddRow(rs, rp, rb, 1, sums, pairs, bad);
+                AddRow(rs, rp, rb, 1, us.AsSpan(u * _stride, _stride), up.AsSpan(u * _stride, _stride), ub.AsSpan(u * _stride, _stride));
+            }
+            _units = (split, sums, pairs, bad, us, up, ub);
+            return _units.Value;
+        }
+    }
+
+    /// <summary>The table of <paramref name="tracks"/> (null when there are none): cached, and rebuilt when the list no longer
+    /// holds the same tracks.</summary>
     public static PooledTable? Of(IReadOnlyList<LagSums> tracks)
     {
         if (tracks.Count == 0) return null;
         if (Cache.TryGetValue(tracks, out var hit) && hit.Holds(tracks)) return hit;
-        int stride = tracks[0].Sum.Length;
+        int stride = 0;
         var copy = new LagSums[tracks.Count];
-        for (int i = 0; i < copy.Length; i++)
-        {
-            copy[i] = tracks[i];
-            if (copy[i].Sum.Length != stride || copy[i].Pairs.Length != stride) return null;
-        }
+        for (int i = 0; i < copy.Length; i++) { copy[i] = tracks[i]; stride = Math.Max(stride, copy[i].Sum.Length); }
         var table = new PooledTable(copy, stride);
         Cache.AddOrUpdate(tracks, table);
         return table;

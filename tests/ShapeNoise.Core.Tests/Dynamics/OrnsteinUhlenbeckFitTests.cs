@@ -198,24 +198,50 @@ public class CorrelationTimeTests
     }
 
     [Fact]
-    public void Pool_WeightedTracks_EqualsTheDefiningSumsBitForBit()
+    public void Pool_WeightedTracks_EqualsTheExactSumsRoundedOnce()
     {
-        // c(k) = sum_i w_i Sum_i[k] / sum_i w_i Pairs_i[k] (the pooled estimator's definition, docs/measures.md), summed
-        // here track by track in a plain loop: the vector-wide pooling must give the same doubles, not merely close ones,
-        // since the bootstrap fits' golden-section paths depend on them (bench/README.md).
+        // c(k) = sum_i w_i Sum_i[k] / sum_i w_i Pairs_i[k] (the pooled estimator's definition, docs/measures.md) with the sum
+        // taken exactly and rounded once to the nearest double (IEEE 754 round-half-even), as the pooling promises so that
+        // resamples pooled per unit or track by track give the same doubles (bench/README.md). Reference: the exact sum in
+        // arbitrary-precision integers (System.Numerics.BigInteger), rounded here by the IEEE rule.
         var rnd = new Random(5);
         var tracks = Enumerable.Range(0, 300).Select(_ => new LagSums(
-            Enumerable.Range(0, 13).Select(_ => rnd.NextDouble() - 0.3).ToArray(), Enumerable.Range(0, 13).Select(_ => rnd.Next(1, 60)).ToArray())).ToList();
+            Enumerable.Range(0, 13).Select(_ => (rnd.NextDouble() - 0.3) * Math.Pow(10, rnd.Next(-3, 4))).ToArray(), Enumerable.Range(0, 13).Select(_ => rnd.Next(1, 60)).ToArray())).ToList();
         var w = Enumerable.Range(0, 300).Select(_ => rnd.Next(0, 4)).ToArray();
         var c = PooledAutocovariance.Pool(tracks, w, out var pairs, 11);
         Assert.Equal(11, c.Length);
         for (int k = 0; k < 11; k++)
         {
-            double sum = 0; long n = 0;
-            for (int i = 0; i < tracks.Count; i++) { sum += w[i] * tracks[i].Sum[k]; n += (long)w[i] * tracks[i].Pairs[k]; }
+            long n = 0;
+            for (int i = 0; i < tracks.Count; i++) n += (long)w[i] * tracks[i].Pairs[k];
             Assert.Equal(n, pairs[k]);
-            Assert.Equal(sum / n, c[k]);
+            Assert.Equal(ExactSum(tracks.Select((t, i) => (w[i], t.Sum[k]))) / n, c[k]);
         }
+    }
+
+    /// <summary>sum w x exactly (every double is m 2^e: integers scaled by 2^1100), rounded to the nearest double, ties to even.</summary>
+    private static double ExactSum(IEnumerable<(int W, double X)> terms)
+    {
+        var total = System.Numerics.BigInteger.Zero;
+        foreach (var (w, x) in terms)
+        {
+            long bits = BitConverter.DoubleToInt64Bits(x);
+            int e = (int)((bits >> 52) & 0x7FF);
+            long m = bits & 0xFFFFFFFFFFFFFL;
+            if (e > 0) m |= 1L << 52; else e = 1;
+            var v = new System.Numerics.BigInteger(m) << (e - 1075 + 1100);
+            total += (x < 0 ? -v : v) * w;
+        }
+        int sign = total.Sign;
+        var a = System.Numerics.BigInteger.Abs(total);
+        int shift = (int)Math.Max(0, a.GetBitLength() - 53);
+        var q = a >> shift;
+        if (shift > 0)
+        {
+            var rem = a - (q << shift); var half = System.Numerics.BigInteger.One << (shift - 1);
+            if (rem > half || rem == half && !q.IsEven) q += 1;
+        }
+        return sign * Math.ScaleB((double)q, shift - 1100);
     }
 
     [Fact]
