@@ -162,9 +162,10 @@ internal static class OrnsteinUhlenbeckFit
             for (int gi = 0; gi < groups.Length; gi++)
             {
                 var (len, gw) = groups[gi];
-                if (grid >= 0) { tables[gi].Signal[grid].CopyTo(tS, 0); tables[gi].Noise[grid].CopyTo(tN, 0); }
-                else ExpectedSumsContiguous(len, rho, pow, tS, tN);
-                for (int k = 0; k < K; k++) { eS[k] += gw * tS[k]; eN[k] += gw * tN[k]; }
+                // eS += gw x (the group's expectation): a multiply then an add per element, vector-wide (the scalar loop's rounding).
+                if (grid >= 0) { SpanMath.AddScaled(eS, tables[gi].Signal[grid].AsSpan(0, K), gw); SpanMath.AddScaled(eN, tables[gi].Noise[grid].AsSpan(0, K), gw); continue; }
+                ExpectedSumsContiguous(len, rho, pow, tS, tN);
+                SpanMath.AddScaled(eS, tS, gw); SpanMath.AddScaled(eN, tN, gw);
             }
             gaps.AddTo(rho, eS, eN);
             // Model of the pooled estimate: E[c(k)] = (sigma^2 eS[k] + eta^2 eN[k]) / pairs[k].

@@ -93,7 +93,10 @@ internal sealed class PooledTable
     private readonly long[] _pairs, _bad;
     private readonly int _stride;
     private readonly bool _anyBad;
-    private (Statistics.UnitSplit Split, Int128[] Sums, long[] Pairs, long[] Bad, Int128[] UnitSums, long[] UnitPairs, long[] UnitBad)? _units;
+    private UnitRows? _units;
+
+    /// <summary>The sums over all tracks and per unit of one split.</summary>
+    private sealed record UnitRows(Statistics.UnitSplit Split, Int128[] Sums, long[] Pairs, long[] Bad, Int128[] UnitSums, long[] UnitPairs, long[] UnitBad);
 
     /// <summary>Lags per track (the longest track's; shorter rows are padded with zero sums and pairs).</summary>
     public int Lags => _stride;
@@ -160,8 +163,10 @@ internal sealed class PooledTable
         if (_anyBad) for (int k = 0; k < K; k++) bad[k] += w * rowBad[k];
     }
 
-    private (Statistics.UnitSplit Split, Int128[] Sums, long[] Pairs, long[] Bad, Int128[] UnitSums, long[] UnitPairs, long[] UnitBad) UnitTotals(Statistics.UnitSplit split)
+    private UnitRows UnitTotals(Statistics.UnitSplit split)
     {
+        // Read without the lock (a reference read is atomic); the lock only guards building (every parallel fit asks).
+        if (Volatile.Read(ref _units) is { } seen && ReferenceEquals(seen.Split, split)) return seen;
         lock (_sums)
         {
             if (_units is { } hit && ReferenceEquals(hit.Split, split)) return hit;
@@ -176,8 +181,9 @@ internal sealed class PooledTable
                 AddRow(rs, rp, rb, 1, sums, pairs, bad);
                 AddRow(rs, rp, rb, 1, us.AsSpan(u * _stride, _stride), up.AsSpan(u * _stride, _stride), ub.AsSpan(u * _stride, _stride));
             }
-            _units = (split, sums, pairs, bad, us, up, ub);
-            return _units.Value;
+            var rows = new UnitRows(split, sums, pairs, bad, us, up, ub);
+            Volatile.Write(ref _units, rows);
+            return rows;
         }
     }
 
