@@ -32,7 +32,7 @@ internal sealed class LabelScan
         else dense = new int[labels.Length];
         var slot = new Dictionary<int, int>();
         // Per label: min x, max x, min y, max y, pixel count, id; plain arrays grown by doubling (the loop below touches
-        // them once per pixel, so no list indexers there).
+        // them once per run of a label along a row, so no list indexers there).
         var minX = new int[256]; var maxX = new int[256]; var minY = new int[256]; var maxY = new int[256];
         var count = new int[256]; var ids = new int[256];
         int n = 0, lastLabel = 0, lastSlot = -1;
@@ -41,10 +41,13 @@ internal sealed class LabelScan
             int row = y * w;
             var line = labels.AsSpan(row, w);
             var denseLine = dense.AsSpan(row, w);
-            for (int x = 0; x < line.Length; x++)
+            // Run by run: a label's pixels along a row are contiguous runs (vector-wide search for the run's end and fill).
+            for (int x = 0; x < line.Length;)
             {
                 int l = line[x];
-                if (l == 0) continue;
+                int end = line[x..].IndexOfAnyExcept(l);
+                end = end < 0 ? line.Length : x + end;
+                if (l == 0) { x = end; continue; }
                 int s;
                 if (l == lastLabel) s = lastSlot;
                 else
@@ -58,14 +61,16 @@ internal sealed class LabelScan
                             Array.Resize(ref maxY, size); Array.Resize(ref count, size); Array.Resize(ref ids, size);
                         }
                         s = n++; slot[l] = s; ids[s] = l;
-                        minX[s] = x; maxX[s] = x; minY[s] = y; maxY[s] = y;
+                        minX[s] = x; maxX[s] = end - 1; minY[s] = y; maxY[s] = y;
                     }
                     lastLabel = l; lastSlot = s;
                 }
-                denseLine[x] = s + 1;
-                count[s]++;
-                if (x < minX[s]) minX[s] = x; else if (x > maxX[s]) maxX[s] = x;
+                denseLine[x..end].Fill(s + 1);
+                count[s] += end - x;
+                if (x < minX[s]) minX[s] = x;
+                if (end - 1 > maxX[s]) maxX[s] = end - 1;
                 maxY[s] = y;
+                x = end;
             }
         }
         var boxes = new LabelBox[n];
