@@ -61,6 +61,7 @@ public static class MovieAnalyzer
             var scan = times.Time("scan", () => LabelScan.Of(frame, spare));
             // Coverage with thin gaps between masks closed (docs/defects.md#where-defects-apply).
             int coveredPx = times.Time("coverage", () => Coverage.CoveredPixels(scan.DenseImage, scan.Width, scan.Height));
+            movie.Recycle(frame.Labels);   // read for the last time by the scan (everything after reads the dense image)
             if (scan.Boxes.Length == 0)
                 throw new InputException(info.Path, $"frame {frame.Index + 1} is empty (all background, no labelled cells)");
             var outlines = new Outline[scan.Boxes.Length];

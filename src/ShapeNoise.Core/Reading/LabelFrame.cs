@@ -45,6 +45,9 @@ public interface ILabelMovie : IDisposable
     IEnumerable<LabelFrame> Frames(Func<int, bool> wanted) => Frames().Where(f => wanted(f.Index));
     /// <summary>The files this movie reads, for provenance.</summary>
     IReadOnlyList<string> Files { get; }
+    /// <summary>The caller will not read <paramref name="labels"/> (a frame's <see cref="LabelFrame.Labels"/>) again: the movie
+    /// may decode a later frame into it. Default: nothing (the array is left to the garbage collector).</summary>
+    void Recycle(int[] labels) { }
 }
 
 /// <summary>Bad input: names the file and says what is wrong with it, in one line.</summary>

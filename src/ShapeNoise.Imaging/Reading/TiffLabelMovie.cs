@@ -53,7 +53,17 @@ internal sealed class TiffLabelMovie : ILabelMovie
     public IEnumerable<LabelFrame> Frames(Func<int, bool> wanted)
     {
         for (int i = 0; i < _pages.Length; i++)
-            if (wanted(i)) yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i]));
+            if (wanted(i)) yield return new LabelFrame(i, Info.Width, Info.Height, _tiff.ReadLabels(_pages[i], _spare.TryTake(out var r) ? r : null));
+    }
+
+    /// <summary>Frame arrays handed back by <see cref="Recycle"/>, decoded into again (at most <see cref="MaxSpare"/>).</summary>
+    private readonly System.Collections.Concurrent.ConcurrentBag<int[]> _spare = [];
+    private const int MaxSpare = 3;
+
+    /// <inheritdoc/>
+    public void Recycle(int[] labels)
+    {
+        if (labels.LongLength == (long)Info.Width * Info.Height && _spare.Count < MaxSpare) _spare.Add(labels);
     }
 
     /// <inheritdoc/>

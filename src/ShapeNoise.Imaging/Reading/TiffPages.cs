@@ -313,7 +313,12 @@ public sealed class TiffPages : IDisposable
     /// <summary>Decodes page <paramref name="index"/> into integer labels (row-major). Unsigned 32- and 64-bit values up to
     /// 2^32 - 1 are stored bit for bit (<c>unchecked((int)v)</c>: ids above <see cref="int.MaxValue"/> come out negative
     /// and print unsigned in the tables); a larger value or a negative signed value is an <see cref="InputException"/>.</summary>
-    public int[] ReadLabels(int index)
+    public int[] ReadLabels(int index) => ReadLabels(index, null);
+
+    /// <summary>The same, decoded into <paramref name="reuse"/> when it has the page's size (cleared first): a frame array the
+    /// caller no longer reads (<see cref="ShapeNoise.Reading.ILabelMovie.Recycle"/>), so a movie is not a fresh
+    /// large-object-heap array per page.</summary>
+    public int[] ReadLabels(int index, int[]? reuse)
     {
         var p = Pages[index];
         RequireIntegerLabels(p);
@@ -321,7 +326,8 @@ public sealed class TiffPages : IDisposable
         var g = Geometry(p);
         string block = g.Tiled ? "tile" : "strip";
         int[] labels;
-        try { labels = new int[(long)p.Width * p.Height]; }
+        if (reuse is not null && reuse.LongLength == (long)p.Width * p.Height) { Array.Clear(reuse); labels = reuse; }
+        else try { labels = new int[(long)p.Width * p.Height]; }
         catch (OutOfMemoryException) { throw new InputException(Path, $"page {index + 1}: not enough memory for a {p.Width} x {p.Height} px page ({4L * p.Width * p.Height} bytes of labels)"); }
         int rowBytes = g.BlockW * bytesPer;
         // Compressed and inflated blocks in buffers rented for this page and returned at its end (pages of a movie are

@@ -43,13 +43,21 @@ public class TiffContainerTests
         return t;
     }
 
-    /// <summary>Decodes every page the way the movie readers do (layout checks, then the pixels).</summary>
-    internal static List<int[]> DecodeAll(string path, out int width, out int height)
+    /// <summary>Decodes every page the way the movie readers do (layout checks, then the pixels); with
+    /// <paramref name="reuse"/>, each page into the previous page's array (copied out first), as a movie decodes into the
+    /// frames the analysis hands back.</summary>
+    internal static List<int[]> DecodeAll(string path, out int width, out int height, bool reuse = false)
     {
         using var t = new TiffPages(path);
         var pages = new List<int[]>();
         foreach (var p in t.Pages) t.RequireIntegerLabels(p);
-        for (int i = 0; i < t.Pages.Count; i++) pages.Add(t.ReadLabels(i));
+        int[]? spare = null;
+        for (int i = 0; i < t.Pages.Count; i++)
+        {
+            var page = t.ReadLabels(i, reuse ? spare : null);
+            pages.Add(reuse ? (int[])page.Clone() : page);
+            spare = page;
+        }
         width = t.Pages[0].Width; height = t.Pages[0].Height;
         return pages;
     }
@@ -67,9 +75,15 @@ public class TiffContainerTests
     [MemberData(nameof(ValidFiles))]
     public void Read_CorpusFile_DecodesToTheWrittenPixels(string name)
     {
+        Check(name, reuse: false);
+        Check(name, reuse: true);   // decoded into the previous page's array: the same pixels
+    }
+
+    private static void Check(string name, bool reuse)
+    {
         // Expected values: computed by make_corpus.py from the numpy array tifffile wrote (tifffile read it back equal).
         var e = Expected[name]!;
-        var pages = DecodeAll(Path.Combine(CorpusDir, name), out int w, out int h);
+        var pages = DecodeAll(Path.Combine(CorpusDir, name), out int w, out int h, reuse);
         var shape = e["shape"]!.AsArray().Select(x => x!.GetValue<int>()).ToArray();
         Assert.Equal(shape, new[] { pages.Count, h, w });
         // Labels are compared as unsigned 32-bit values: ids above 2^31 - 1 are stored bit for bit in int.
