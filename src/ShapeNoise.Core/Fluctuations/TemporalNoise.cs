@@ -85,10 +85,16 @@ public static class TemporalNoise
             for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau, units);
             return r;
         }
-        OuFit[] FitAll(int[] w) => memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), Fitted);
+        // The plan's draws are fitted once, in parallel, and found by reference (every statistic below passes the same
+        // arrays); other multiplicity vectors through the structural cache (copied only when added).
+        var drawFits = new OuFit[plan.Draws.Length][];
+        Parallel.For(0, drawFits.Length, b => drawFits[b] = Fitted(plan.Draws[b]));
+        var byDraw = new Dictionary<int[], OuFit[]>(ReferenceEqualityComparer.Instance);
+        for (int b = 0; b < drawFits.Length; b++) byDraw.TryAdd(plan.Draws[b], drawFits[b]);
+        OuFit[] FitAll(int[] w) => byDraw.TryGetValue(w, out var f) ? f
+            : memo.TryGetValue(w, out var hit) ? hit : memo.GetOrAdd(w.Length == 0 ? w : (int[])w.Clone(), Fitted);
         var ones = new int[t.Count]; Array.Fill(ones, 1);
         var point = FitAll(ones);
-        Parallel.ForEach(plan.Draws, d => FitAll(d));   // warm the cache in parallel; the estimates below read it in order
         // The block-edge inflation's leave-one-track-out fits, once for every statistic and in parallel, not through the cache
         // (docs/statistics.md#block-edges).
         var loo = LeaveOneOut(plan, t.Count, Fitted);

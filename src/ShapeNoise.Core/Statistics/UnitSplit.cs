@@ -47,6 +47,18 @@ internal sealed class UnitSplit
         return s;
     }
 
+    /// <summary>One resample's multiplicities split by <see cref="Split(ReadOnlySpan{int})"/>: per unit W_u - 1, and the items
+    /// that differ from their unit's, with the difference (in item order).</summary>
+    public sealed record Parts(int[] UnitChange, List<(int Item, int Change)> Corrections);
+
+    /// <summary>Splits <paramref name="weights"/> once, for every sum a fit forms from them.</summary>
+    public Parts Split(ReadOnlySpan<int> weights)
+    {
+        var change = new int[Units]; var corrections = new List<(int Item, int Change)>();
+        Split(weights, change, corrections);
+        return new Parts(change, corrections);
+    }
+
     /// <summary>Splits <paramref name="weights"/> (one per item): <paramref name="unitChange"/>[u] = W_u - 1, with W_u the
     /// multiplicity most of unit u's items have (that of its first item when its second or third agrees), and
     /// <paramref name="corrections"/> the items whose multiplicity differs from their unit's, with the difference.</summary>

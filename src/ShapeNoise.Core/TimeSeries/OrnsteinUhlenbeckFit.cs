@@ -134,14 +134,15 @@ internal static class OrnsteinUhlenbeckFit
         Statistics.UnitSplit? units = null)
     {
         int K = fitLags + 1;
-        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2), units);   // only the fitted lags (and lag 1)
+        var parts = units is not null && weights.Length > 0 ? units.Split(weights) : null;   // once, for the pooling and the groups
+        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2), units, parts);   // only the fitted lags (and lag 1)
         if (c.Length < 2 || !(c[0] > 0) || pairs[1] == 0) return new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
         K = Math.Min(K, c.Length);
         double r1 = c[1] / c[0];
         double uncorrected = r1 > 0 && r1 < 1 ? -1 / Math.Log(r1) : double.NaN;
 
-        var (groups, gaps, maxLen) = units is not null && weights.Length > 0
-            ? UnitGroups.Of(frames, units).Groups(weights, K, maxTauFrames <= 0)
+        var (groups, gaps, maxLen) = units is not null && parts is not null
+            ? UnitGroups.Of(frames, units).Groups(weights, parts, K, maxTauFrames <= 0)
             : GroupsByTrack(frames, weights, K);
         var eS = new double[K]; var eN = new double[K]; var tS = new double[K]; var tN = new double[K];
         var target = new double[K]; var weight = new double[K];
@@ -329,13 +330,12 @@ internal sealed class UnitGroups
 
     /// <summary>The groups by increasing length (those with a positive weight), the gapped tracks' summed structure over
     /// <paramref name="lags"/> lags and, when <paramref name="needMaxLen"/>, the longest weighted span (else 1).</summary>
-    public ((int Length, long Weight)[] Groups, GapLags Gaps, int MaxLen) Groups(ReadOnlySpan<int> weights, int lags, bool needMaxLen)
+    public ((int Length, long Weight)[] Groups, GapLags Gaps, int MaxLen) Groups(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts parts, int lags, bool needMaxLen)
     {
         int u = _split.Units;
-        Span<int> change = u <= 1024 ? stackalloc int[u] : new int[u];
-        var corrections = new List<(int Item, int Change)>();
-        _split.Split(weights, change, corrections);
-        var gw = (long[])_total.Clone();
+        var (change, corrections) = (parts.UnitChange, parts.Corrections);
+        var gw = new long[_total.Length];
+        _total.CopyTo(gw, 0);
         for (int j = 0; j < u; j++)
             if (change[j] != 0) foreach (var (len, n) in _unitGroups[j]) gw[len] += (long)change[j] * n;
         foreach (var (i, d) in corrections)

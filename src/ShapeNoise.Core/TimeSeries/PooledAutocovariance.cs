@@ -55,6 +55,11 @@ internal static class PooledAutocovariance
     /// them (whose minimum is located only to about the square root of the double precision, 1.5e-8) are the same
     /// whichever way the resample was pooled (docs/statistics.md#within-movie-intervals).</remarks>
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags, Statistics.UnitSplit? units)
+        => Pool(tracks, weights, out pairs, lags, units, units is not null && weights.Length > 0 ? units.Split(weights) : null);
+
+    /// <summary>The same with the weights already split by <paramref name="units"/> (<paramref name="parts"/>; null: pooled
+    /// track by track), for a fit that forms several sums from one resample.</summary>
+    internal static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags, Statistics.UnitSplit? units, Statistics.UnitSplit.Parts? parts)
     {
         var table = PooledTable.Of(tracks);
         if (table is null) { pairs = []; return []; }
@@ -62,7 +67,7 @@ internal static class PooledAutocovariance
         var sums = new Int128[K];
         var counts = new long[K];
         var bad = new long[K];
-        if (units is not null && weights.Length > 0) table.AddByUnits(units, weights, sums, counts, bad);
+        if (units is not null && parts is not null) table.AddByUnits(units, parts, sums, counts, bad);
         else table.AddByTracks(weights, sums, counts, bad);
         var c = new double[K];
         pairs = counts;
@@ -140,13 +145,11 @@ internal sealed class PooledTable
     /// <summary>Adds the same sums for the multiplicities of a resample of <paramref name="split"/>'s units: the sum over all
     /// tracks, plus each changed unit's sum times its change, plus each correction (<see cref="Statistics.UnitSplit"/>).
     /// Exact, so equal to <see cref="AddByTracks"/>.</summary>
-    public void AddByUnits(Statistics.UnitSplit split, ReadOnlySpan<int> weights, Span<Int128> sums, Span<long> pairs, Span<long> bad)
+    public void AddByUnits(Statistics.UnitSplit split, Statistics.UnitSplit.Parts parts, Span<Int128> sums, Span<long> pairs, Span<long> bad)
     {
         var t = UnitTotals(split);
         int u = split.Units;
-        Span<int> change = u <= 1024 ? stackalloc int[u] : new int[u];
-        var corrections = new List<(int Item, int Change)>();
-        split.Split(weights, change, corrections);
+        var (change, corrections) = (parts.UnitChange, parts.Corrections);
         AddRow(t.Sums, t.Pairs, t.Bad, 1, sums, pairs, bad);
         for (int j = 0; j < u; j++)
             if (change[j] != 0) AddRow(t.UnitSums.AsSpan(j * _stride), t.UnitPairs.AsSpan(j * _stride), t.UnitBad.AsSpan(j * _stride), change[j], sums, pairs, bad);
