@@ -50,7 +50,9 @@ rows.Add(("calibration", calibration, "Array.Sort of 2^21 seeded random doubles,
 using (var warm = LabelMovies.Open(movieShort)) MovieAnalyzer.Run(warm, new AnalysisOptions(), null, null, new PhaseTimes());
 var times = new PhaseTimes();
 AnalysisResult result;
+var (gc0, gc1, gc2, pause0, alloc0) = (GC.CollectionCount(0), GC.CollectionCount(1), GC.CollectionCount(2), GC.GetTotalPauseDuration(), GC.GetTotalAllocatedBytes());
 using (var m = LabelMovies.Open(movieShort)) result = MovieAnalyzer.Run(m, new AnalysisOptions(), null, null, times);
+string measuredGc = $"garbage collections (the measured analysis alone): gen0 {GC.CollectionCount(0) - gc0}, gen1 {GC.CollectionCount(1) - gc1}, gen2 {GC.CollectionCount(2) - gc2}; pause {(GC.GetTotalPauseDuration() - pause0).TotalSeconds:F2} s; allocated {(GC.GetTotalAllocatedBytes() - alloc0) / 1e9:F1} GB";
 foreach (var (phase, sec) in times.Phases) rows.Add((phase, sec, phase == "decode" ? "inside the analysis" : ""));
 string tmpOut = Path.Combine(Path.GetTempPath(), $"shapenoise-bench-{Environment.ProcessId}");
 var sw = Stopwatch.StartNew();
@@ -62,6 +64,7 @@ if (phasesOnly)
 {
     foreach (var (name, sec, _) in rows) Console.WriteLine($"{name,-28}{sec,10:F3}");
     Console.WriteLine($"{"analysis total",-28}{analysisTotal,10:F3}  ({analysisTotal / decode:F1} x decode)");
+    Console.WriteLine(measuredGc);
     Console.WriteLine($"garbage collections (whole process): gen0 {GC.CollectionCount(0)}, gen1 {GC.CollectionCount(1)}, gen2 {GC.CollectionCount(2)}; pause {GC.GetTotalPauseDuration().TotalSeconds:F2} s; allocated {GC.GetTotalAllocatedBytes() / 1e9:F1} GB");
     return 0;
 }

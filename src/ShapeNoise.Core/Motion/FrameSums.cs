@@ -87,6 +87,7 @@ internal sealed record GridSums(double VortSq, long VortNodes, double Order, lon
                     ko[k] = 1;
                 }
             }
+        CoarseGraining.Release(field);   // copied out above
         double h = gridPx * stride;
         Centre(vx, kv); Centre(vy, kv);
         double vortSq = SumSq(om, ko);

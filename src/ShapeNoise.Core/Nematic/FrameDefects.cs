@@ -40,7 +40,9 @@ public sealed record FrameDefects(int Frame, List<Defect> Defects, (double Vx, d
             if (df.Charge != 0.5 || !double.IsFinite(df.HeadX)) continue;
             EnsembleFlowAccumulator.Sample(field, df, coarsePx, ensemble, ens);
         }
-        return new FrameDefects(frame, defects, flow, ens) { Alignment = AlignmentOf(field, samples, widthPx, heightPx, gridPx, coarsePx) };
+        var result = new FrameDefects(frame, defects, flow, ens) { Alignment = AlignmentOf(field, samples, widthPx, heightPx, gridPx, coarsePx) };
+        CoarseGraining.Release(field);   // read for the last time above (the defects and samples hold values, not the arrays)
+        return result;
     }
 
     /// <summary>See <see cref="Alignment"/>: the magnitudes are coarse-grained with the same kernel as Q (on the grid and

@@ -86,8 +86,8 @@ public static class CoarseGraining
     {
         int nx = (int)Math.Floor(widthPx / spacingPx) + 1, ny = (int)Math.Floor(heightPx / spacingPx) + 1;
         int n = nx * ny;
-        var w = new double[n]; var qxx = new double[n]; var qxy = new double[n];
-        var wv = new double[n]; var vx = new double[n]; var vy = new double[n];
+        var w = Rent(n); var qxx = Rent(n); var qxy = Rent(n);
+        var wv = Rent(n); var vx = Rent(n); var vy = Rent(n);
         Span<(int K, double F)> corners = stackalloc (int, double)[4];
         foreach (var c in cells)
         {
@@ -108,6 +108,29 @@ public static class CoarseGraining
             if (wv[k] > 1e-9) { vx[k] /= wv[k]; vy[k] /= wv[k]; } else { vx[k] = double.NaN; vy[k] = double.NaN; }
         }
         return new NematicGrid(nx, ny, spacingPx, qxx, qxy, w, vx, vy, wv);
+    }
+
+    /// <summary>Grid arrays handed back by <see cref="Release"/>, by length (at most <see cref="MaxSpare"/> each): a movie's
+    /// per-frame fields are a megabyte each, and fresh ones land on the large-object heap frame after frame.</summary>
+    private static readonly System.Collections.Concurrent.ConcurrentDictionary<int, System.Collections.Concurrent.ConcurrentBag<double[]>> Spare = new();
+    private const int MaxSpare = 36;
+
+    /// <summary>A zeroed array of n values, reused when one was handed back.</summary>
+    private static double[] Rent(int n)
+    {
+        if (Spare.TryGetValue(n, out var bag) && bag.TryTake(out var a)) { Array.Clear(a); return a; }
+        return new double[n];
+    }
+
+    /// <summary>The caller will not read <paramref name="grid"/> (made by <see cref="Of"/>) again: its arrays may back the
+    /// next frame's grid.</summary>
+    public static void Release(NematicGrid grid)
+    {
+        foreach (var a in (ReadOnlySpan<double[]>)[grid.Qxx, grid.Qxy, grid.Weight, grid.Vx, grid.Vy, grid.VelocityWeight])
+        {
+            var bag = Spare.GetOrAdd(a.Length, static _ => []);
+            if (bag.Count < MaxSpare) bag.Add(a);
+        }
     }
 
     /// <summary>The coarse-grained mean of one value per cell on the grid of <paramref name="field"/> (made from the same
