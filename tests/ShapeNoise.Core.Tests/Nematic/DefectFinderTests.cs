@@ -56,6 +56,24 @@ public class DefectFinderTests
     }
 
     [Fact]
+    public void CoarseGraining_AfterReleasingAGrid_NextGridAsElongatedCellsDemand()
+    {
+        // A grid handed back (CoarseGraining.Release) backs the next one: the uniform-field result above (S = 2q, the
+        // common axis, velocities NaN where no cell has one) must hold for a second set of cells coarse-grained on the
+        // released arrays of a first, different set (strong order, other axis, with velocities).
+        var rng = new Random(3);
+        CellSample Cell(double q, double a, double v) => new(rng.NextDouble() * 200, rng.NextDouble() * 200, q * Math.Cos(2 * a), q * Math.Sin(2 * a), v, v);
+        var first = CoarseGraining.Of(Enumerable.Range(0, 400).Select(_ => Cell(0.45, -1.1, 2.0)).ToArray(), 200, 200, 5, 20);
+        CoarseGraining.Release(first);
+        var g = CoarseGraining.Of(Enumerable.Range(0, 400).Select(_ => Cell(0.3, 0.4, double.NaN)).ToArray(), 200, 200, 5, 20);
+        int mid = (g.Ny / 2) * g.Nx + g.Nx / 2;
+        Assert.Equal(2 * 0.3, g.Order(mid), 9);
+        Assert.Equal(0.4, g.Director(mid), 9);
+        Assert.All(g.Vx, v => Assert.True(double.IsNaN(v)));
+        Assert.All(g.VelocityWeight, w => Assert.Equal(0, w));
+    }
+
+    [Fact]
     public void Find_PairApproachingAndAnnihilating_CountsDropToZeroAfterContact()
     {
         // theta = phi_+/2 - phi_-/2: a +1/2 and a -1/2 at separation d; at contact the field is uniform.
