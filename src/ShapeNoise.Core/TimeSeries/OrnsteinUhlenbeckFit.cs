@@ -129,7 +129,9 @@ internal static class OrnsteinUhlenbeckFit
     /// </summary>
     /// <remarks>About 70 lines on purpose: the least-squares objective (closed-form s2, e2 for each rho) is a local function
     /// over the track groups it closes on; it runs once per grid point per bootstrap resample, so the groups are built once
-    /// here rather than passed around.</remarks>
+    /// here rather than passed around. With <paramref name="units"/> (the plan the multiplicities were drawn from), the
+    /// pooled sums and the groups are formed per unit (<see cref="Statistics.UnitSplit"/>, <see cref="UnitGroups"/>): the
+    /// same numbers, bit for bit, as without it (docs/statistics.md#how-a-resample-is-pooled).</remarks>
     public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames = 0,
         Statistics.UnitSplit? units = null)
     {
