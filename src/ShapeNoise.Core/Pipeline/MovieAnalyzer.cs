@@ -103,7 +103,7 @@ public static class MovieAnalyzer
         var units = ResolveUnits(info, options, warnings);
         var tracking = options.ForTracking;
         using var tracker = new Tracker(options.Rays, tracking);
-        var tally = new FrameTally();
+        var tally = new FrameTally(info.FrameCount);
         var tracks = new List<TrackRecord>();
         // Finished tracks to records: each record depends on its track alone, so a large batch (at the end of the movie nearly
         // every track finishes at once) is computed in parallel and kept in the tracker's order.
@@ -218,7 +218,7 @@ public static class MovieAnalyzer
     }
 
     /// <summary>Cell records and the counts of what was seen and excluded, frame by frame.</summary>
-    private sealed class FrameTally
+    private sealed class FrameTally(int expectedFrames)
     {
         private int _objects, _border, _small, _nonStar;
         public int Frames { get; private set; }
@@ -228,6 +228,9 @@ public static class MovieAnalyzer
 
         public void Add(FrameOutlines fo, OutlineShape?[] shapes, Placement[] placed)
         {
+            // Room for the whole movie at the first frame's count: the list grows once or not at all, not by doubling
+            // through large-object-heap arrays (about 230 000 records on the benchmark movie).
+            if (Frames == 0 && Cells.Capacity == 0) Cells.Capacity = (int)Math.Min(Array.MaxLength / 2, (long)fo.Outlines.Length * Math.Max(1, expectedFrames));
             _objects += fo.Outlines.Length;
             double outlineAreaPx2 = 0;
             for (int i = 0; i < fo.Outlines.Length; i++)

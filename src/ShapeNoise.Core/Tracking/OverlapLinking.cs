@@ -27,6 +27,8 @@ public sealed record FrameLinks(int[] Predecessor, bool[] Divided, bool[] Merged
 /// </remarks>
 public static class OverlapLinking
 {
+    [ThreadStatic] private static Dictionary<long, int>? _overlap;
+
     /// <param name="prevDense">Dense index image of the earlier frame (0 background, i+1 = object i).</param>
     /// <param name="prevCount">Pixel count per object of the earlier frame.</param>
     /// <param name="curDense">Dense index image of the later frame.</param>
@@ -37,7 +39,10 @@ public static class OverlapLinking
     {
         if (prevDense.Length != curDense.Length) throw new ArgumentException("frames differ in size");
         int np = prevCount.Length, nc = curCount.Length;
-        var overlap = new Dictionary<long, int>();
+        // One dictionary per thread, cleared and reused frame after frame (its arrays are large-object-heap sized); the
+        // result does not depend on its order (the pairs are sorted, the counts are sums).
+        var overlap = _overlap ??= new Dictionary<long, int>();
+        overlap.Clear();
         long lastKey = -1; int run = 0;
         for (int i = 0; i < prevDense.Length; i++)
         {
