@@ -113,12 +113,19 @@ public class OutputSafetyTests
         string before = Hash(movie);
         Assert.Equal(0, Support.Cli.Run("analyze", movie, "--out", d["runs/a"], "--bootstrap", "200", "--quiet").ExitCode);
         string earlier = File.ReadAllText(d["runs/a/summary.json"]);
-        var sw = Stopwatch.StartNew();
-        Assert.Equal(0, Support.Cli.Run("analyze", movie, "--out", d["runs/timed"], "--bootstrap", "200", "--quiet").ExitCode);
-        double full = sw.Elapsed.TotalMilliseconds;
+        // The length of a whole run: the shorter of two (the test assemblies run side by side, so one run can be slowed
+        // several-fold by the others and the fractions below would then all land after the end: seen once in CI).
+        double full = double.MaxValue;
+        for (int rep = 0; rep < 2; rep++)
+        {
+            var sw = Stopwatch.StartNew();
+            Assert.Equal(0, Support.Cli.Run("analyze", movie, "--out", d[$"runs/timed{rep}"], "--bootstrap", "200", "--quiet").ExitCode);
+            full = Math.Min(full, sw.Elapsed.TotalMilliseconds);
+        }
         int interrupted = 0;
         // Fractions of a whole run, then "while writing": as soon as the temporary folder appears, and a little after.
-        foreach (double at in new[] { 0.15, 0.35, 0.55, 0.8, -1, -1.03, -1.1 })
+        double[] points = [0.05, 0.15, 0.35, 0.55, 0.8, -1, -1.03, -1.1];
+        foreach (double at in points)
         {
             using var p = Start(["analyze", movie, "--out", d["runs/a"], "--bootstrap", "200", "--quiet", "--overwrite"]);
             if (at >= 0) Thread.Sleep((int)(at * full));
@@ -140,7 +147,7 @@ public class OutputSafetyTests
         }
         // Timing on a loaded machine varies; the early points are always still running, so at least two runs must have been interrupted
         // for the test to mean anything (the others finished first and must then have left a complete output, checked above).
-        Assert.True(interrupted >= 2, $"only {interrupted} of 7 runs were still running when signalled");
+        Assert.True(interrupted >= 2, $"only {interrupted} of {points.Length} runs were still running when signalled (a whole run: {full:F0} ms)");
     }
 
     [Fact]
