@@ -114,7 +114,7 @@ public class OutputSafetyTests
         Assert.Equal(0, Support.Cli.Run("analyze", movie, "--out", d["runs/a"], "--bootstrap", "200", "--quiet").ExitCode);
         string earlier = File.ReadAllText(d["runs/a/summary.json"]);
         // The length of a whole run: the shorter of two (the test assemblies run side by side, so one run can be slowed
-        // several-fold by the others and the fractions below would then all land after the end: seen once in CI).
+        // several-fold by the others).
         double full = double.MaxValue;
         for (int rep = 0; rep < 2; rep++)
         {
@@ -174,9 +174,15 @@ public class OutputSafetyTests
         Assert.True(leftOne, "at least one SIGKILL landed while the temporary folder existed (else the test proves nothing)");
     }
 
+    /// <summary>Starts the command with SIGINT at its default disposition: a test run started as a background job of a
+    /// non-interactive shell inherits SIGINT ignored (POSIX: background commands ignore SIGINT and SIGQUIT when job control
+    /// is off), exec keeps that, and the runtime then rightly leaves the signal ignored, so Ctrl-C could not be tested.
+    /// GNU coreutils env (>= 8.31) resets it and execs dotnet in its place (same process id).</summary>
     private static Process Start(string[] args)
     {
-        var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        var psi = new ProcessStartInfo("env") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        psi.ArgumentList.Add("--default-signal=INT");
+        psi.ArgumentList.Add("dotnet");
         psi.ArgumentList.Add(typeof(ShapeNoise.Cli.ExitCodes).Assembly.Location);
         foreach (var a in args) psi.ArgumentList.Add(a);
         return Process.Start(psi)!;
