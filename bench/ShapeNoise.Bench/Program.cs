@@ -264,11 +264,11 @@ static int Micro()
     Console.WriteLine($"OU fit, leave one out, 34 lags: {Time(2000, i => { ones[i] = 0; double t = ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, ones, 33).TauFrames; ones[i] = 1; return t; }),8:F1} us per call");
     // The same fits with the tracks in 400 spatial blocks (the benchmark movie's plan): per-unit sums (bench/README.md).
     var plan = ShapeNoise.Statistics.ResamplingPlan.OverGroups("spatial blocks", Enumerable.Range(0, 2300).Select(i => i % 400).ToArray(), 400, 200, 1, 100);
-    var split = ShapeNoise.Statistics.UnitSplit.Of(plan);
-    Console.WriteLine($"pool of a block draw, by units: {Time(10000, i => ShapeNoise.TimeSeries.PooledAutocovariance.Pool(tracks, plan.Draws[i % 200], out _, 41, split)[1]),8:F1} us per call");
+    var units = ShapeNoise.Statistics.UnitSplit.Of(plan);
+    Console.WriteLine($"pool of a block draw, by units: {Time(10000, i => ShapeNoise.TimeSeries.PooledAutocovariance.Pool(tracks, plan.Draws[i % 200], out _, 41, units.Split(plan.Draws[i % 200]))[1]),8:F1} us per call");
     Console.WriteLine($"pool of a block draw, by tracks: {Time(10000, i => ShapeNoise.TimeSeries.PooledAutocovariance.Pool(tracks, plan.Draws[i % 200], out _, 41)[1]),8:F1} us per call");
-    Console.WriteLine($"OU fit, leave one out, by units: {Time(2000, i => { ones[i] = 0; double t = ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, ones, 33, 0, split).TauFrames; ones[i] = 1; return t; }),8:F1} us per call");
-    Console.WriteLine($"OU fit, block draw, by units: {Time(2000, i => ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, plan.Draws[i % 200], 33, 0, split).TauFrames),8:F1} us per call");
+    Console.WriteLine($"OU fit, leave one out, by units: {Time(2000, i => { ones[i] = 0; double t = ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, ones, 33, 0, units.Split(ones)).TauFrames; ones[i] = 1; return t; }),8:F1} us per call");
+    Console.WriteLine($"OU fit, block draw, by units: {Time(2000, i => ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, plan.Draws[i % 200], 33, 0, units.Split(plan.Draws[i % 200])).TauFrames),8:F1} us per call");
     Console.WriteLine($"OU fit, block draw, by tracks: {Time(2000, i => ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, plan.Draws[i % 200], 33).TauFrames),8:F1} us per call");
     return 0;
 }

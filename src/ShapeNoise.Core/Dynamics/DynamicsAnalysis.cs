@@ -199,21 +199,22 @@ public static class DynamicsAnalysis
         int B = draws.Length;
         var r = new Resamples(B, new double[m, B], new double[m, B], new double[m, B], new double[m + 1][,], new double[B], new double[B], new double[B]);
         for (int s = 0; s <= m; s++) r.Curve[s] = new double[B, K + 1];
-        var units = UnitSplit.Of(plan);   // each resample pooled per unit (docs/statistics.md#within-movie-intervals)
+        var units = UnitSplit.Of(plan);
         Parallel.For(0, B, b =>
         {
             var w = draws[b];
+            var split = units.Split(w);   // once per resample, for every pooled sum below (docs/statistics.md#how-a-resample-is-pooled)
             for (int s = 0; s < m; s++)
             {
-                var f = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, w, inp.FitLags, inp.MaxTau, units);
+                var f = OrnsteinUhlenbeckFit.Fit(inp.Sums[s], inp.Frames, w, inp.FitLags, inp.MaxTau, split);
                 r.Tau[s, b] = f.TauFrames; r.Var[s, b] = f.SignalVariance; r.D[s, b] = f.SignalVariance / f.TauFrames;
-                var c = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[s], w, out _, int.MaxValue, units));
+                var c = PooledAutocovariance.Correlation(PooledAutocovariance.Pool(inp.Sums[s], w, out _, int.MaxValue, split));
                 for (int k = 0; k <= K; k++) r.Curve[s][b, k] = c[k];
                 if (s == 0) r.TauInt[b] = IntegratedTime.Sokal(c).TauInt;
             }
-            var ct = PooledAutocovariance.Pool(inp.ThetaSums, w, out var tp, int.MaxValue, units);
+            var ct = PooledAutocovariance.Pool(inp.ThetaSums, w, out var tp, int.MaxValue, split);
             for (int k = 0; k <= K; k++) r.Curve[m][b, k] = ct[k];
-            var tf = OrientationCorrelation.FitTracks(inp.ThetaSums, w, K, inp.MaxTau, units);
+            var tf = OrientationCorrelation.FitTracks(inp.ThetaSums, w, K, inp.MaxTau, split);
             r.Theta[b] = tf.TauFrames; r.Plateau[b] = tf.Plateau;
         });
         return r;

@@ -123,9 +123,9 @@ internal static class OrientationCorrelation
         return cov;
     }
 
-    public static PlateauFit FitTracks(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames, Statistics.UnitSplit? units = null)
+    public static PlateauFit FitTracks(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames, Statistics.UnitSplit.Parts? split = null)
     {
-        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, int.MaxValue, units);
+        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, int.MaxValue, split);
         int K = Math.Min(fitLags, c.Length - 1);
         if (K < 2) return new PlateauFit(double.NaN, double.NaN, double.NaN);
         var y = c[1..(K + 1)].ToArray(); var w = new double[K];

@@ -82,7 +82,8 @@ public static class TemporalNoise
         {
             var r = new OuFit[4];
             for (int s = 2; s < 4; s++) r[s] = new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
-            for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau, units);
+            var split = key.Length == 0 ? null : units.Split(key);   // once for the four coordinates
+            for (int s = 0; s < fitted; s++) r[s] = OrnsteinUhlenbeckFit.Fit(sums[s], frames, key, fitLags, maxTau, split);
             return r;
         }
         // The plan's draws are fitted once, in parallel, and found by reference (every statistic below passes the same

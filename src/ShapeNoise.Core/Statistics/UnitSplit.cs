@@ -47,35 +47,28 @@ internal sealed class UnitSplit
         return s;
     }
 
-    /// <summary>One resample's multiplicities split by <see cref="Split(ReadOnlySpan{int})"/>: per unit W_u - 1, and the items
-    /// that differ from their unit's, with the difference (in item order).</summary>
-    public sealed record Parts(int[] UnitChange, List<(int Item, int Change)> Corrections);
+    /// <summary>One resample's multiplicities split by <see cref="Split"/> of <paramref name="Of"/>: per unit W_u - 1, and the
+    /// items that differ from their unit's, with the difference (grouped by unit: every sum formed from them is exact, so
+    /// their order does not matter). Split once per resample and passed to every sum a fit forms from it.</summary>
+    public sealed record Parts(UnitSplit Of, int[] UnitChange, List<(int Item, int Change)> Corrections);
 
-    /// <summary>Splits <paramref name="weights"/> once, for every sum a fit forms from them.</summary>
+    /// <summary>Splits <paramref name="weights"/> (one per item): per unit W_u - 1, with W_u the multiplicity most of unit u's
+    /// items have (that of its first item when its second or third agrees), and the items whose multiplicity differs from
+    /// their unit's, with the difference.</summary>
     public Parts Split(ReadOnlySpan<int> weights)
     {
-        var change = new int[Units]; var corrections = new List<(int Item, int Change)>();
-        Split(weights, change, corrections);
-        return new Parts(change, corrections);
-    }
-
-    /// <summary>Splits <paramref name="weights"/> (one per item): <paramref name="unitChange"/>[u] = W_u - 1, with W_u the
-    /// multiplicity most of unit u's items have (that of its first item when its second or third agrees), and
-    /// <paramref name="corrections"/> the items whose multiplicity differs from their unit's, with the difference.</summary>
-    public void Split(ReadOnlySpan<int> weights, Span<int> unitChange, List<(int Item, int Change)> corrections)
-    {
         if (weights.Length != UnitOfItem.Length) throw new ArgumentException($"{weights.Length} weights for {UnitOfItem.Length} items", nameof(weights));
-        corrections.Clear();
+        var change = new int[Units]; var corrections = new List<(int Item, int Change)>();
         for (int u = 0; u < Units; u++)
         {
             var m = Members[u];
-            if (m.Length == 0) { unitChange[u] = 0; continue; }
+            if (m.Length == 0) continue;
             int w = weights[m[0]];
             if (m.Length > 1 && weights[m[1]] != w) w = weights[m[Math.Min(2, m.Length - 1)]];
-            unitChange[u] = w - 1;
+            change[u] = w - 1;
             foreach (int i in m)
                 if (weights[i] != w) corrections.Add((i, weights[i] - w));
         }
-        corrections.Sort((a, b) => a.Item.CompareTo(b.Item));
+        return new Parts(this, change, corrections);
     }
 }

@@ -129,28 +129,25 @@ internal static class OrnsteinUhlenbeckFit
     /// </summary>
     /// <remarks>About 70 lines on purpose: the least-squares objective (closed-form s2, e2 for each rho) is a local function
     /// over the track groups it closes on; it runs once per grid point per bootstrap resample, so the groups are built once
-    /// here rather than passed around. With <paramref name="units"/> (the plan the multiplicities were drawn from), the
-    /// pooled sums and the groups are formed per unit (<see cref="Statistics.UnitSplit"/>, <see cref="UnitGroups"/>): the
-    /// same numbers, bit for bit, as without it (docs/statistics.md#how-a-resample-is-pooled).</remarks>
+    /// here rather than passed around. With <paramref name="split"/> (the weights split by the units of the plan they were
+    /// drawn from), the pooled sums and the groups are formed per unit (<see cref="Statistics.UnitSplit"/>,
+    /// <see cref="UnitGroups"/>): the same numbers, bit for bit, as without it (docs/statistics.md#how-a-resample-is-pooled).</remarks>
     public static OuFit Fit(IReadOnlyList<LagSums> tracks, IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames = 0,
-        Statistics.UnitSplit? units = null)
+        Statistics.UnitSplit.Parts? split = null)
     {
         int K = fitLags + 1;
-        var parts = units is not null && weights.Length > 0 ? units.Split(weights) : null;   // once, for the pooling and the groups
-        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2), units, parts);   // only the fitted lags (and lag 1)
+        var c = PooledAutocovariance.Pool(tracks, weights, out var pairs, Math.Max(K, 2), split);   // only the fitted lags (and lag 1)
         if (c.Length < 2 || !(c[0] > 0) || pairs[1] == 0) return new OuFit(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
         K = Math.Min(K, c.Length);
         double r1 = c[1] / c[0];
         double uncorrected = r1 > 0 && r1 < 1 ? -1 / Math.Log(r1) : double.NaN;
 
-        var (groups, gaps, maxLen) = units is not null && parts is not null
-            ? UnitGroups.Of(frames, units).Groups(weights, parts, K, maxTauFrames <= 0)
-            : GroupsByTrack(frames, weights, K);
+        var (groups, gaps) = split is not null ? UnitGroups.Of(frames, split.Of).Groups(weights, split, K) : GroupsByTrack(frames, weights, K);
         var eS = new double[K]; var eN = new double[K]; var tS = new double[K]; var tN = new double[K];
         var target = new double[K]; var weight = new double[K];
         for (int k = 0; k < K; k++) { target[k] = c[k]; weight[k] = pairs[k]; }
 
-        double lo = Math.Log(MinTauFrames), hi = Math.Log(maxTauFrames > 0 ? maxTauFrames : 20.0 * maxLen);
+        double lo = Math.Log(MinTauFrames), hi = Math.Log(maxTauFrames > 0 ? maxTauFrames : 20.0 * LongestWeightedSpan(frames, weights));
         // At the search grid's points the expectations are the same in every fit (every bootstrap resample): tabulated once.
         var tables = new GridExpectations[groups.Length];
         for (int g = 0; g < groups.Length; g++) tables[g] = GridExpectations.Of(groups[g].Length, K, lo, hi);
@@ -204,23 +201,31 @@ internal static class OrnsteinUhlenbeckFit
     /// <summary>The tracks with a multiplicity, grouped by shape: contiguous tracks of the same length share one expectation
     /// (groups by increasing length, the order the objective sums them in, whichever tracks a resample holds); gapped tracks'
     /// expectations are linear in the powers rho^h, so their weighted lag structure is summed once per fit (not once per
-    /// rho) and each objective costs O(K x span) for all of them together. maxLen: the longest weighted span.</summary>
-    private static ((int Length, long Weight)[] Groups, GapLags Gaps, int MaxLen) GroupsByTrack(IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int K)
+    /// rho) and each objective costs O(K x span) for all of them together.</summary>
+    private static ((int Length, long Weight)[] Groups, GapLags Gaps) GroupsByTrack(IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights, int K)
     {
         var shapes = TrackShapes.Of(frames);
         var groupWeight = new long[shapes.LongestContiguous + 1];
         var gapped = new List<(int[] Frames, int W)>();
-        int maxLen = 1;
         for (int i = 0; i < frames.Count; i++)
         {
             int wi = weights.Length == 0 ? 1 : weights[i];
             if (wi == 0) continue;
-            maxLen = Math.Max(maxLen, shapes.Span[i]);
             int len = shapes.ContiguousLength[i];
             if (len < 0) gapped.Add((frames[i], wi));
             else groupWeight[len] += wi;
         }
-        return (Increasing(groupWeight), GapLags.Sum(gapped, K), maxLen);
+        return (Increasing(groupWeight), GapLags.Sum(gapped, K));
+    }
+
+    /// <summary>The longest span (frames) among the tracks with a multiplicity (at least 1): the default upper bound of the
+    /// tau search is 20 times it.</summary>
+    private static int LongestWeightedSpan(IReadOnlyList<int[]> frames, ReadOnlySpan<int> weights)
+    {
+        var span = TrackShapes.Of(frames).Span;
+        int maxLen = 1;
+        for (int i = 0; i < span.Length; i++) if (weights.Length == 0 || weights[i] != 0) maxLen = Math.Max(maxLen, span[i]);
+        return maxLen;
     }
 
     /// <summary>The lengths with a positive weight, by increasing length.</summary>
@@ -330,12 +335,12 @@ internal sealed class UnitGroups
         return g;
     }
 
-    /// <summary>The groups by increasing length (those with a positive weight), the gapped tracks' summed structure over
-    /// <paramref name="lags"/> lags and, when <paramref name="needMaxLen"/>, the longest weighted span (else 1).</summary>
-    public ((int Length, long Weight)[] Groups, GapLags Gaps, int MaxLen) Groups(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts parts, int lags, bool needMaxLen)
+    /// <summary>The groups by increasing length (those with a positive weight) and the gapped tracks' summed structure over
+    /// <paramref name="lags"/> lags, for <paramref name="weights"/> split into <paramref name="split"/>.</summary>
+    public ((int Length, long Weight)[] Groups, GapLags Gaps) Groups(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts split, int lags)
     {
         int u = _split.Units;
-        var (change, corrections) = (parts.UnitChange, parts.Corrections);
+        var (change, corrections) = (split.UnitChange, split.Corrections);
         var gw = new long[_total.Length];
         _total.CopyTo(gw, 0);
         for (int j = 0; j < u; j++)
@@ -344,10 +349,7 @@ internal sealed class UnitGroups
             if (_shapes.ContiguousLength[i] is var len and >= 0) gw[len] += d;
         var gapped = new List<(int[] Frames, int W)>();
         foreach (int i in _gapped) if (weights[i] != 0) gapped.Add((_frames[i], weights[i]));
-        int maxLen = 1;
-        if (needMaxLen)
-            for (int i = 0; i < weights.Length; i++) if (weights[i] > 0) maxLen = Math.Max(maxLen, _shapes.Span[i]);
-        return (OrnsteinUhlenbeckFit.Increasing(gw), GapLags.Sum(gapped, lags), maxLen);
+        return (OrnsteinUhlenbeckFit.Increasing(gw), GapLags.Sum(gapped, lags));
     }
 }
 

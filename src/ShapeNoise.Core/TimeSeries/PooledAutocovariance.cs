@@ -39,27 +39,23 @@ internal static class PooledAutocovariance
 
     /// <summary>Pooled autocovariance c(k) = sum_i w_i Sum_i[k] / sum_i w_i Pairs_i[k] with track weights (bootstrap multiplicities).</summary>
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs)
-        => Pool(tracks, weights, out pairs, int.MaxValue, null);
+        => Pool(tracks, weights, out pairs, int.MaxValue);
 
     /// <summary>The same for lags 0..<paramref name="lags"/> - 1 only (each lag is pooled on its own, so these values are
     /// those of the full pooling; a fit over its first lags need not pool the rest).</summary>
     public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags)
         => Pool(tracks, weights, out pairs, lags, null);
 
-    /// <summary>The same, for the multiplicities of a resample of <paramref name="units"/> (null: any multiplicities): the
-    /// sums are then formed from the sum over all tracks and per-unit sums (<see cref="Statistics.UnitSplit"/>).</summary>
+    /// <summary>The same, for the multiplicities <paramref name="weights"/> of a resample split by units
+    /// (<paramref name="split"/>, from <see cref="Statistics.UnitSplit.Split"/>; null: pooled track by track): the sums are
+    /// then formed from the sum over all tracks and per-unit sums.</summary>
     /// <remarks>Every bootstrap, jackknife and leave-one-out fit pools the same tracks with other weights (20 000 times a
     /// run on the benchmark movie). The sums are exact: each track's lag sums are held as integers in units of 2^-s
     /// (<see cref="PooledTable"/>) and added in 128-bit integers, then rounded once to a double. So the pooled values do
     /// not depend on the order of the tracks or on how the sum is formed (track by track, or per unit), and the fits on
     /// them (whose minimum is located only to about the square root of the double precision, 1.5e-8) are the same
     /// whichever way the resample was pooled (docs/statistics.md#within-movie-intervals).</remarks>
-    public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags, Statistics.UnitSplit? units)
-        => Pool(tracks, weights, out pairs, lags, units, units is not null && weights.Length > 0 ? units.Split(weights) : null);
-
-    /// <summary>The same with the weights already split by <paramref name="units"/> (<paramref name="parts"/>; null: pooled
-    /// track by track), for a fit that forms several sums from one resample.</summary>
-    internal static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags, Statistics.UnitSplit? units, Statistics.UnitSplit.Parts? parts)
+    public static double[] Pool(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, out long[] pairs, int lags, Statistics.UnitSplit.Parts? split)
     {
         var table = PooledTable.Of(tracks);
         if (table is null) { pairs = []; return []; }
@@ -67,7 +63,7 @@ internal static class PooledAutocovariance
         var sums = new Int128[K];
         var counts = new long[K];
         var bad = new long[K];
-        if (units is not null && parts is not null) table.AddByUnits(units, parts, sums, counts, bad);
+        if (split is not null) table.AddByUnits(split, sums, counts, bad);
         else table.AddByTracks(weights, sums, counts, bad);
         var c = new double[K];
         pairs = counts;
@@ -145,11 +141,11 @@ internal sealed class PooledTable
     /// <summary>Adds the same sums for the multiplicities of a resample of <paramref name="split"/>'s units: the sum over all
     /// tracks, plus each changed unit's sum times its change, plus each correction (<see cref="Statistics.UnitSplit"/>).
     /// Exact, so equal to <see cref="AddByTracks"/>.</summary>
-    public void AddByUnits(Statistics.UnitSplit split, Statistics.UnitSplit.Parts parts, Span<Int128> sums, Span<long> pairs, Span<long> bad)
+    public void AddByUnits(Statistics.UnitSplit.Parts split, Span<Int128> sums, Span<long> pairs, Span<long> bad)
     {
-        var t = UnitTotals(split);
-        int u = split.Units;
-        var (change, corrections) = (parts.UnitChange, parts.Corrections);
+        var t = UnitTotals(split.Of);
+        int u = split.Of.Units;
+        var (change, corrections) = (split.UnitChange, split.Corrections);
         AddRow(t.Sums, t.Pairs, t.Bad, 1, sums, pairs, bad);
         for (int j = 0; j < u; j++)
             if (change[j] != 0) AddRow(t.UnitSums.AsSpan(j * _stride), t.UnitPairs.AsSpan(j * _stride), t.UnitBad.AsSpan(j * _stride), change[j], sums, pairs, bad);

@@ -54,18 +54,16 @@ public class UnitSplitTests
     public void Split_AnyWeights_ReconstructsEachItemsMultiplicity(int seed)
     {
         var (_, _, plan) = Tracks(seed);
-        var split = UnitSplit.Of(plan);
-        var change = new int[Units]; var corr = new List<(int Item, int Change)>();
+        var units = UnitSplit.Of(plan);
         foreach (var w in Weights(plan, seed))
         {
-            split.Split(w, change, corr);
+            var split = units.Split(w);
             var back = new int[Items];
-            for (int i = 0; i < Items; i++) back[i] = 1 + change[plan.UnitOfItem[i]];
-            foreach (var (i, d) in corr) back[i] += d;
+            for (int i = 0; i < Items; i++) back[i] = 1 + split.UnitChange[plan.UnitOfItem[i]];
+            foreach (var (i, d) in split.Corrections) back[i] += d;
             Assert.Equal(w, back);
         }
-        split.Split(plan.Draws[0], change, corr);
-        Assert.Empty(corr);   // a block draw gives every item its unit's multiplicity
+        Assert.Empty(units.Split(plan.Draws[0]).Corrections);   // a block draw gives every item its unit's multiplicity
     }
 
     [Theory]
@@ -74,10 +72,10 @@ public class UnitSplitTests
     public void Pool_ByUnits_EqualsWeightedSumItemByItem(int seed)
     {
         var (sums, _, plan) = Tracks(seed);
-        var split = UnitSplit.Of(plan);
+        var units = UnitSplit.Of(plan);
         foreach (var w in Weights(plan, seed))
         {
-            var c = PooledAutocovariance.Pool(sums, w, out var pairs, int.MaxValue, split);
+            var c = PooledAutocovariance.Pool(sums, w, out var pairs, int.MaxValue, units.Split(w));
             Assert.Equal(PooledAutocovariance.Pool(sums, w, out var pairsByTrack), c);
             Assert.Equal(pairsByTrack, pairs);
             for (int k = 0; k <= MaxLag; k++)
@@ -89,7 +87,7 @@ public class UnitSplitTests
             }
         }
         var ones = Enumerable.Repeat(1, Items).ToArray();
-        Assert.Equal(PooledAutocovariance.Pool(sums, [], out _), PooledAutocovariance.Pool(sums, ones, out _, int.MaxValue, split));
+        Assert.Equal(PooledAutocovariance.Pool(sums, [], out _), PooledAutocovariance.Pool(sums, ones, out _, int.MaxValue, units.Split(ones)));
     }
 
     [Theory]
@@ -98,13 +96,13 @@ public class UnitSplitTests
     public void Fit_ByUnits_BitForBitTheFitItemByItem(int seed)
     {
         var (sums, frames, plan) = Tracks(seed);
-        var split = UnitSplit.Of(plan);
+        var units = UnitSplit.Of(plan);
         foreach (var w in Weights(plan, seed))
         {
-            Assert.Equal(OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6), OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6, 0, split));
-            Assert.Equal(OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6, 50), OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6, 50, split));
+            Assert.Equal(OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6), OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6, 0, units.Split(w)));
+            Assert.Equal(OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6, 50), OrnsteinUhlenbeckFit.Fit(sums, frames, w, 6, 50, units.Split(w)));
         }
         var ones = Enumerable.Repeat(1, Items).ToArray();
-        Assert.Equal(OrnsteinUhlenbeckFit.Fit(sums, frames, [], 6), OrnsteinUhlenbeckFit.Fit(sums, frames, ones, 6, 0, split));
+        Assert.Equal(OrnsteinUhlenbeckFit.Fit(sums, frames, [], 6), OrnsteinUhlenbeckFit.Fit(sums, frames, ones, 6, 0, units.Split(ones)));
     }
 }
