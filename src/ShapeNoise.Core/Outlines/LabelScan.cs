@@ -21,15 +21,13 @@ internal sealed class LabelScan
     private LabelScan(LabelBox[] boxes, int[] dense, int w, int h) { Boxes = boxes; DenseImage = dense; Width = w; Height = h; }
 
     /// <summary>Scans <paramref name="frame"/> once. Labels are numbered densely in order of first appearance in raster order.
-    /// <paramref name="reuse"/>, when given and of the frame's size, becomes the <see cref="DenseImage"/> (cleared first):
-    /// the caller hands back the dense image of a scan it no longer reads.</summary>
+    /// <paramref name="reuse"/>, when given and of the frame's size, becomes the <see cref="DenseImage"/> (every pixel is
+    /// written, background ones with 0): the caller hands back the dense image of a scan it no longer reads.</summary>
     public static LabelScan Of(LabelFrame frame, int[]? reuse = null)
     {
         int w = frame.Width, h = frame.Height;
         var labels = frame.Labels;
-        int[] dense;
-        if (reuse is not null && reuse.Length == labels.Length) { Array.Clear(reuse); dense = reuse; }
-        else dense = new int[labels.Length];
+        int[] dense = reuse is not null && reuse.Length == labels.Length ? reuse : new int[labels.Length];
         var slot = new Dictionary<int, int>();
         // Per label: min x, max x, min y, max y, pixel count, id; plain arrays grown by doubling (the loop below touches
         // them once per run of a label along a row, so no list indexers there).
@@ -47,7 +45,7 @@ internal sealed class LabelScan
                 int l = line[x];
                 int end = line[x..].IndexOfAnyExcept(l);
                 end = end < 0 ? line.Length : x + end;
-                if (l == 0) { x = end; continue; }
+                if (l == 0) { denseLine[x..end].Clear(); x = end; continue; }
                 int s;
                 if (l == lastLabel) s = lastSlot;
                 else

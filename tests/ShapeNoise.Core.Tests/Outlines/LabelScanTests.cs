@@ -39,5 +39,9 @@ public class LabelScanTests
             Assert.Equal(new LabelBox(l, minX, minY, maxX, maxY, n), scan.Boxes[k]);
         }
         for (int i = 0; i < img.Length; i++) Assert.Equal(img[i] == 0 ? 0 : order.IndexOf(img[i]) + 1, scan.DenseImage[i]);
+        // Scanned into a handed-back dense image full of another frame's values: the same boxes and dense image.
+        var again = LabelScan.Of(new LabelFrame(0, w, h, img), Enumerable.Repeat(-7, w * h).ToArray());
+        Assert.Equal(scan.Boxes, again.Boxes);
+        Assert.Equal(scan.DenseImage, again.DenseImage);
     }
 }
