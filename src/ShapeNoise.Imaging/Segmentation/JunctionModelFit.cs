@@ -4,7 +4,7 @@ namespace ShapeNoise.Imaging.Segmentation;
 /// <param name="SigmaPx">Width σ_m (px) of the fitted junction model, last round.</param>
 /// <param name="BandPx">Band width (px) of the fitted junction model.</param>
 /// <param name="Gain">Fitted junction amplitude a (flattened units per unit of line coverage), last round.</param>
-/// <param name="Moves">Pixels that changed label, all rounds.</param>
+/// <param name="Moves">Pixels that changed label, all rounds (and the posterior-marginal step, when on).</param>
 /// <param name="Merges">Cells merged into a neighbour, all rounds.</param>
 /// <param name="Sweeps">Sweeps over the boundary pixels, all rounds.</param>
 public readonly record struct ModelFitResult(double SigmaPx, double BandPx, double Gain, int Moves, int Merges, int Sweeps);
@@ -29,9 +29,14 @@ public static class JunctionModelFit
     /// <summary>Refines <paramref name="labels"/> (row-major, 0 = no cell, changed in place) against the flattened frame
     /// <paramref name="flat"/> with noise sd <paramref name="noiseSd"/> and prior strength <paramref name="beta"/>; σ is
     /// searched in [<paramref name="minSigmaPx"/>, <paramref name="maxSigmaPx"/>] on the central crop of at most 256 x 256 px
-    /// (later rounds: within 0.3 px of the previous round's σ).</summary>
+    /// (later rounds: within 0.3 px of the previous round's σ). With <paramref name="sampleSweeps"/> &gt; 0 the fitted labels
+    /// are then replaced by posterior-marginal labels: that many heat-bath sweeps at <paramref name="temperature"/>, the
+    /// stream seeded by <paramref name="seed"/> (docs/segmentation.md#posterior-marginal-labels).</summary>
+    /// <remarks>Gibbs sampler: Geman S. and Geman D. (1984), IEEE TPAMI 6:721-741. Maximiser of the posterior marginals:
+    /// Marroquin J., Mitter S. and Poggio T. (1987), "Probabilistic solution of ill-posed problems in computational
+    /// vision", J. Am. Stat. Assoc. 82:76-89.</remarks>
     public static ModelFitResult Refine(float[] flat, int[] labels, int w, int h, double noiseSd, double beta,
-        double minSigmaPx, double maxSigmaPx, double mergeMargin, int rounds = 3, int maxSweeps = 10)
+        double minSigmaPx, double maxSigmaPx, double mergeMargin, int rounds = 3, int maxSweeps = 10, int sampleSweeps = 0, double temperature = 1, int seed = 1)
     {
         double sigma = minSigmaPx, gain = 0, band = 1;
         int moves = 0, sweeps = 0, merged = 0;
@@ -70,6 +75,14 @@ public static class JunctionModelFit
             merged += merges;
             if (roundMoves == 0 && merges == 0) break;
         }
+        if (sampleSweeps > 0 && gain > 0)
+        {
+            var st = new State(flat, labels, w, h, sigma, band);
+            st.Initialise();
+            st.NoiseVar = noiseSd * noiseSd;
+            st.Penalty = beta * 2 * st.NoiseVar;
+            moves += st.Marginals(sampleSweeps, temperature, new Random(seed));
+        }
         return new ModelFitResult(sigma, band, gain, moves, merged, sweeps);
     }
 
@@ -87,6 +100,45 @@ public static class JunctionModelFit
         var moved = (int[])labels.Clone();
         moved[y * w + x] = b;
         return (predicted, st.RssWith(moved) - rss);
+    }
+
+    /// <summary>For tests: the heat-bath distribution of pixel (x, y) as the sampler computes it, and the same
+    /// probabilities from energies recomputed on the whole frame (squared residual afresh plus 2σ_n² β per crack edge,
+    /// counted afresh), gain and levels held.</summary>
+    internal static (int[] Labels, double[] Sampler, double[] Recomputed) SiteCheck(float[] flat, int[] labels, int w, int h,
+        double sigmaPx, double noiseSd, double beta, double temperature, int x, int y)
+    {
+        var st = new State(flat, labels, w, h, sigmaPx);
+        st.Initialise();
+        st.NoiseVar = noiseSd * noiseSd;
+        st.Penalty = beta * 2 * st.NoiseVar;
+        Span<int> cand = stackalloc int[5];
+        Span<double> prob = stackalloc double[5];
+        int nc = st.SiteDistribution(x, y, temperature, cand, prob);
+        var e = new double[nc];
+        for (int j = 0; j < nc; j++)
+        {
+            var moved = (int[])labels.Clone();
+            moved[y * w + x] = cand[j];
+            e[j] = (st.RssWith(moved) + st.Penalty * CrackEdges(moved, w, h)) / (2 * st.NoiseVar * temperature);
+        }
+        double tot = 0, e0 = e[0];
+        for (int j = 0; j < nc; j++) { e[j] = Math.Exp(e0 - e[j]); tot += e[j]; }
+        for (int j = 0; j < nc; j++) e[j] /= tot;
+        return (cand[..nc].ToArray(), prob[..nc].ToArray(), e);
+    }
+
+    private static int CrackEdges(int[] l, int w, int h)
+    {
+        int n = 0;
+        for (int y = 0; y < h; y++)
+            for (int x = 0; x < w; x++)
+            {
+                int i = y * w + x;
+                if (x + 1 < w && l[i] != l[i + 1]) n++;
+                if (y + 1 < h && l[i] != l[i + w]) n++;
+            }
+        return n;
     }
 
     /// <summary>C_L: the area of each pixel within <paramref name="bandPx"/> / 2 of a crack of <paramref name="labels"/> (row-major; <see cref="BandTable"/>).</summary>
@@ -334,6 +386,83 @@ public static class JunctionModelFit
             return change;
         }
 
+        /// <summary>The heat-bath distribution of pixel (x, y) (label a): its own label and each distinct positive
+        /// 4-neighbour label b (only when a stays locally connected without it), with probability
+        /// ∝ exp(−ΔE_b / T), ΔE_b = (ΔRSS_b + 2σ_n² β Δcracks_b) / (2σ_n²) and ΔE_a = 0. Fills
+        /// <paramref name="cand"/> and <paramref name="prob"/> (length ≥ 5) and returns how many candidates there are.</summary>
+        public int SiteDistribution(int x, int y, double temperature, Span<int> cand, Span<double> prob)
+        {
+            int i = y * w + x, a = lab[i], nc = 0;
+            cand[nc] = a; prob[nc++] = 0;
+            if (a <= 0) return nc;
+            int n0 = lab[i - 1], n1 = lab[i + 1], n2 = lab[i - w], n3 = lab[i + w];
+            if (n0 == a && n1 == a && n2 == a && n3 == a || !Simple(x, y, a)) { prob[0] = 1; return nc; }
+            double scale = 1 / (2 * NoiseVar * temperature);
+            for (int k = 0; k < 4; k++)
+            {
+                int b = k == 0 ? n0 : k == 1 ? n1 : k == 2 ? n2 : n3;
+                if (b <= 0 || b == a) continue;
+                bool seen = false;
+                for (int j = 1; j < nc; j++) if (cand[j] == b) seen = true;
+                if (seen) continue;
+                cand[nc] = b; prob[nc++] = Change(x, y, a, b, apply: false) * scale;
+            }
+            double min = 0, tot = 0;
+            for (int j = 0; j < nc; j++) min = Math.Min(min, prob[j]);
+            for (int j = 0; j < nc; j++) { prob[j] = Math.Exp(min - prob[j]); tot += prob[j]; }
+            for (int j = 0; j < nc; j++) prob[j] /= tot;
+            return nc;
+        }
+
+        /// <summary>Posterior-marginal labels (docs/segmentation.md#posterior-marginal-labels): <paramref name="sweepCount"/>
+        /// raster sweeps of heat-bath updates (<see cref="SiteDistribution"/>) at <paramref name="temperature"/>, the first
+        /// third discarded as burn-in; then every pixel takes the label it held most often (first seen wins a tie), and
+        /// pieces of a cell cut off from its largest piece join a neighbouring cell. Returns the pixels whose label changed.</summary>
+        public int Marginals(int sweepCount, double temperature, Random rng)
+        {
+            int n = w * h, burn = sweepCount / 3;
+            var start = (int[])lab.Clone();
+            var slotL = new int[4 * n]; var slotC = new int[4 * n];   // up to 4 labels per pixel with their counts
+            Span<int> cand = stackalloc int[5];
+            Span<double> prob = stackalloc double[5];
+            for (int s = 0; s < sweepCount; s++)
+                for (int y = 2; y < h - 2; y++)
+                    for (int x = 2; x < w - 2; x++)
+                    {
+                        int i = y * w + x, a = lab[i];
+                        if (a <= 0) continue;
+                        int nc = SiteDistribution(x, y, temperature, cand, prob);
+                        if (nc > 1)
+                        {
+                            double u = rng.NextDouble();
+                            int pick = nc - 1;
+                            for (int j = 0; j < nc; j++) { u -= prob[j]; if (u < 0) { pick = j; break; } }
+                            if (pick > 0) Change(x, y, a, cand[pick], apply: true);
+                        }
+                        if (s >= burn) Count(slotL, slotC, i, lab[i]);
+                    }
+            for (int i = 0; i < n; i++)
+            {
+                if (slotC[4 * i] == 0) { lab[i] = start[i]; continue; }
+                int best = 0;
+                for (int k = 1; k < 4; k++) if (slotC[4 * i + k] > slotC[4 * i + best]) best = k;
+                lab[i] = slotL[4 * i + best];
+            }
+            Regions.KeepLargestPieces(lab, w, h);
+            int changed = 0;
+            for (int i = 0; i < n; i++) if (lab[i] != start[i]) changed++;
+            return changed;
+        }
+
+        private static void Count(int[] slotL, int[] slotC, int i, int l)
+        {
+            for (int k = 4 * i; k < 4 * i + 4; k++)
+            {
+                if (slotC[k] == 0) { slotL[k] = l; slotC[k] = 1; return; }
+                if (slotL[k] == l) { slotC[k]++; return; }
+            }
+        }
+
         /// <summary>One raster sweep over the pixels with a 4-neighbour of another cell (only those near an earlier move
         /// after the first sweep); returns the moves.</summary>
         public int Sweep()
@@ -378,9 +507,14 @@ public static class JunctionModelFit
         {
             int i = y * w + x;
             lab[i] = b;
+            Span<double> fresh = stackalloc double[9];
+            if (x >= 2 && y >= 2 && x < w - 2 && y < h - 2) Coverage3x3(i, fresh);
+            else
+                for (int dy = -1; dy <= 1; dy++)
+                    for (int dx = -1; dx <= 1; dx++) fresh[(dy + 1) * 3 + dx + 1] = Coverage(x + dx, y + dy);
             for (int dy = -1; dy <= 1; dy++)
                 for (int dx = -1; dx <= 1; dx++)
-                    dc[(dy + 1) * 3 + dx + 1] = gain * (Coverage(x + dx, y + dy) - cover[i + dy * w + dx]);
+                    dc[(dy + 1) * 3 + dx + 1] = gain * (fresh[(dy + 1) * 3 + dx + 1] - cover[i + dy * w + dx]);
             int cracks = (lab[i - 1] != b ? 1 : 0) + (lab[i + 1] != b ? 1 : 0) + (lab[i - w] != b ? 1 : 0) + (lab[i + w] != b ? 1 : 0)
                        - (lab[i - 1] != a ? 1 : 0) - (lab[i + 1] != a ? 1 : 0) - (lab[i - w] != a ? 1 : 0) - (lab[i + w] != a ? 1 : 0);
             if (!apply) lab[i] = a;
@@ -401,29 +535,51 @@ public static class JunctionModelFit
                     }
                     t[qy * span + ex + o] = v;
                 }
+            int x0 = Math.Max(-o, -x), x1 = Math.Min(o, w - 1 - x);   // columns inside the frame
             for (int ey = -o; ey <= o; ey++)
             {
                 int yy = y + ey;
                 if (yy < 0 || yy >= h) continue;
                 int k0 = ey + 1, k1 = ey, k2i = ey - 1;   // ey − qy for qy = −1, 0, 1
                 double g0 = k0 >= -r && k0 <= r ? g[k0 + r] : 0, g1 = k1 >= -r && k1 <= r ? g[k1 + r] : 0, g2 = k2i >= -r && k2i <= r ? g[k2i + r] : 0;
-                int row = yy * w;
-                for (int ex = -o; ex <= o; ex++)
+                int row = yy * w + x;
+                for (int ex = x0; ex <= x1; ex++)
                 {
-                    int xx = x + ex;
-                    if (xx < 0 || xx >= w) continue;
                     int c = ex + o;
                     double dm = g0 * t[c] + g1 * t[span + c] + g2 * t[2 * span + c];
                     if (dm == 0) continue;
-                    int j = row + xx;
+                    int j = row + ex;
                     change += dm * dm - 2 * resid[j] * dm;
                     if (apply) resid[j] -= dm;
                 }
             }
             if (apply)
                 for (int dy = -1; dy <= 1; dy++)
-                    for (int dx = -1; dx <= 1; dx++) cover[i + dy * w + dx] = Coverage(x + dx, y + dy);
+                    for (int dx = -1; dx <= 1; dx++) cover[i + dy * w + dx] = fresh[(dy + 1) * 3 + dx + 1];
             return change;
+        }
+
+        /// <summary><see cref="Coverage"/> of the 3 x 3 pixels around pixel <paramref name="i"/>, at least 2 px from every
+        /// edge, from one read of the 5 x 5 labels around it (the same 12 crack bits per pixel).</summary>
+        private void Coverage3x3(int i, Span<double> into)
+        {
+            Span<int> p = stackalloc int[25];
+            for (int dy = -2; dy <= 2; dy++)
+            {
+                int row = i + dy * w;
+                for (int dx = -2; dx <= 2; dx++) p[(dy + 2) * 5 + dx + 2] = L(row + dx);
+            }
+            for (int cy = 1; cy <= 3; cy++)
+                for (int cx = 1; cx <= 3; cx++)
+                {
+                    int c = cy * 5 + cx, v = p[c], le = p[c - 1], ri = p[c + 1], up = p[c - 5], dn = p[c + 5];
+                    int bits = (v != le ? 1 : 0) | (v != ri ? 2 : 0) | (v != up ? 4 : 0) | (v != dn ? 8 : 0)
+                        | (le != p[c - 6] ? 16 : 0) | (up != p[c - 6] ? 32 : 0)
+                        | (ri != p[c - 4] ? 64 : 0) | (up != p[c - 4] ? 128 : 0)
+                        | (le != p[c + 4] ? 256 : 0) | (dn != p[c + 4] ? 512 : 0)
+                        | (ri != p[c + 6] ? 1024 : 0) | (dn != p[c + 6] ? 2048 : 0);
+                    into[(cy - 1) * 3 + cx - 1] = table[bits];
+                }
         }
 
         /// <summary>Whether removing (x, y) from label <paramref name="a"/> keeps a's pixels around it in one 4-connected

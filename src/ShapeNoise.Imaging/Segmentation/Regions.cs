@@ -151,6 +151,66 @@ public static class Regions
         return target.Count;
     }
 
+    /// <summary>Every cell keeps only its largest 4-connected piece (the first found on a tie); the pixels of its other
+    /// pieces take, in repeated passes, the most common label among their 4-neighbours outside such pieces (a cell or
+    /// background; the lowest label on a tie). Returns the pixels relabelled.</summary>
+    public static int KeepLargestPieces(int[] l, int w, int h)
+    {
+        int n = l.Length;
+        var piece = new int[n];            // 4-connected component id + 1
+        var size = new List<int> { 0 };
+        var stack = new Stack<int>();
+        for (int s = 0; s < n; s++)
+        {
+            if (l[s] <= 0 || piece[s] != 0) continue;
+            int id = size.Count, count = 0;
+            piece[s] = id; stack.Push(s);
+            while (stack.Count > 0)
+            {
+                int i = stack.Pop(), x = i % w;
+                count++;
+                if (x > 0) Visit(i - 1); if (x + 1 < w) Visit(i + 1); if (i >= w) Visit(i - w); if (i + w < n) Visit(i + w);
+                void Visit(int j) { if (piece[j] == 0 && l[j] == l[s]) { piece[j] = id; stack.Push(j); } }
+            }
+            size.Add(count);
+        }
+        var largest = new Dictionary<int, int>();   // label -> its largest piece
+        for (int i = 0; i < n; i++)
+            if (l[i] > 0 && (!largest.TryGetValue(l[i], out var p) || size[piece[i]] > size[p])) largest[l[i]] = piece[i];
+        var stray = new List<int>();
+        for (int i = 0; i < n; i++) if (l[i] > 0 && largest[l[i]] != piece[i]) stray.Add(i);
+        int moved = stray.Count;
+        var isStray = new bool[n];
+        foreach (var i in stray) isStray[i] = true;
+        Span<int> nb = stackalloc int[4];
+        while (stray.Count > 0)
+        {
+            var next = new List<int>();
+            var assign = new List<(int I, int L)>();
+            foreach (var i in stray)
+            {
+                int x = i % w, k = 0;
+                if (x > 0 && !isStray[i - 1]) nb[k++] = l[i - 1];
+                if (x + 1 < w && !isStray[i + 1]) nb[k++] = l[i + 1];
+                if (i >= w && !isStray[i - w]) nb[k++] = l[i - w];
+                if (i + w < n && !isStray[i + w]) nb[k++] = l[i + w];
+                if (k == 0) { next.Add(i); continue; }
+                int best = nb[0], bestN = 0;
+                for (int a = 0; a < k; a++)
+                {
+                    int c = 0;
+                    for (int b = 0; b < k; b++) if (nb[b] == nb[a]) c++;
+                    if (c > bestN || (c == bestN && nb[a] < best)) { best = nb[a]; bestN = c; }
+                }
+                assign.Add((i, best));
+            }
+            if (assign.Count == 0) break;   // cannot happen: a stray piece always touches something else
+            foreach (var (i, lb) in assign) { l[i] = lb; isStray[i] = false; }
+            stray = next;
+        }
+        return moved;
+    }
+
     /// <summary>Regions larger than <paramref name="maxArea"/> px are not cells: set to background.</summary>
     public static void DropLarge(int[] l, double maxArea)
     {

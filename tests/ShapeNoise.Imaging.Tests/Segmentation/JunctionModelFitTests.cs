@@ -98,4 +98,54 @@ public class JunctionModelFitTests
             checkedMoves++;
         }
     }
+
+    [Fact]
+    public void SiteDistribution_BoundaryPixels_IsTheBoltzmannDistributionOfTheRecomputedEnergy()
+    {
+        // The heat-bath (Gibbs sampler) conditional of one pixel is p(label) ∝ exp(−E(label) / T) over its own label and
+        // its neighbours' (Geman S. and Geman D. (1984), IEEE TPAMI 6:721-741), E = RSS / (2σ_n²) + β × crack edges. The
+        // sampler's local energies must give the probabilities computed from energies recomputed on the whole frame
+        // (1e-6 absolute: rounding of the residual sums).
+        var (truth, flat, w, h) = Render(1.2);
+        var rng = new Random(9);
+        int checkedSites = 0, mixed = 0;
+        while (checkedSites < 30)
+        {
+            int x = rng.Next(8, w - 8), y = rng.Next(8, h - 8), i = y * w + x;
+            if (truth[i + 1] == truth[i] && truth[i + w] == truth[i] && truth[i - 1] == truth[i] && truth[i - w] == truth[i]) continue;
+            var (labels, p, r) = JunctionModelFit.SiteCheck(flat, truth, w, h, 1.2, 0.3, 2, 2, x, y);
+            if (labels.Length < 2) continue;   // a move that would cut the cell: not sampled
+            Assert.Equal(1.0, p.Sum(), 12);
+            for (int j = 0; j < labels.Length; j++)
+                Assert.True(Math.Abs(p[j] - r[j]) < 1e-6, $"({x},{y}) label {labels[j]}: sampler {p[j]}, recomputed {r[j]}");
+            if (p[0] is > 0.01 and < 0.99) mixed++;
+            checkedSites++;
+        }
+        Assert.True(mixed >= 5, $"only {mixed} of 30 sites had a probability away from 0 and 1: the check would not see an error");
+    }
+
+    [Fact]
+    public void KeepLargestPieces_CellInThreePieces_EveryLabelOneConnectedComponent()
+    {
+        // Reference: OpenCV's connected-component labelling (4-connectivity) counts the pieces of every label afterwards.
+        // Cell 1 fills the left half, cell 2 the right half; cell 2 also owns a 2 x 2 island inside cell 1 and a single
+        // pixel inside cell 1 elsewhere: both must go to cell 1, and nothing else may change.
+        int w = 12, h = 10;
+        var l = new int[w * h];
+        for (int y = 0; y < h; y++) for (int x = 0; x < w; x++) l[y * w + x] = x < 6 ? 1 : 2;
+        l[2 * w + 1] = l[2 * w + 2] = l[3 * w + 1] = l[3 * w + 2] = 2;
+        l[7 * w + 3] = 2;
+        var before = (int[])l.Clone();
+        int moved = Regions.KeepLargestPieces(l, w, h);
+        Assert.Equal(5, moved);
+        foreach (var cell in new[] { 1, 2 })
+        {
+            using var mask = new Mat(h, w, MatType.CV_8UC1);
+            for (int i = 0; i < l.Length; i++) mask.Set(i / w, i % w, (byte)(l[i] == cell ? 255 : 0));
+            using var comp = new Mat();
+            Assert.Equal(2, Cv2.ConnectedComponents(mask, comp, PixelConnectivity.Connectivity4));   // background + one piece
+        }
+        for (int i = 0; i < l.Length; i++)
+            if (i % w >= 6) Assert.Equal(before[i], l[i]);
+    }
 }

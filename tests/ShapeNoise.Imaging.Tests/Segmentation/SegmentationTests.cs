@@ -159,6 +159,29 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
     }
 
     [Fact]
+    public void Cli_SegmentMarginalSweeps_SameLabelsTwiceRecordedAndNeedsModelFit()
+    {
+        // segment --model-fit --marginal-sweeps (docs/segmentation.md#posterior-marginal-labels): the sampling is seeded by
+        // the frame's pixels, so two runs write the same labels byte for byte; run.json records the sweeps and temperature;
+        // without --model-fit the option is refused (exit 64 naming --model-fit) and no output folder is made.
+        using var d = new TempDir();
+        Assert.Equal(0, Support.Cli.Run("synth", "monolayer", "--out", d["m"], "--cells", "80", "--frames", "2", "--raw", "--snr", "5").ExitCode);
+        foreach (var o in new[] { "a", "b" })
+        {
+            var r = Support.Cli.Run("segment", d["m/raw.tif"], "--out", d[o], "--cell-diameter", "8.9", "--model-fit", "--marginal-sweeps", "20");
+            Assert.True(r.ExitCode == 0, r.Stderr);
+        }
+        Assert.Equal(File.ReadAllBytes(d["a/labels.tif"]), File.ReadAllBytes(d["b/labels.tif"]));
+        var run = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(d["a/run.json"]))!;
+        Assert.Equal(20, run["options"]!["MarginalSweeps"]!.GetValue<int>());
+        Assert.Equal(2, run["options"]!["MarginalTemperature"]!.GetValue<double>());
+        var bad = Support.Cli.Run("segment", d["m/raw.tif"], "--out", d["c"], "--cell-diameter", "8.9", "--marginal-sweeps", "20");
+        Assert.Equal(64, bad.ExitCode);
+        Assert.Contains("--model-fit", bad.Stderr);
+        Assert.False(Directory.Exists(d["c"]));
+    }
+
+    [Fact]
     public void Cli_AnalyzeRaw_CrestOutlinesByDefaultNoCrestKeepsMasks()
     {
         // analyze --raw moves the outlines onto the junction crest unless --no-crest (docs/segmentation.md#sub-pixel-boundaries):
