@@ -29,12 +29,10 @@ public static class SegmentJob
         var qc = new List<FrameQc>();
         OutputFolder.Write(outDir, dir =>
         {
-            int[]? previous = null;
-            var pages = movie.Frames().Select(f =>
+            var pages = Segmented(movie.Frames(), o).Select(fr =>
             {
-                var r = JunctionSegmenter.SegmentFrame(f.Labels, f.Width, f.Height, o, previous);
+                var (f, r) = fr;
                 var labels = r.Labels;
-                previous = labels;
                 int n = labels.Max();
                 if (n > 65535) throw new InputException(input, $"frame {f.Index + 1} has more than 65535 cells");
                 if (qcEvery > 0 && f.Index % qcEvery == 0) Overlay(f.Labels, labels, f.Width, f.Height, Path.Combine(dir, $"qc-frame-{f.Index:D3}.png"), r.Seeds);
@@ -70,6 +68,51 @@ public static class SegmentJob
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
         });
         return (frames, frames > 0 ? cells / (double)frames : 0);
+    }
+
+    /// <summary>Each frame with its segmentation, in frame order. Frames are independent unless
+    /// <see cref="SegmentOptions.TrackSeeds"/> is on, so they are segmented a core's worth at a time (each frame's result
+    /// depends only on its own pixels, the same on any number of cores); with tracked seeds one after another.</summary>
+    private static IEnumerable<(LabelFrame Frame, SegmentedFrame Result)> Segmented(IEnumerable<LabelFrame> frames, SegmentOptions o)
+    {
+        if (o.TrackSeeds)
+        {
+            int[]? previous = null;
+            foreach (var f in frames)
+            {
+                var r = JunctionSegmenter.SegmentFrame(f.Labels, f.Width, f.Height, o, previous);
+                previous = r.Labels;
+                yield return (f, r);
+            }
+            yield break;
+        }
+        int batch = Math.Max(1, Environment.ProcessorCount);
+        var chunk = new List<LabelFrame>(batch);
+        foreach (var f in frames)
+        {
+            chunk.Add(f);
+            if (chunk.Count < batch) continue;
+            foreach (var done in Batch(chunk, o)) yield return done;
+            chunk.Clear();
+        }
+        foreach (var done in Batch(chunk, o)) yield return done;
+    }
+
+    private static (LabelFrame, SegmentedFrame)[] Batch(List<LabelFrame> chunk, SegmentOptions o)
+    {
+        var results = new SegmentedFrame[chunk.Count];
+        try
+        {
+            Parallel.For(0, chunk.Count, k => results[k] = JunctionSegmenter.SegmentFrame(chunk[k].Labels, chunk[k].Width, chunk[k].Height, o));
+        }
+        catch (AggregateException e) when (e.InnerExceptions.Count > 0)
+        {
+            // The error of the first failing frame, as the sequential loop would have raised it (exit codes map on its type).
+            System.Runtime.ExceptionServices.ExceptionDispatchInfo.Capture(e.InnerExceptions[0]).Throw();
+        }
+        var pairs = new (LabelFrame, SegmentedFrame)[chunk.Count];
+        for (int k = 0; k < chunk.Count; k++) pairs[k] = (chunk[k], results[k]);
+        return pairs;
     }
 
     /// <summary>Relative change of the cell count between consecutive frames above which <c>segment</c> warns (docs/segmentation.md#qc).</summary>

@@ -49,7 +49,7 @@ public sealed record SegmentOptions
     public double ModelMergeMargin { get; init; } = 10;
     /// <summary>Model fit: heat-bath sweeps after the fit whose most frequent label per pixel becomes the labels
     /// (posterior-marginal labels, docs/segmentation.md#posterior-marginal-labels); 0 = off, the default (it costs about
-    /// 4 ms per sweep per 100 x 100 px); 300 measured on the render family.</summary>
+    /// 2 ms per sweep per 100 x 100 px); 300 measured on the render family.</summary>
     public int MarginalSweeps { get; init; }
     /// <summary>Temperature T of the <see cref="MarginalSweeps"/>: the energy of the model fit is divided by T (2, chosen on
     /// the tuning renders, docs/segmentation.md#posterior-marginal-labels).</summary>

@@ -7,10 +7,14 @@ public static class Cli
 {
     public sealed record Result(int ExitCode, string Stdout, string Stderr);
 
-    public static Result Run(params string[] args)
+    public static Result Run(params string[] args) => RunWith(new Dictionary<string, string>(), args);
+
+    /// <summary>As <see cref="Run"/>, with extra environment variables for the process.</summary>
+    public static Result RunWith(IReadOnlyDictionary<string, string> environment, params string[] args)
     {
         string dll = typeof(ShapeNoise.Cli.ExitCodes).Assembly.Location;
         var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        foreach (var (k, v) in environment) psi.Environment[k] = v;
         psi.ArgumentList.Add(dll);
         foreach (var a in args) psi.ArgumentList.Add(a);
         using var p = Process.Start(psi)!;
