@@ -100,18 +100,16 @@ public static class SegmentJob
 
     private static (LabelFrame, SegmentedFrame)[] Batch(List<LabelFrame> chunk, SegmentOptions o)
     {
-        var results = new SegmentedFrame[chunk.Count];
+        var pairs = new (LabelFrame, SegmentedFrame)[chunk.Count];
         try
         {
-            Parallel.For(0, chunk.Count, k => results[k] = JunctionSegmenter.SegmentFrame(chunk[k].Labels, chunk[k].Width, chunk[k].Height, o));
+            Parallel.For(0, chunk.Count, k => pairs[k] = (chunk[k], JunctionSegmenter.SegmentFrame(chunk[k].Labels, chunk[k].Width, chunk[k].Height, o)));
         }
         catch (AggregateException e) when (e.InnerExceptions.Count > 0)
         {
             // The error of the first failing frame, as the sequential loop would have raised it (exit codes map on its type).
             System.Runtime.ExceptionServices.ExceptionDispatchInfo.Capture(e.InnerExceptions[0]).Throw();
         }
-        var pairs = new (LabelFrame, SegmentedFrame)[chunk.Count];
-        for (int k = 0; k < chunk.Count; k++) pairs[k] = (chunk[k], results[k]);
         return pairs;
     }
 

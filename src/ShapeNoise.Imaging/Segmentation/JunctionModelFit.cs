@@ -57,8 +57,7 @@ public static class JunctionModelFit
             var state = new State(flat, labels, w, h, sigma, band);
             (_, gain) = state.Initialise();
             if (!(gain > 0)) break;
-            state.NoiseVar = noiseSd * noiseSd;
-            state.Penalty = beta * 2 * state.NoiseVar;
+            state.SetNoise(noiseSd, beta);
             state.MergeMargin = mergeMargin;
             int roundMoves = 0;
             for (int k = 0; k < maxSweeps; k++)
@@ -77,11 +76,13 @@ public static class JunctionModelFit
         }
         if (sampleSweeps > 0 && gain > 0)
         {
+            // Gain and levels refitted on the final labels (the last round's merges changed them).
             var st = new State(flat, labels, w, h, sigma, band);
-            st.Initialise();
-            st.NoiseVar = noiseSd * noiseSd;
-            st.Penalty = beta * 2 * st.NoiseVar;
-            moves += st.Marginals(sampleSweeps, temperature, new Random(seed));
+            if (st.Initialise().Gain > 0)
+            {
+                st.SetNoise(noiseSd, beta);
+                moves += st.Marginals(sampleSweeps, temperature, new Random(seed));
+            }
         }
         return new ModelFitResult(sigma, band, gain, moves, merged, sweeps);
     }
@@ -110,8 +111,7 @@ public static class JunctionModelFit
     {
         var st = new State(flat, labels, w, h, sigmaPx);
         st.Initialise();
-        st.NoiseVar = noiseSd * noiseSd;
-        st.Penalty = beta * 2 * st.NoiseVar;
+        st.SetNoise(noiseSd, beta);
         Span<int> cand = stackalloc int[5];
         Span<double> prob = stackalloc double[5];
         int nc = st.SiteDistribution(x, y, temperature, cand, prob);
@@ -317,6 +317,13 @@ public static class JunctionModelFit
             if (merges > 0)
                 for (int i = 0; i < lab.Length; i++) if (lab[i] > 0 && into[lab[i]] != 0) lab[i] = into[lab[i]];
             return merges;
+        }
+
+        /// <summary>Sets <see cref="NoiseVar"/> = σ_n² and the prior's cost per crack edge, <see cref="Penalty"/> = 2σ_n² β.</summary>
+        public void SetNoise(double noiseSd, double beta)
+        {
+            NoiseVar = noiseSd * noiseSd;
+            Penalty = beta * 2 * NoiseVar;
         }
 
         /// <summary>Noise variance σ_n² of the flattened frame.</summary>

@@ -173,8 +173,9 @@ public static class JunctionSegmenter
         using var frame = Prepared.Of(raw, width, height, o);
         var kept = Segmented(frame, o, previous);
         if (!o.ModelFit) return kept;
-        var fit = JunctionModelFit.Refine(ToArray(frame.Flat), kept.Labels, width, height, frame.NoiseSd, o.ModelFitBeta, 0.5, Math.Max(1.5, Math.Min(4, 0.3 * o.DiameterPx)), o.ModelMergeMargin, sampleSweeps: o.MarginalSweeps, temperature: o.MarginalTemperature, seed: Seed(raw));
-        if (fit.Merges > 0) kept = kept with { Labels = Regions.Relabel(kept.Labels) };
+        var fit = JunctionModelFit.Refine(ToArray(frame.Flat), kept.Labels, width, height, frame.NoiseSd, o.ModelFitBeta, 0.5, Math.Max(1.5, Math.Min(4, 0.3 * o.DiameterPx)), o.ModelMergeMargin, sampleSweeps: o.MarginalSweeps, temperature: o.MarginalTemperature, seed: o.MarginalSweeps > 0 ? Seed(raw) : 0);
+        // Merges leave gaps in the numbering, and so can the marginal labels' vote (a cell may lose every pixel).
+        if (fit.Merges > 0 || o.MarginalSweeps > 0) kept = kept with { Labels = Regions.Relabel(kept.Labels) };
         return kept with { ModelSigmaPx = fit.SigmaPx, ModelBandPx = fit.BandPx, ModelMoves = fit.Moves, ModelMerges = fit.Merges };
     }
 
