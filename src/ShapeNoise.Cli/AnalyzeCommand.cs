@@ -64,6 +64,9 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
+        // Segmentation options act only on a raw movie: given with a label movie they would be silently ignored.
+        if (!s.Raw && (s.ModelFit || s.MarginalSweeps != 0 || s.Deconvolve != 0 || s.NoCrest))
+            throw new ArgumentException("--model-fit, --marginal-sweeps, --deconvolve and --no-crest segment a raw movie: give --raw too");
         var options = new AnalysisOptions
         {
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
@@ -112,7 +115,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
     private static AnalysisResult Analyze(Settings s, AnalysisOptions options, MovieSelection sel, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
         => s.Raw
-            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter, CrestOutlines = !s.NoCrest, DeconvolveSigmaPx = s.Deconvolve, ModelFit = s.ModelFit, MarginalSweeps = s.MarginalSweeps }, progress, cmd, sel)
+            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter, CrestOutlines = !s.NoCrest, DeconvolveSigmaPx = s.Deconvolve, ModelFit = s.ModelFit, MarginalSweeps = s.MarginalSweeps}, progress, cmd, sel)
             : AnalyzeJob.Run(s.Input, Target(s), options, p => LabelMovies.Open(p, sel), progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
     private static OutputTarget Target(Settings s) => new(s.Out, s.Overwrite, s.FloorFrom is null ? [s.Input] : [s.Input, s.FloorFrom]);

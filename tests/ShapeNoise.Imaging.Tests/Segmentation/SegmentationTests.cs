@@ -183,6 +183,23 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         Assert.False(Directory.Exists(d["c"]));
     }
 
+    [Theory]
+    [InlineData("--model-fit")]
+    [InlineData("--marginal-sweeps", "20")]
+    [InlineData("--deconvolve", "1.2")]
+    [InlineData("--no-crest")]
+    public void Cli_AnalyzeSegmentationOptionWithoutRaw_RefusedNamingRaw(params string[] option)
+    {
+        // A segmentation option given with a label movie used to be ignored without a word; now analyze refuses it
+        // (exit 64 for a bad option, naming --raw) before anything is written.
+        using var d = new TempDir();
+        Assert.Equal(0, Support.Cli.Run("synth", "monolayer", "--out", d["m"], "--cells", "40", "--frames", "3").ExitCode);
+        var r = Support.Cli.Run(["analyze", d["m/labels.tif"], "--out", d["o"], .. option]);
+        Assert.Equal(64, r.ExitCode);
+        Assert.Contains("--raw", r.Stderr);
+        Assert.False(Directory.Exists(d["o"]));
+    }
+
     [Fact]
     public void Cli_AnalyzeRaw_CrestOutlinesByDefaultNoCrestKeepsMasks()
     {
