@@ -115,7 +115,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
     private static AnalysisResult Analyze(Settings s, AnalysisOptions options, MovieSelection sel, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
         => s.Raw
-            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter, CrestOutlines = !s.NoCrest, DeconvolveSigmaPx = s.Deconvolve, ModelFit = s.ModelFit, MarginalSweeps = s.MarginalSweeps}, progress, cmd, sel)
+            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter, CrestOutlines = !s.NoCrest, DeconvolveSigmaPx = s.Deconvolve, ModelFit = s.ModelFit, MarginalSweeps = s.MarginalSweeps }, progress, cmd, sel)
             : AnalyzeJob.Run(s.Input, Target(s), options, p => LabelMovies.Open(p, sel), progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
     private static OutputTarget Target(Settings s) => new(s.Out, s.Overwrite, s.FloorFrom is null ? [s.Input] : [s.Input, s.FloorFrom]);
