@@ -16,14 +16,19 @@ public readonly record struct ModelFitResult(double SigmaPx, double BandPx, doub
 /// the contact, <see cref="BandTable"/>), G_σ a normalised sampled Gaussian, and ℓ = G_σ * (Σ_k ℓ_k 1_k) the blurred
 /// per-cell levels (background, haze and cytoplasm). w (1, 1.5, 2 px or the pixel line) and σ are chosen by least squared
 /// residual (σ by golden-section search), a and the ℓ_k by joint least squares; then a boundary pixel changes to a neighbouring label when that lowers
-/// Σ_x (F − ℓ − a M_L)² / (2 σ_n²) + β × (crack edges) (a Potts prior on the boundary length, σ_n the noise sd), one pixel
-/// at a time (iterated conditional modes), keeping every cell locally connected; fit and sweeps are repeated for a
-/// few rounds.
+/// Σ_x (F − ℓ − a M_L)² / (2 σ_n²) + β Λ(L) (σ_n the noise sd), one pixel at a time (iterated conditional modes), keeping
+/// every cell locally connected; fit and sweeps are repeated for a few rounds. Λ is the boundary length by the
+/// Cauchy–Crofton formula on the 8-neighbour pairs: Λ = w_a N_a + w_d N_d, N_a (N_d) the axial (diagonal) neighbour pairs
+/// with different labels, w_a = 1 / (1 + √2), w_d = w_a / √2, so that an axis-parallel boundary costs 1 per px and a
+/// straight boundary of any direction between 1 and 1.082 per px of its Euclidean length (the crack count, the
+/// 4-neighbour Potts prior, costs |cos θ| + |sin θ|: up to 1.414 at 45°, which favours staircases along the axes).
 /// </summary>
 /// <remarks>Iterated conditional modes for the labels of a blurred, noisy image with a Potts prior: Besag J. (1986),
 /// "On the statistical analysis of dirty pictures", J. R. Statist. Soc. B 48:259-302. A junction wider than 2 px is
 /// absorbed by σ (a band of width w adds about w²/12 to σ²; docs/segmentation.md#junction-model-fit).
-/// Golden-section search: Kiefer J. (1953), Proc. AMS 4:502-506.</remarks>
+/// Golden-section search: Kiefer J. (1953), Proc. AMS 4:502-506. Cauchy–Crofton edge weights on a grid: Boykov Y. and
+/// Kolmogorov V. (2003), "Computing geodesics and minimal surfaces via graph cuts", Proc. IEEE ICCV 2003, 26-33
+/// (w_k = δ² Δφ_k / (2 |e_k|), Δφ = π/4 for each of the 8-neighbourhood's four directions; here scaled by 8 / (π (1 + √2))).</remarks>
 public static class JunctionModelFit
 {
     /// <summary>Refines <paramref name="labels"/> (row-major, 0 = no cell, changed in place) against the flattened frame
@@ -104,8 +109,8 @@ public static class JunctionModelFit
     }
 
     /// <summary>For tests: the heat-bath distribution of pixel (x, y) as the sampler computes it, and the same
-    /// probabilities from energies recomputed on the whole frame (squared residual afresh plus 2σ_n² β per crack edge,
-    /// counted afresh), gain and levels held.</summary>
+    /// probabilities from energies recomputed on the whole frame (squared residual afresh plus 2σ_n² β Λ, the boundary
+    /// length counted afresh), gain and levels held.</summary>
     internal static (int[] Labels, double[] Sampler, double[] Recomputed) SiteCheck(float[] flat, int[] labels, int w, int h,
         double sigmaPx, double noiseSd, double beta, double temperature, int x, int y)
     {
@@ -120,7 +125,7 @@ public static class JunctionModelFit
         {
             var moved = (int[])labels.Clone();
             moved[y * w + x] = cand[j];
-            e[j] = (st.RssWith(moved) + st.Penalty * CrackEdges(moved, w, h)) / (2 * st.NoiseVar * temperature);
+            e[j] = (st.RssWith(moved) + st.Penalty * BoundaryLength(moved, w, h)) / (2 * st.NoiseVar * temperature);
         }
         double tot = 0, e0 = e[0];
         for (int j = 0; j < nc; j++) { e[j] = Math.Exp(e0 - e[j]); tot += e[j]; }
@@ -128,17 +133,25 @@ public static class JunctionModelFit
         return (cand[..nc].ToArray(), prob[..nc].ToArray(), e);
     }
 
-    private static int CrackEdges(int[] l, int w, int h)
+    /// <summary>Weight of an axial neighbour pair in the boundary length Λ: 1 / (1 + √2) (see <see cref="JunctionModelFit"/>).</summary>
+    internal static readonly double AxialWeight = 1 / (1 + Math.Sqrt(2));
+    /// <summary>Weight of a diagonal neighbour pair in Λ: <see cref="AxialWeight"/> / √2.</summary>
+    internal static readonly double DiagonalWeight = AxialWeight / Math.Sqrt(2);
+
+    /// <summary>The boundary length Λ(L) = w_a N_a + w_d N_d of the labels (see <see cref="JunctionModelFit"/>), counted afresh.</summary>
+    internal static double BoundaryLength(int[] l, int w, int h)
     {
-        int n = 0;
+        int na = 0, nd = 0;
         for (int y = 0; y < h; y++)
             for (int x = 0; x < w; x++)
             {
                 int i = y * w + x;
-                if (x + 1 < w && l[i] != l[i + 1]) n++;
-                if (y + 1 < h && l[i] != l[i + w]) n++;
+                if (x + 1 < w && l[i] != l[i + 1]) na++;
+                if (y + 1 < h && l[i] != l[i + w]) na++;
+                if (x + 1 < w && y + 1 < h && l[i] != l[i + w + 1]) nd++;
+                if (x > 0 && y + 1 < h && l[i] != l[i + w - 1]) nd++;
             }
-        return n;
+        return AxialWeight * na + DiagonalWeight * nd;
     }
 
     /// <summary>C_L: the area of each pixel within <paramref name="bandPx"/> / 2 of a crack of <paramref name="labels"/> (row-major; <see cref="BandTable"/>).</summary>
@@ -184,7 +197,7 @@ public static class JunctionModelFit
         private readonly double[] dc = new double[9];
         private readonly double[] table;
         private bool[]? dirty;
-        /// <summary>Cost, in squared-residual units, of one crack edge (the Potts prior: 2σ_n² β per edge).</summary>
+        /// <summary>Cost, in squared-residual units, of a unit of boundary length Λ (2σ_n² β).</summary>
         public double Penalty { get; set; }
 
         public State(float[] flat, int[] labels, int w, int h, double sigma, double bandPx = 1)
@@ -319,7 +332,7 @@ public static class JunctionModelFit
             return merges;
         }
 
-        /// <summary>Sets <see cref="NoiseVar"/> = σ_n² and the prior's cost per crack edge, <see cref="Penalty"/> = 2σ_n² β.</summary>
+        /// <summary>Sets <see cref="NoiseVar"/> = σ_n² and the prior's cost per unit of boundary length, <see cref="Penalty"/> = 2σ_n² β.</summary>
         public void SetNoise(double noiseSd, double beta)
         {
             NoiseVar = noiseSd * noiseSd;
@@ -395,7 +408,7 @@ public static class JunctionModelFit
 
         /// <summary>The heat-bath distribution of pixel (x, y) (label a): its own label and each distinct positive
         /// 4-neighbour label b (only when a stays locally connected without it), with probability
-        /// ∝ exp(−ΔE_b / T), ΔE_b = (ΔRSS_b + 2σ_n² β Δcracks_b) / (2σ_n²) and ΔE_a = 0. Fills
+        /// ∝ exp(−ΔE_b / T), ΔE_b = (ΔRSS_b + 2σ_n² β ΔΛ_b) / (2σ_n²) and ΔE_a = 0. Fills
         /// <paramref name="cand"/> and <paramref name="prob"/> (length ≥ 5) and returns how many candidates there are.</summary>
         public int SiteDistribution(int x, int y, double temperature, Span<int> cand, Span<double> prob)
         {
@@ -522,11 +535,13 @@ public static class JunctionModelFit
             for (int dy = -1; dy <= 1; dy++)
                 for (int dx = -1; dx <= 1; dx++)
                     dc[(dy + 1) * 3 + dx + 1] = gain * (fresh[(dy + 1) * 3 + dx + 1] - cover[i + dy * w + dx]);
-            int cracks = (lab[i - 1] != b ? 1 : 0) + (lab[i + 1] != b ? 1 : 0) + (lab[i - w] != b ? 1 : 0) + (lab[i + w] != b ? 1 : 0)
-                       - (lab[i - 1] != a ? 1 : 0) - (lab[i + 1] != a ? 1 : 0) - (lab[i - w] != a ? 1 : 0) - (lab[i + w] != a ? 1 : 0);
+            int axial = (lab[i - 1] != b ? 1 : 0) + (lab[i + 1] != b ? 1 : 0) + (lab[i - w] != b ? 1 : 0) + (lab[i + w] != b ? 1 : 0)
+                      - (lab[i - 1] != a ? 1 : 0) - (lab[i + 1] != a ? 1 : 0) - (lab[i - w] != a ? 1 : 0) - (lab[i + w] != a ? 1 : 0);
+            int diagonal = (lab[i - w - 1] != b ? 1 : 0) + (lab[i - w + 1] != b ? 1 : 0) + (lab[i + w - 1] != b ? 1 : 0) + (lab[i + w + 1] != b ? 1 : 0)
+                         - (lab[i - w - 1] != a ? 1 : 0) - (lab[i - w + 1] != a ? 1 : 0) - (lab[i + w - 1] != a ? 1 : 0) - (lab[i + w + 1] != a ? 1 : 0);
             if (!apply) lab[i] = a;
             dc[4] += interior[b] - interior[a];
-            double change = Penalty * cracks;
+            double change = Penalty * (AxialWeight * axial + DiagonalWeight * diagonal);
             // The blurred change, separably: t_qy(ex) = Σ_qx ΔC(qx, qy) g(ex − qx), then ΔM(ex, ey) = Σ_qy g(ey − qy) t_qy(ex).
             int o = r + 1, span = 2 * o + 1;
             Span<double> t = stackalloc double[3 * span];

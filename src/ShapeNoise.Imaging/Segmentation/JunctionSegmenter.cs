@@ -41,9 +41,9 @@ public sealed record SegmentOptions
     /// and blurred cells but makes the masks' boundaries less steady from frame to frame;
     /// docs/segmentation.md#junction-model-fit).</summary>
     public bool ModelFit { get; init; }
-    /// <summary>Strength β of the boundary-length prior of the model fit, per crack edge in units of the log-likelihood
-    /// (docs/segmentation.md#junction-model-fit).</summary>
-    public double ModelFitBeta { get; init; } = 2;
+    /// <summary>Strength β of the boundary-length prior of the model fit, per pixel of boundary length (Cauchy–Crofton,
+    /// 8 neighbours) in units of the log-likelihood (docs/segmentation.md#junction-model-fit).</summary>
+    public double ModelFitBeta { get; init; } = 3;
     /// <summary>Model fit: neighbouring cells merge when dropping their shared boundary from the model raises the
     /// log-likelihood by more than this (docs/segmentation.md#junction-model-fit); negative = no merging.</summary>
     public double ModelMergeMargin { get; init; } = 10;

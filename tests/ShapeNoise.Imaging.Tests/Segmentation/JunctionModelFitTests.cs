@@ -99,11 +99,41 @@ public class JunctionModelFitTests
         }
     }
 
+    [Theory]
+    [InlineData(0.0)]
+    [InlineData(10.0)]
+    [InlineData(22.5)]
+    [InlineData(30.0)]
+    [InlineData(45.0)]
+    [InlineData(63.0)]
+    [InlineData(80.0)]
+    public void BoundaryLength_StraightBoundaryAtAnyAngle_IsItsEuclideanLengthByCauchyCrofton(double angleDeg)
+    {
+        // A half-plane through the centre of a 401 x 401 px frame, boundary direction at angleDeg. The Cauchy-Crofton
+        // formula (Boykov Y. and Kolmogorov V. (2003), Proc. IEEE ICCV, 26-33) makes the weighted count of neighbour pairs
+        // cut by a straight line, per unit of its Euclidean length, w_a (|n_x| + |n_y|) + w_d (|n_x + n_y| + |n_x - n_y|)
+        // for unit normal n (each pair direction e is cut |e . n| times per unit length on the unit grid). With the
+        // weights scaled so an axis-parallel line costs 1, that lies in [1, 1.082] for every direction; the crack count
+        // (4-neighbour pairs alone) gives |n_x| + |n_y|, up to √2. Euclidean length of the line across the square frame
+        // of side 401: 401 / max(|cos|, |sin|) (geometry). Tolerance 0.6 %: the pairs at the frame's edges (about 2 of 600).
+        const int w = 401;
+        double th = angleDeg * Math.PI / 180, nx = -Math.Sin(th), ny = Math.Cos(th), c = (w - 1) / 2.0;
+        var labels = new int[w * w];
+        for (int y = 0; y < w; y++)
+            for (int x = 0; x < w; x++) labels[y * w + x] = (x - c) * nx + (y - c) * ny + 1e-7 < 0 ? 1 : 2;
+        double length = w / Math.Max(Math.Abs(Math.Cos(th)), Math.Abs(Math.Sin(th)));
+        double perUnit = JunctionModelFit.BoundaryLength(labels, w, w) / length;
+        double wa = 1 / (1 + Math.Sqrt(2)), wd = wa / Math.Sqrt(2);
+        double expected = wa * (Math.Abs(nx) + Math.Abs(ny)) + wd * (Math.Abs(nx + ny) + Math.Abs(nx - ny));
+        Assert.True(Math.Abs(perUnit - expected) <= 0.006 * expected, $"{angleDeg}°: {perUnit:F4} per unit length, Cauchy-Crofton {expected:F4}");
+        Assert.InRange(perUnit, 0.994, 1.082 * 1.006);
+    }
+
     [Fact]
     public void SiteDistribution_BoundaryPixels_IsTheBoltzmannDistributionOfTheRecomputedEnergy()
     {
         // The heat-bath (Gibbs sampler) conditional of one pixel is p(label) ∝ exp(−E(label) / T) over its own label and
-        // its neighbours' (Geman S. and Geman D. (1984), IEEE TPAMI 6:721-741), E = RSS / (2σ_n²) + β × crack edges. The
+        // its neighbours' (Geman S. and Geman D. (1984), IEEE TPAMI 6:721-741), E = RSS / (2σ_n²) + β Λ (Λ the 8-neighbour boundary length). The
         // sampler's local energies must give the probabilities computed from energies recomputed on the whole frame
         // (1e-6 absolute: rounding of the residual sums).
         var (truth, flat, w, h) = Render(1.2);
