@@ -60,9 +60,9 @@ public static class JunctionModelFit
             }
             else sigma = FitSigma(flat, labels, w, h, Math.Max(minSigmaPx, sigma - 0.3), Math.Min(maxSigmaPx, sigma + 0.3), band).Sigma;
             var state = new State(flat, labels, w, h, sigma, band);
-            (_, gain) = state.Initialise();
+            (double fitRss, gain) = state.Initialise();
             if (!(gain > 0)) break;
-            state.SetNoise(noiseSd, beta);
+            state.SetNoise(EnergyNoiseSd(noiseSd, fitRss, w * h), beta);
             state.MergeMargin = mergeMargin;
             int roundMoves = 0;
             for (int k = 0; k < maxSweeps; k++)
@@ -83,14 +83,21 @@ public static class JunctionModelFit
         {
             // Gain and levels refitted on the final labels (the last round's merges changed them).
             var st = new State(flat, labels, w, h, sigma, band);
-            if (st.Initialise().Gain > 0)
+            var (rss, g) = st.Initialise();
+            if (g > 0)
             {
-                st.SetNoise(noiseSd, beta);
+                st.SetNoise(EnergyNoiseSd(noiseSd, rss, w * h), beta);
                 moves += st.Marginals(sampleSweeps, temperature, new Random(seed));
             }
         }
         return new ModelFitResult(sigma, band, gain, moves, merged, sweeps);
     }
+
+    /// <summary>The noise sd σ_n of the energy: the larger of the measured noise sd and the rms residual √(RSS / N) of the
+    /// model fitted to the current labels (the maximum-likelihood error sd given the model), so that where the model's own
+    /// misfit exceeds the noise (very clean movies) a boundary needs correspondingly more evidence
+    /// (docs/segmentation.md#junction-model-fit).</summary>
+    internal static double EnergyNoiseSd(double measuredSd, double rss, int pixels) => Math.Max(measuredSd, Math.Sqrt(rss / pixels));
 
     /// <summary>Band widths (px) the fit chooses from: the junction's physical width before the blur; 0 = the pixel line
     /// (<see cref="BandTable.Of"/>).</summary>
