@@ -16,7 +16,7 @@ public readonly record struct ModelFitResult(double SigmaPx, double BandPx, doub
 /// the contact, <see cref="BandTable"/>), G_σ a normalised sampled Gaussian, and ℓ = G_σ * (Σ_k ℓ_k 1_k) the blurred
 /// per-cell levels (background, haze and cytoplasm). w (1, 1.5, 2 px or the pixel line) and σ are chosen by least squared
 /// residual (σ by golden-section search), a and the ℓ_k by joint least squares; then a boundary pixel changes to a neighbouring label when that lowers
-/// Σ_x (F − ℓ − a M_L)² / (2 σ_n²) + β Λ(L) (σ_n the noise sd), one pixel at a time (iterated conditional modes), keeping
+/// Σ_x (F − ℓ − a M_L)² / (2 σ_n²) + β Λ(L) (σ_n the noise sd, <see cref="EnergyNoiseSd"/>), one pixel at a time (iterated conditional modes), keeping
 /// every cell locally connected; fit and sweeps are repeated for a few rounds. Λ is the boundary length by the
 /// Cauchy–Crofton formula on the 8-neighbour pairs: Λ = w_a N_a + w_d N_d, N_a (N_d) the axial (diagonal) neighbour pairs
 /// with different labels, w_a = 1 / (1 + √2), w_d = w_a / √2, so that an axis-parallel boundary costs 1 per px and a
