@@ -542,10 +542,9 @@ public static class JunctionModelFit
             for (int dy = -1; dy <= 1; dy++)
                 for (int dx = -1; dx <= 1; dx++)
                     dc[(dy + 1) * 3 + dx + 1] = gain * (fresh[(dy + 1) * 3 + dx + 1] - cover[i + dy * w + dx]);
-            int axial = (lab[i - 1] != b ? 1 : 0) + (lab[i + 1] != b ? 1 : 0) + (lab[i - w] != b ? 1 : 0) + (lab[i + w] != b ? 1 : 0)
-                      - (lab[i - 1] != a ? 1 : 0) - (lab[i + 1] != a ? 1 : 0) - (lab[i - w] != a ? 1 : 0) - (lab[i + w] != a ? 1 : 0);
-            int diagonal = (lab[i - w - 1] != b ? 1 : 0) + (lab[i - w + 1] != b ? 1 : 0) + (lab[i + w - 1] != b ? 1 : 0) + (lab[i + w + 1] != b ? 1 : 0)
-                         - (lab[i - w - 1] != a ? 1 : 0) - (lab[i - w + 1] != a ? 1 : 0) - (lab[i + w - 1] != a ? 1 : 0) - (lab[i + w + 1] != a ? 1 : 0);
+            // Change of the boundary pairs: a neighbour of label l gains a boundary pair when l != b and loses one when l != a.
+            int axial = Cut(lab[i - 1], a, b) + Cut(lab[i + 1], a, b) + Cut(lab[i - w], a, b) + Cut(lab[i + w], a, b);
+            int diagonal = Cut(lab[i - w - 1], a, b) + Cut(lab[i - w + 1], a, b) + Cut(lab[i + w - 1], a, b) + Cut(lab[i + w + 1], a, b);
             if (!apply) lab[i] = a;
             dc[4] += interior[b] - interior[a];
             double change = Penalty * (AxialWeight * axial + DiagonalWeight * diagonal);
@@ -587,6 +586,9 @@ public static class JunctionModelFit
                     for (int dx = -1; dx <= 1; dx++) cover[i + dy * w + dx] = fresh[(dy + 1) * 3 + dx + 1];
             return change;
         }
+
+        /// <summary>Change in boundary pairs between a pixel and its neighbour of label <paramref name="l"/> when the pixel goes from a to b.</summary>
+        private static int Cut(int l, int a, int b) => (l != b ? 1 : 0) - (l != a ? 1 : 0);
 
         /// <summary><see cref="Coverage"/> of the 3 x 3 pixels around pixel <paramref name="i"/>, at least 2 px from every
         /// edge, from one read of the 5 x 5 labels around it (the same 12 crack bits per pixel).</summary>
