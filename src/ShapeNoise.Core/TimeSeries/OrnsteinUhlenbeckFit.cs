@@ -54,16 +54,35 @@ internal static class OrnsteinUhlenbeckFit
     /// given: <paramref name="pow"/>[j] = Math.Pow(rho, j), at least n + 1 of them.</summary>
     public static void ExpectedSumsContiguous(int n, double rho, ReadOnlySpan<double> pow, Span<double> signal, Span<double> noise)
     {
+        ExpectedSignalContiguous(n, rho, pow, signal);
+        ExpectedNoiseContiguous(n, noise);
+    }
+
+    /// <summary>The signal part of <see cref="ExpectedSumsContiguous(int, double, ReadOnlySpan{double}, Span{double}, Span{double})"/>:
+    /// the expected lagged sums per unit sigma^2.</summary>
+    public static void ExpectedSignalContiguous(int n, double rho, ReadOnlySpan<double> pow, Span<double> signal)
+    {
         double q = 1 - rho;
         double b = (n * (1 + rho) / q - 2 * rho * (1 - pow[n]) / (q * q)) / ((double)n * n);
+        double twoOverNq = 2.0 / (n * q);
         for (int k = 0; k < signal.Length; k++)
         {
             int m = n - k;
-            if (m <= 0) { signal[k] = 0; noise[k] = 0; continue; }
+            if (m <= 0) { signal[k] = 0; continue; }
             double rk = pow[k];
-            double sumA = 2.0 / (n * q) * (m * (1 + rho) - (rho + rk * rho) * (1 - pow[m]) / q);
+            double sumA = twoOverNq * (m * (1 + rho) - (rho + rk * rho) * (1 - pow[m]) / q);
             signal[k] = m * rk + m * b - sumA;
-            noise[k] = (k == 0 ? m : 0) - (double)m / n;
+        }
+    }
+
+    /// <summary>The noise part: the expected lagged sums per unit eta^2, ([k = 0] m - m / n) with m = n - k (0 beyond the
+    /// track), the same for every rho.</summary>
+    public static void ExpectedNoiseContiguous(int n, Span<double> noise)
+    {
+        for (int k = 0; k < noise.Length; k++)
+        {
+            int m = n - k;
+            noise[k] = m <= 0 ? 0 : (k == 0 ? m : 0) - (double)m / n;
         }
     }
 
@@ -155,19 +174,26 @@ internal static class OrnsteinUhlenbeckFit
         int longest = K;
         foreach (var (len, _) in groups) longest = Math.Max(longest, len);
         var pow = new double[longest + 1];
+        // The noise part does not depend on rho: summed once, in the order every evaluation summed it before.
+        for (int gi = 0; gi < groups.Length; gi++)
+        {
+            ExpectedNoiseContiguous(groups[gi].Length, tN);
+            SpanMath.AddScaled(eN, tN, groups[gi].Weight);
+        }
+        gaps.AddNoiseTo(eN);
         double Objective(double rho, int grid, out double s2, out double e2)
         {
-            Array.Clear(eS); Array.Clear(eN);
+            Array.Clear(eS);
             if (grid < 0) Powers(rho, pow);
             for (int gi = 0; gi < groups.Length; gi++)
             {
                 var (len, gw) = groups[gi];
                 // eS += gw x (the group's expectation): a multiply then an add per element, vector-wide (the scalar loop's rounding).
-                if (grid >= 0) { SpanMath.AddScaled(eS, tables[gi].Signal[grid].AsSpan(0, K), gw); SpanMath.AddScaled(eN, tables[gi].Noise[grid].AsSpan(0, K), gw); continue; }
-                ExpectedSumsContiguous(len, rho, pow, tS, tN);
-                SpanMath.AddScaled(eS, tS, gw); SpanMath.AddScaled(eN, tN, gw);
+                if (grid >= 0) { SpanMath.AddScaled(eS, tables[gi].Signal[grid].AsSpan(0, K), gw); continue; }
+                ExpectedSignalContiguous(len, rho, pow, tS);
+                SpanMath.AddScaled(eS, tS, gw);
             }
-            gaps.AddTo(rho, eS, eN);
+            gaps.AddSignalTo(rho, eS);
             // Model of the pooled estimate: E[c(k)] = (sigma^2 eS[k] + eta^2 eN[k]) / pairs[k].
             double saa = 0, sab = 0, sbb = 0, sya = 0, syb = 0;
             for (int k = 0; k < K; k++)
@@ -336,8 +362,21 @@ internal sealed class UnitGroups
     }
 
     /// <summary>The groups by increasing length (those with a positive weight) and the gapped tracks' summed structure over
-    /// <paramref name="lags"/> lags, for <paramref name="weights"/> split into <paramref name="split"/>.</summary>
+    /// <paramref name="lags"/> lags, for <paramref name="weights"/> split into <paramref name="split"/> (the split of those
+    /// weights). Kept per split, so the coordinates fitted on one resample (the same frames and lags) build them once.</summary>
     public ((int Length, long Weight)[] Groups, GapLags Gaps) Groups(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts split, int lags)
+    {
+        if (_bySplit.TryGetValue(split, out var hit) && hit.Lags == lags) return hit.Value;
+        var r = Build(weights, split, lags);
+        _bySplit.AddOrUpdate(split, new SplitGroups(lags, r));
+        return r;
+    }
+
+    private sealed record SplitGroups(int Lags, ((int Length, long Weight)[] Groups, GapLags Gaps) Value);
+    private readonly System.Runtime.CompilerServices.ConditionalWeakTable<Statistics.UnitSplit.Parts, SplitGroups> _bySplit = new();
+    private volatile SplitGroups? _allGapsOnce;   // the gapped tracks' sum when every one of them has multiplicity 1
+
+    private ((int Length, long Weight)[] Groups, GapLags Gaps) Build(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts split, int lags)
     {
         int u = _split.Units;
         var (change, corrections) = (split.UnitChange, split.Corrections);
@@ -347,9 +386,21 @@ internal sealed class UnitGroups
             if (change[j] != 0) foreach (var (len, n) in _unitGroups[j]) gw[len] += (long)change[j] * n;
         foreach (var (i, d) in corrections)
             if (_shapes.ContiguousLength[i] is var len and >= 0) gw[len] += d;
-        var gapped = new List<(int[] Frames, int W)>();
+        return (OrnsteinUhlenbeckFit.Increasing(gw), GapSum(weights, lags));
+    }
+
+    /// <summary>The gapped tracks' weighted structure, in track order; the sum with every multiplicity 1 (every
+    /// leave-one-out fit that leaves out a track without gaps) formed once.</summary>
+    private GapLags GapSum(ReadOnlySpan<int> weights, int lags)
+    {
+        bool allOnes = true;
+        foreach (int i in _gapped) if (weights[i] != 1) { allOnes = false; break; }
+        if (allOnes && _allGapsOnce is { } once && once.Lags == lags) return once.Value.Gaps;
+        var gapped = new List<(int[] Frames, int W)>(_gapped.Length);
         foreach (int i in _gapped) if (weights[i] != 0) gapped.Add((_frames[i], weights[i]));
-        return (OrnsteinUhlenbeckFit.Increasing(gw), GapLags.Sum(gapped, lags));
+        var sum = GapLags.Sum(gapped, lags);
+        if (allOnes) _allGapsOnce = new SplitGroups(lags, ([], sum));
+        return sum;
     }
 }
 
@@ -424,6 +475,13 @@ internal sealed class GapLags
     /// (<paramref name="noise"/>) at lag-1 correlation <paramref name="rho"/>.</summary>
     public void AddTo(double rho, Span<double> signal, Span<double> noise)
     {
+        AddSignalTo(rho, signal);
+        AddNoiseTo(noise[..Math.Min(noise.Length, signal.Length)]);
+    }
+
+    /// <summary>The signal part of <see cref="AddTo"/>.</summary>
+    public void AddSignalTo(double rho, Span<double> signal)
+    {
         int len = Math.Max(_span, _lags);
         Span<double> pow = len <= 512 ? stackalloc double[len] : new double[len];
         pow[0] = 1;
@@ -433,8 +491,14 @@ internal sealed class GapLags
             double s = _pairs[k] * pow[k];
             int row = k * _span;
             for (int h = 0; h < _span; h++) s += _q[row + h] * pow[h];
-            signal[k] += s; noise[k] += _noise[k];
+            signal[k] += s;
         }
+    }
+
+    /// <summary>The noise part of <see cref="AddTo"/> (independent of rho).</summary>
+    public void AddNoiseTo(Span<double> noise)
+    {
+        for (int k = 0; k < _lags && k < noise.Length; k++) noise[k] += _noise[k];
     }
 
 }
