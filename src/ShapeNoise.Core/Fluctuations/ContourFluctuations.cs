@@ -125,34 +125,49 @@ public static class ContourFluctuations
 
     /// <summary>Per sector, sum over present pairs (t, t+k) of sum_j W_j n_j(t) n_j(t+k) / sum_j W_j, n_j(t) = (rho_j(t) -
     /// mean_j) cos g_j, W_j = pole (or flank) share times arc weight; pairs counted once per frame pair.</summary>
+    /// <remarks>The residuals are stored by sample and frame offset (missing frames 0), so the sums of one frame t for
+    /// <see cref="Vector{T}.Count"/> consecutive lags are formed lane by lane: each lane computes p = (w_j n_j(t)) n_j(t+k),
+    /// a += W_pole,j p, c += (1 - W_pole,j) p over j in order, the operations and order of the scalar loop, so the sums are
+    /// the same doubles (bench/README.md).</remarks>
     private static (TimeSeries.LagSums Along, TimeSeries.LagSums Across) SectorLagSums(ReadOnlySpan<double> rho, double[] mean, double[] cosG,
         double[] weight, double[] poleW, int frames, int m, int[]? frameIndex, int maxLag)
     {
         var f = frameIndex ?? Enumerable.Range(0, frames).ToArray();
         if (f.Length != frames) throw new ArgumentException("frameIndex must hold one frame number per outline");
-        var n = new double[frames * m];
         double wPole = 0, wFlank = 0;
-        for (int k = 0; k < m; k++) { wPole += poleW[k] * weight[k]; wFlank += (1 - poleW[k]) * weight[k]; }
+        var flankW = new double[m];
+        for (int k = 0; k < m; k++) { wPole += poleW[k] * weight[k]; wFlank += (1 - poleW[k]) * weight[k]; flankW[k] = 1 - poleW[k]; }
+        int f0 = f[0], span = f[^1] - f0 + 1, lanes = Vector<double>.Count;
+        int row = span + maxLag + lanes;                         // frame offsets, padded with zeros past the last frame
+        var nT = new double[m * row];
         for (int t = 0; t < frames; t++)
-            for (int k = 0; k < m; k++) n[t * m + k] = (rho[t * m + k] - mean[k]) * cosG[k];
-        var sa = new double[maxLag + 1]; var sc = new double[maxLag + 1]; var pa = new int[maxLag + 1]; var pc = new int[maxLag + 1];
-        int f0 = f[0], span = f[^1] - f0 + 1;
+            for (int k = 0; k < m; k++) nT[k * row + f[t] - f0] = (rho[t * m + k] - mean[k]) * cosG[k];
         var at = new int[span];
         Array.Fill(at, -1);
         for (int i = 0; i < frames; i++) at[f[i] - f0] = i;
+        var sa = new double[maxLag + 1]; var sc = new double[maxLag + 1]; var pa = new int[maxLag + 1]; var pc = new int[maxLag + 1];
+        Span<double> a = stackalloc double[lanes]; Span<double> c = stackalloc double[lanes];
         for (int i = 0; i < frames; i++)
-            for (int lag = 0; lag <= maxLag && f[i] - f0 + lag < span; lag++)
+        {
+            int s = f[i] - f0, lags = Math.Min(maxLag, span - 1 - s);
+            for (int lag0 = 0; lag0 <= lags; lag0 += lanes)
             {
-                int j = at[f[i] - f0 + lag];
-                if (j < 0) continue;
-                double a = 0, c = 0;
+                var av = Vector<double>.Zero; var cv = Vector<double>.Zero;
                 for (int k = 0; k < m; k++)
                 {
-                    double p = weight[k] * n[i * m + k] * n[j * m + k];
-                    a += poleW[k] * p; c += (1 - poleW[k]) * p;
+                    int r = k * row;
+                    var p = new Vector<double>(weight[k] * nT[r + s]) * new Vector<double>(nT, r + s + lag0);
+                    av += new Vector<double>(poleW[k]) * p; cv += new Vector<double>(flankW[k]) * p;
                 }
-                sa[lag] += a / wPole; sc[lag] += c / wFlank; pa[lag]++; pc[lag]++;
+                av.CopyTo(a); cv.CopyTo(c);
+                for (int l = 0; l < lanes && lag0 + l <= lags; l++)
+                {
+                    int lag = lag0 + l;
+                    if (at[s + lag] < 0) continue;
+                    sa[lag] += a[l] / wPole; sc[lag] += c[l] / wFlank; pa[lag]++; pc[lag]++;
+                }
             }
+        }
         return (new TimeSeries.LagSums(sa, pa), new TimeSeries.LagSums(sc, pc));
     }
 
