@@ -4,7 +4,7 @@ using NetArchTest.Rules;
 namespace ShapeNoise.Tests.Architecture;
 
 /// <summary>The dependency rule of DEVELOPERS.md: Core &lt;- Imaging, Core &lt;- Reporting, all &lt;- Cli; Core is maths and
-/// the pipeline (MathNet.Numerics and FftSharp only), OpenCvSharp only in Imaging, ScottPlot/CsvHelper/Tomlyn only in
+/// the pipeline (MathNet.Numerics only), OpenCvSharp only in Imaging, ScottPlot/CsvHelper/Tomlyn only in
 /// Reporting, and the namespaces of Core depend on each other without a circle. Checked on the compiled IL with
 /// NetArchTest.Rules (Mono.Cecil), method bodies included, and on each assembly's reference list.</summary>
 public class DependencyRuleTests
@@ -31,7 +31,7 @@ public class DependencyRuleTests
     [Fact]
     public void Core_ReferencesOnlyTheMathsPackages()
     {
-        var allowed = new[] { "System", "Microsoft", "netstandard", "mscorlib", "MathNet.Numerics", "FftSharp" };
+        var allowed = new[] { "System", "Microsoft", "netstandard", "mscorlib", "MathNet.Numerics" };
         var other = Core.GetReferencedAssemblies().Select(r => r.Name!).Where(n => !allowed.Any(p => n == p || n.StartsWith(p + ".", StringComparison.Ordinal))).ToList();
         Assert.True(other.Count == 0, $"ShapeNoise.Core references {string.Join(", ", other)}");
     }

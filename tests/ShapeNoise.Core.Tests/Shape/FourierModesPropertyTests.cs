@@ -32,7 +32,7 @@ public class FourierModesPropertyTests
     [Fact]
     public void Of_Length64_EqualsDirectSum()
     {
-        // Follows from the definition: the FFT (FftSharp) and the defining sum must agree to rounding, 1e-12 relative.
+        // Follows from the definition: the FFT and the defining sum must agree to rounding, 1e-12 relative.
         Prop.ForAll(Rho64, 401, 200, rho =>
         {
             var f = Modes(rho); var d = DirectModes(rho); double tol = 1e-12 * Scale(rho);
