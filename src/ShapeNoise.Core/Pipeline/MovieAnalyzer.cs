@@ -138,22 +138,52 @@ public static class MovieAnalyzer
         double fieldPx2 = (double)info.Width * info.Height * tally.Frames;
         double coverage = fieldPx2 > 0 ? tally.CoveredAreaSumPx2 / fieldPx2 : double.NaN;
         double coverageRaw = fieldPx2 > 0 ? tally.LabelledAreaSumPx2 / fieldPx2 : double.NaN;
-        // Confluent tissue: spatial block bootstrap; isolated cells: over tracks (docs/statistics.md#within-movie-intervals).
-        var spatial = times.Time("fluctuations", () => SpatialBlocks.For(tracks, coverage, options.BootstrapResamples, options.Seed));
-        var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
-        int used = 0;
-        foreach (var t in tracks) if (t.Used) used++;
-        var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference)) with
-        {
-            Divisions = trackCounts.Divisions, Merges = trackCounts.Merges, Outliers = trackCounts.Outliers,
-            BridgedMerges = trackCounts.BridgedMerges, BridgedSplits = trackCounts.BridgedSplits,
-            Fragments = TrackFragments.Count(tracks, tracking.MaxGapFrames),
-        };
         var cells = tally.Cells;
         double r0 = tally.MeanCellRadiusPx();
-        progress?.Report(new Progress(1, 3, "correlation times"));
-        var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options.ForDynamics, spatial.Plan));
-        progress?.Report(new Progress(2, 3, "nematic field and defects"));
+        foreach (var phase in (string[])["fluctuations", "dynamics", "defects", "motion"]) times.Add(phase, 0);   // the table's order
+        // The nematic field, the defects and the collective motion read the cells and tracks only, not the spatial blocks,
+        // the pooling or the correlation times: they run beside those (each stage's numbers are its own, whatever the order).
+        var field = Task.Run(() => FieldStages(info, cells, tracks, r0, units, coverage, options, velocities, times));
+        try
+        {
+            // Confluent tissue: spatial block bootstrap; isolated cells: over tracks (docs/statistics.md#within-movie-intervals).
+            var spatial = times.Time("fluctuations", () => SpatialBlocks.For(tracks, coverage, options.BootstrapResamples, options.Seed));
+            var pooled = times.Time("fluctuations", () => Pooling.Of(tracks, options.Rays, options.ForPooling, floorReference, spatial.Plan));
+            int used = 0;
+            foreach (var t in tracks) if (t.Used) used++;
+            var counts = tally.Counts(tracks.Count, used, Pooling.TracksBelowFloor(tracks, floorReference)) with
+            {
+                Divisions = trackCounts.Divisions, Merges = trackCounts.Merges, Outliers = trackCounts.Outliers,
+                BridgedMerges = trackCounts.BridgedMerges, BridgedSplits = trackCounts.BridgedSplits,
+                Fragments = TrackFragments.Count(tracks, tracking.MaxGapFrames),
+            };
+            progress?.Report(new Progress(1, 3, "correlation times"));
+            var dynamics = times.Time("dynamics", () => Dynamics.DynamicsAnalysis.Run(tracks, options.ForDynamics, spatial.Plan));
+            progress?.Report(new Progress(2, 3, "nematic field and defects"));
+            var (defects, hypothesis, defectStats, sweep, motion) = field.GetAwaiter().GetResult();   // rethrows the stage's own exception
+            warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
+                coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks, tracking.MaxGapFrames)
+            { CoreFlowRatio = defects.NotApplicableReason is null ? defects.CoreFlowRatio : double.NaN, DriftRemoved = defects.DriftRemoved }));
+            progress?.Report(new Progress(3, 3, "done"));
+            return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
+            {
+                Coverage = coverage, CoverageRaw = coverageRaw,
+                Motion = motion, DefectStatistics = defectStats, CoarseSweep = sweep, ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
+            };
+        }
+        catch
+        {
+            try { field.Wait(); } catch (AggregateException) { }   // no stage left running once the run has failed
+            throw;
+        }
+    }
+
+    /// <summary>The coarse-grained field stages over the cells and tracks: defects (docs/defects.md), the shape-noise
+    /// hypothesis, defect statistics and the coarse-width sweep, and collective motion (docs/motion.md).</summary>
+    private static (Nematic.DefectResult Defects, Nematic.HypothesisResult Hypothesis, Nematic.DefectStatisticsResult Statistics,
+        List<Nematic.CoarseSweepPoint> Sweep, ShapeNoise.Motion.MotionResult Motion) FieldStages(MovieInfo info, List<CellRecord> cells,
+        List<TrackRecord> tracks, double r0, Units units, double coverage, AnalysisOptions options, Nematic.IVelocitySource? velocities, PhaseTimes times)
+    {
         var defectOptions = options.ToDefectOptions();
         // One binding of the velocity source for the defect and motion stages (optical flow reads the raw movie when bound).
         var bound = new Nematic.BoundVelocities((velocities ?? Nematic.CentroidVelocities.Instance).Bind(cells, tracks));
@@ -184,15 +214,7 @@ public static class MovieAnalyzer
         var motion = times.Time("motion", () => double.IsFinite(defects.CoarsePx)
             ? ShapeNoise.Motion.MotionAnalysis.Run(info.Width, info.Height, cells, bound.VelocityOf, defects.CoarsePx, defects.GridPx, options.ForMotion, notConfluent)
             : ShapeNoise.Motion.MotionResult.Empty("no cells or no mean cell radius"));
-        warnings.AddRange(AnalysisWarnings.Of(new AnalysisWarnings.Inputs(counts, tracking.MinTrackFrames, dynamics.SokalWindowReached, dynamics.MaxLag,
-            coverage, defects.Tracks.Count, defects.PlusTracksUsed, hypothesis.DefectTracks, tracking.MaxGapFrames)
-        { CoreFlowRatio = defects.NotApplicableReason is null ? defects.CoreFlowRatio : double.NaN, DriftRemoved = defects.DriftRemoved }));
-        progress?.Report(new Progress(3, 3, "done"));
-        return new AnalysisResult(info, options, units, counts, cells, tracks, pooled, r0, floorReference, warnings, dynamics, defects, hypothesis)
-        {
-            Coverage = coverage, CoverageRaw = coverageRaw,
-            Motion = motion, DefectStatistics = defectStats, CoarseSweep = sweep, ResamplingUnit = spatial.Plan.UnitName, BlockSizePx = spatial.Plan.BlockSizePx, ShapeCorrelationLengthPx = spatial.CorrelationLengthPx,
-        };
+        return (defects, hypothesis, defectStats, sweep, motion);
     }
 
     /// <summary>Refuses a movie of fewer than 2 frames and a noise-floor reference measured with another ray count.</summary>
