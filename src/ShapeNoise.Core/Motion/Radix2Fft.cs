@@ -24,7 +24,7 @@ internal sealed class Radix2Fft
         Length = n;
         int bits = System.Numerics.BitOperations.Log2((uint)n);
         _reverse = new int[n];
-        for (int i = 0; i < n; i++) _reverse[i] = bits == 0 ? 0 : (int)(ReverseBits((uint)i) >> (32 - bits));
+        for (int i = 0; i < n; i++) _reverse[i] = BitReversal.Of(i, bits);
         _cos = new double[Math.Max(1, n / 2)]; _sin = new double[Math.Max(1, n / 2)];
         for (int j = 0; j < n / 2; j++) { _cos[j] = Math.Cos(2 * Math.PI * j / n); _sin[j] = Math.Sin(2 * Math.PI * j / n); }
     }
@@ -34,15 +34,6 @@ internal sealed class Radix2Fft
     {
         if (n < 1 || (n & (n - 1)) != 0) throw new ArgumentException($"FFT length {n} is not a power of two");
         return Tables.GetOrAdd(n, static m => new Radix2Fft(m));
-    }
-
-    private static uint ReverseBits(uint v)
-    {
-        v = ((v >> 1) & 0x55555555u) | ((v & 0x55555555u) << 1);
-        v = ((v >> 2) & 0x33333333u) | ((v & 0x33333333u) << 2);
-        v = ((v >> 4) & 0x0F0F0F0Fu) | ((v & 0x0F0F0F0Fu) << 4);
-        v = ((v >> 8) & 0x00FF00FFu) | ((v & 0x00FF00FFu) << 8);
-        return (v >> 16) | (v << 16);
     }
 
     /// <summary>Forward transform of (re, im), each of <see cref="Length"/> values, in place.</summary>

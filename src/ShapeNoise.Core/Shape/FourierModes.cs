@@ -46,7 +46,7 @@ internal static class FourierModes
             var swaps = new List<(int, int)>();
             for (int i = 1; i < m; i++)
             {
-                int r = (int)(ReverseBits((uint)i) >> (32 - bits));
+                int r = BitReversal.Of(i, bits);
                 if (r > i) swaps.Add((i, r));
             }
             _swaps = swaps.ToArray();
@@ -56,15 +56,6 @@ internal static class FourierModes
                 double step = -Math.PI / h;
                 for (int j = 0; j < h; j++) _twiddles[h - 1 + j] = new Complex(Math.Cos(step * j), Math.Sin(step * j));
             }
-        }
-
-        private static uint ReverseBits(uint v)
-        {
-            v = ((v >> 1) & 0x55555555u) | ((v & 0x55555555u) << 1);
-            v = ((v >> 2) & 0x33333333u) | ((v & 0x33333333u) << 2);
-            v = ((v >> 4) & 0x0F0F0F0Fu) | ((v & 0x0F0F0F0Fu) << 4);
-            v = ((v >> 8) & 0x00FF00FFu) | ((v & 0x00FF00FFu) << 8);
-            return (v >> 16) | (v << 16);
         }
 
         /// <summary>The tables for M points (M a power of two, at least 2); the last one built is kept.</summary>
