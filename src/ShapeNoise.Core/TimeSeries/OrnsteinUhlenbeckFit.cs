@@ -263,10 +263,11 @@ internal static class OrnsteinUhlenbeckFit
     }
 }
 
-/// <summary><see cref="OrnsteinUhlenbeckFit.ExpectedSumsContiguous(int, double, Span{double}, Span{double})"/> of a track of n frames at the points of the fit's search
+/// <summary>The signal part of <see cref="OrnsteinUhlenbeckFit.ExpectedSumsContiguous(int, double, Span{double}, Span{double})"/>
+/// (<see cref="OrnsteinUhlenbeckFit.ExpectedSignalContiguous"/>) of a track of n frames at the points of the fit's search
 /// grid over log tau in [lo, hi] (rho = exp(-1 / exp(log tau)), the fit's own expression), lags 0..K-1: the same numbers
-/// in every bootstrap fit, computed once (bench/README.md).</summary>
-internal sealed record GridExpectations(double[][] Signal, double[][] Noise)
+/// in every bootstrap fit, computed once (bench/README.md). The noise part does not depend on rho and is summed once per fit.</summary>
+internal sealed record GridExpectations(double[][] Signal)
 {
     private static readonly System.Collections.Concurrent.ConcurrentDictionary<(int N, int K, double Lo, double Hi), GridExpectations> Cache = new();
 
@@ -277,14 +278,16 @@ internal sealed record GridExpectations(double[][] Signal, double[][] Noise)
         return Cache.GetOrAdd((n, K, lo, hi), static key =>
         {
             int points = Statistics.Minimize.DefaultGrid + 1;
-            var s = new double[points][]; var e = new double[points][];
+            var s = new double[points][];
+            var pow = new double[key.N + 1];
             for (int g = 0; g < points; g++)
             {
-                s[g] = new double[key.K]; e[g] = new double[key.K];
-                double lt = Statistics.Minimize.GridPoint(key.Lo, key.Hi, g);
-                OrnsteinUhlenbeckFit.ExpectedSumsContiguous(key.N, Math.Exp(-1 / Math.Exp(lt)), s[g], e[g]);
+                s[g] = new double[key.K];
+                double rho = Math.Exp(-1 / Math.Exp(Statistics.Minimize.GridPoint(key.Lo, key.Hi, g)));
+                OrnsteinUhlenbeckFit.Powers(rho, pow);
+                OrnsteinUhlenbeckFit.ExpectedSignalContiguous(key.N, rho, pow, s[g]);
             }
-            return new GridExpectations(s, e);
+            return new GridExpectations(s);
         });
     }
 }
@@ -362,21 +365,8 @@ internal sealed class UnitGroups
     }
 
     /// <summary>The groups by increasing length (those with a positive weight) and the gapped tracks' summed structure over
-    /// <paramref name="lags"/> lags, for <paramref name="weights"/> split into <paramref name="split"/> (the split of those
-    /// weights). Kept per split, so the coordinates fitted on one resample (the same frames and lags) build them once.</summary>
+    /// <paramref name="lags"/> lags, for <paramref name="weights"/> split into <paramref name="split"/>.</summary>
     public ((int Length, long Weight)[] Groups, GapLags Gaps) Groups(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts split, int lags)
-    {
-        if (_bySplit.TryGetValue(split, out var hit) && hit.Lags == lags) return hit.Value;
-        var r = Build(weights, split, lags);
-        _bySplit.AddOrUpdate(split, new SplitGroups(lags, r));
-        return r;
-    }
-
-    private sealed record SplitGroups(int Lags, ((int Length, long Weight)[] Groups, GapLags Gaps) Value);
-    private readonly System.Runtime.CompilerServices.ConditionalWeakTable<Statistics.UnitSplit.Parts, SplitGroups> _bySplit = new();
-    private volatile SplitGroups? _allGapsOnce;   // the gapped tracks' sum when every one of them has multiplicity 1
-
-    private ((int Length, long Weight)[] Groups, GapLags Gaps) Build(ReadOnlySpan<int> weights, Statistics.UnitSplit.Parts split, int lags)
     {
         int u = _split.Units;
         var (change, corrections) = (split.UnitChange, split.Corrections);
@@ -386,21 +376,9 @@ internal sealed class UnitGroups
             if (change[j] != 0) foreach (var (len, n) in _unitGroups[j]) gw[len] += (long)change[j] * n;
         foreach (var (i, d) in corrections)
             if (_shapes.ContiguousLength[i] is var len and >= 0) gw[len] += d;
-        return (OrnsteinUhlenbeckFit.Increasing(gw), GapSum(weights, lags));
-    }
-
-    /// <summary>The gapped tracks' weighted structure, in track order; the sum with every multiplicity 1 (every
-    /// leave-one-out fit that leaves out a track without gaps) formed once.</summary>
-    private GapLags GapSum(ReadOnlySpan<int> weights, int lags)
-    {
-        bool allOnes = true;
-        foreach (int i in _gapped) if (weights[i] != 1) { allOnes = false; break; }
-        if (allOnes && _allGapsOnce is { } once && once.Lags == lags) return once.Value.Gaps;
-        var gapped = new List<(int[] Frames, int W)>(_gapped.Length);
+        var gapped = new List<(int[] Frames, int W)>();
         foreach (int i in _gapped) if (weights[i] != 0) gapped.Add((_frames[i], weights[i]));
-        var sum = GapLags.Sum(gapped, lags);
-        if (allOnes) _allGapsOnce = new SplitGroups(lags, ([], sum));
-        return sum;
+        return (OrnsteinUhlenbeckFit.Increasing(gw), GapLags.Sum(gapped, lags));
     }
 }
 
