@@ -270,6 +270,9 @@ static int Micro()
     Console.WriteLine($"OU fit, leave one out, by units: {Time(2000, i => { ones[i] = 0; double t = ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, ones, 33, 0, units.Split(ones)).TauFrames; ones[i] = 1; return t; }),8:F1} us per call");
     Console.WriteLine($"OU fit, block draw, by units: {Time(2000, i => ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, plan.Draws[i % 200], 33, 0, units.Split(plan.Draws[i % 200])).TauFrames),8:F1} us per call");
     Console.WriteLine($"OU fit, block draw, by tracks: {Time(2000, i => ShapeNoise.TimeSeries.OrnsteinUhlenbeckFit.Fit(tracks, frames, plan.Draws[i % 200], 33).TauFrames),8:F1} us per call");
+    // One orientation-correlation fit of a block draw (the correlation-time bootstrap's per-resample work): pooling, the
+    // pooled curve's covariance over the tracks, the generalized chi^2 fits (30 lags).
+    Console.WriteLine($"orientation fit, block draw, 30 lags: {Time(1000, i => ShapeNoise.Dynamics.OrientationCorrelation.FitTracks(tracks, plan.Draws[i % 200], 30, 1000, units.Split(plan.Draws[i % 200])).TauFrames),8:F1} us per call");
     // One track's contour fluctuations (100 frames, 64 rays, lags to 30): the per-track work of the fluctuation stage.
     var rhoTrack = Enumerable.Range(0, 100 * 64).Select(j => 20 + 5 * Math.Cos(2 * Math.PI * (j % 64) / 64) + rnd.NextDouble()).ToArray();
     Console.WriteLine($"contour of one track, 100 frames x 64 rays: {Time(2000, i => ShapeNoise.Fluctuations.ContourFluctuations.Of(rhoTrack, 100, 64).VarAlongRaw),8:F1} us per call");

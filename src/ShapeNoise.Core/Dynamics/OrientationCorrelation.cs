@@ -103,24 +103,56 @@ internal static class OrientationCorrelation
     /// A plateau fit at p = 0 or 1, or with A &lt; <see cref="MinAmplitude"/> (nothing decorrelates), is not admissible: the no-plateau fit is kept.
     /// </summary>
     /// <summary>The lower triangle (b &lt;= a) of sum_i w_i d_i[a] d_i[b], d_i[a] = (Sum_i[k] - c[k] Pairs_i[k]) / pairs[k] with
-    /// k = idx[a] + 1: each row is added as (w_i d_i[a]) d_i[b] over b, a multiply then an add per element (vector-wide, not
-    /// fused), so the sums are those of the element-by-element loop.</summary>
+    /// k = idx[a] + 1: each element is the sum over the tracks in their order of (w_i d_i[a]) d_i[b], a multiply then an add
+    /// (vector-wide over b, not fused), so the sums are those of the element-by-element loop. The tracks of nonzero weight are
+    /// taken in blocks of <see cref="CovarianceBlock"/> rows, and each block is swept once per element group with the
+    /// running sums held in registers.</summary>
     private static double[,] LowerCovariance(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, double[] c, long[] pairs, int[] idx)
     {
         int m = idx.Length;
         var flat = new double[m * m];
-        var d = new double[m];
+        var d = new double[CovarianceBlock * m]; var s = new double[CovarianceBlock * m];
+        int rows = 0;
         for (int i = 0; i < tracks.Count; i++)
         {
             int wi = weights.Length == 0 ? 1 : weights[i];
             if (wi == 0) continue;
             var t = tracks[i];
-            for (int a = 0; a < m; a++) { int k = idx[a] + 1; d[a] = (t.Sum[k] - c[k] * t.Pairs[k]) / pairs[k]; }
-            for (int a = 0; a < m; a++) SpanMath.AddScaled(flat.AsSpan(a * m, a + 1), d.AsSpan(0, a + 1), wi * d[a]);
+            var di = d.AsSpan(rows * m, m); var si = s.AsSpan(rows * m, m);
+            for (int a = 0; a < m; a++) { int k = idx[a] + 1; di[a] = (t.Sum[k] - c[k] * t.Pairs[k]) / pairs[k]; }
+            for (int a = 0; a < m; a++) si[a] = wi * di[a];
+            if (++rows == CovarianceBlock) { AddBlock(flat, d, s, rows, m); rows = 0; }
         }
+        if (rows > 0) AddBlock(flat, d, s, rows, m);
         var cov = new double[m, m];
         for (int a = 0; a < m; a++) for (int b = 0; b <= a; b++) cov[a, b] = flat[a * m + b];
         return cov;
+    }
+
+    /// <summary>Rows of tracks per block of <see cref="LowerCovariance"/> (a block of d and w d stays in the first-level cache).</summary>
+    private const int CovarianceBlock = 32;
+
+    /// <summary>flat[a m + b] += s_r[a] d_r[b] for b &lt;= a, over the rows r of the block in order.</summary>
+    private static void AddBlock(double[] flat, double[] d, double[] s, int rows, int m)
+    {
+        int w = System.Numerics.Vector.IsHardwareAccelerated ? System.Numerics.Vector<double>.Count : int.MaxValue;
+        for (int a = 0; a < m; a++)
+        {
+            int b = 0;
+            for (; b + w <= a + 1; b += w)
+            {
+                var acc = new System.Numerics.Vector<double>(flat.AsSpan(a * m + b));
+                for (int r = 0; r < rows; r++)
+                    acc += new System.Numerics.Vector<double>(s[r * m + a]) * new System.Numerics.Vector<double>(d.AsSpan(r * m + b));
+                acc.CopyTo(flat.AsSpan(a * m + b));
+            }
+            for (; b <= a; b++)
+            {
+                double acc = flat[a * m + b];
+                for (int r = 0; r < rows; r++) acc += s[r * m + a] * d[r * m + b];
+                flat[a * m + b] = acc;
+            }
+        }
     }
 
     public static PlateauFit FitTracks(IReadOnlyList<LagSums> tracks, ReadOnlySpan<int> weights, int fitLags, double maxTauFrames, Statistics.UnitSplit.Parts? split = null)
