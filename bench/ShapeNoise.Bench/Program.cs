@@ -273,6 +273,11 @@ static int Micro()
     // One orientation-correlation fit of a block draw (the correlation-time bootstrap's per-resample work): pooling, the
     // pooled curve's covariance over the tracks, the generalized chi^2 fits (30 lags).
     Console.WriteLine($"orientation fit, block draw, 30 lags: {Time(1000, i => ShapeNoise.Dynamics.OrientationCorrelation.FitTracks(tracks, plan.Draws[i % 200], 30, 1000, units.Split(plan.Draws[i % 200])).TauFrames),8:F1} us per call");
+    // One spatial correlation of the motion stage (an 87 x 87-node vector field, 43 bins: the benchmark movie's grid).
+    var fa = Enumerable.Range(0, 87 * 87).Select(_ => rnd.NextDouble() - 0.5).ToArray();
+    var fb = Enumerable.Range(0, 87 * 87).Select(_ => rnd.NextDouble() - 0.5).ToArray();
+    var fk = Enumerable.Repeat(1.0, 87 * 87).ToArray();
+    Console.WriteLine($"field correlation, 87 x 87 nodes, 43 bins: {Time(100, i => ShapeNoise.Motion.FieldCorrelation.Of(87, 87, 12, fa, fb, fk, 43).Sum[1]),8:F1} us per call");
     // One track's contour fluctuations (100 frames, 64 rays, lags to 30): the per-track work of the fluctuation stage.
     var rhoTrack = Enumerable.Range(0, 100 * 64).Select(j => 20 + 5 * Math.Cos(2 * Math.PI * (j % 64) / 64) + rnd.NextDouble()).ToArray();
     Console.WriteLine($"contour of one track, 100 frames x 64 rays: {Time(2000, i => ShapeNoise.Fluctuations.ContourFluctuations.Of(rhoTrack, 100, 64).VarAlongRaw),8:F1} us per call");

@@ -68,12 +68,12 @@ public static class FieldCorrelation
         var (mr, mi) = Spectrum(nx, ny, px, py, keep, null, ws.Mr, ws.Mi, ws);
         // Power spectra: |A|^2 + |B|^2 = (|Z(k)|^2 + |Z(-k)|^2) / 2 for z = a + i b; the mask's |M|^2 in the imaginary part
         // (both autocorrelations are real and even, so one inverse transform returns them as real and imaginary parts).
-        // The spectra are stored transposed: index kx py + ky.
+        // Index ky px + kx.
         var sr = ws.Sr; var si = ws.Si;
-        for (int kx = 0; kx < px; kx++)
-            for (int ky = 0; ky < py; ky++)
+        for (int ky = 0; ky < py; ky++)
+            for (int kx = 0; kx < px; kx++)
             {
-                int k = kx * py + ky, kn = ((px - kx) % px) * py + (py - ky) % py;
+                int k = ky * px + kx, kn = ((py - ky) % py) * px + (px - kx) % px;
                 sr[k] = b is null ? Half(zr[k], zi[k], zr[kn], zi[kn]) : 0.5 * (zr[k] * zr[k] + zi[k] * zi[k] + zr[kn] * zr[kn] + zi[kn] * zi[kn]);
                 si[k] = mr[k] * mr[k] + mi[k] * mi[k];
             }
@@ -95,43 +95,43 @@ public static class FieldCorrelation
         return p;
     }
 
-    /// <summary>The 2D transform of a + i b (b null: 0) zero-padded to px x py, returned transposed (index kx py + ky):
-    /// the row transforms skip the py - ny rows that are all zero (docs/motion.md#spatial-correlations-by-fft).</summary>
+    /// <summary>The 2D transform of a + i b (b null: 0) zero-padded to px x py (index ky px + kx). Both passes run on whole
+    /// rows (<see cref="Radix2Fft.ForwardColumns"/>): the rows' transforms along x on the transposed field, of the ny rows
+    /// only (the py - ny padding rows are all zero), then along y (docs/motion.md#spatial-correlations-by-fft).</summary>
     private static (double[] Re, double[] Im) Spectrum(int nx, int ny, int px, int py, double[] a, double[]? b, double[] tr, double[] ti, Workspace ws)
     {
-        var fx = Radix2Fft.For(px);
-        var rowR = ws.RowR; var rowI = ws.RowI;
-        Array.Clear(tr); Array.Clear(ti);     // the padding rows j >= ny stay zero
+        var xr = ws.Xr; var xi = ws.Xi;     // x-major: index x ny + j
+        Array.Clear(xr, 0, px * ny); Array.Clear(xi, 0, px * ny);
         for (int j = 0; j < ny; j++)
-        {
-            Array.Clear(rowR); Array.Clear(rowI);
-            a.AsSpan(j * nx, nx).CopyTo(rowR);
-            if (b is not null) b.AsSpan(j * nx, nx).CopyTo(rowI);
-            fx.Forward(rowR, rowI);
-            for (int i = 0; i < px; i++) { tr[i * py + j] = rowR[i]; ti[i * py + j] = rowI[i]; }
-        }
-        var fy = Radix2Fft.For(py);
-        for (int i = 0; i < px; i++) fy.Forward(tr.AsSpan(i * py, py), ti.AsSpan(i * py, py));
+            for (int x = 0; x < nx; x++)
+            {
+                xr[x * ny + j] = a[j * nx + x];
+                if (b is not null) xi[x * ny + j] = b[j * nx + x];
+            }
+        Radix2Fft.For(px).ForwardColumns(xr, xi, ny);
+        Array.Clear(tr); Array.Clear(ti);     // the padding rows j >= ny stay zero
+        for (int kx = 0; kx < px; kx++)
+            for (int j = 0; j < ny; j++) { tr[j * px + kx] = xr[kx * ny + j]; ti[j * px + kx] = xi[kx * ny + j]; }
+        Radix2Fft.For(py).ForwardColumns(tr, ti, px);
         return (tr, ti);
     }
 
-    /// <summary>The inverse transform of the transposed spectrum s, conj(FFT(conj s)) / (px py), at the displacements
-    /// |d_y| &lt;= <paramref name="reachY"/> only: row r = d_y + reachY holds d_x = 0..px - 1 (negative d_x wrapped).</summary>
+    /// <summary>The inverse transform of the spectrum s (index ky px + kx), conj(FFT(conj s)) / (px py), at the displacements
+    /// |d_y| &lt;= <paramref name="reachY"/> only, returned d_x-major: index d_x rows + r, r = d_y + reachY, rows = 2 reachY + 1,
+    /// d_x = 0..px - 1 (negative d_x wrapped).</summary>
     private static (double[] Re, double[] Im) Inverse(double[] sr, double[] si, int px, int py, int reachY, Workspace ws)
     {
         for (int k = 0; k < si.Length; k++) si[k] = -si[k];
-        var fy = Radix2Fft.For(py);
-        for (int i = 0; i < px; i++) fy.Forward(sr.AsSpan(i * py, py), si.AsSpan(i * py, py));
+        Radix2Fft.For(py).ForwardColumns(sr, si, px);
         int rows = 2 * reachY + 1;
         var ur = ws.Ur; var ui = ws.Ui;      // every element written below
         for (int r = 0; r < rows; r++)
         {
             int dy = (r - reachY + py) % py;
-            for (int i = 0; i < px; i++) { ur[r * px + i] = sr[i * py + dy]; ui[r * px + i] = si[i * py + dy]; }
+            for (int kx = 0; kx < px; kx++) { ur[kx * rows + r] = sr[dy * px + kx]; ui[kx * rows + r] = si[dy * px + kx]; }
         }
-        var fx = Radix2Fft.For(px);
+        Radix2Fft.For(px).ForwardColumns(ur, ui, rows);
         double f = 1.0 / ((double)px * py);
-        for (int r = 0; r < rows; r++) fx.Forward(ur.AsSpan(r * px, px), ui.AsSpan(r * px, px));
         for (int k = 0; k < ur.Length; k++) { ur[k] *= f; ui[k] *= -f; }
         return (ur, ui);
     }
@@ -147,7 +147,7 @@ public static class FieldCorrelation
                 double dist = Math.Sqrt(dx * dx + dy * dy);
                 int bin = (int)Math.Round(dist);
                 if (bin >= bins) continue;
-                int k = (dy + reachY) * px + (dx + px) % px;
+                int k = ((dx + px) % px) * (2 * reachY + 1) + dy + reachY;
                 double pairs = Math.Round(im[k]);
                 if (pairs <= 0) continue;
                 r.Sum[bin] += re[k]; r.Pairs[bin] += pairs; r.RSum[bin] += pairs * dist * h;
@@ -162,7 +162,7 @@ public static class FieldCorrelation
     {
         private static readonly System.Collections.Concurrent.ConcurrentBag<Workspace> Free = new();
         public readonly int Px, Py, Rows;
-        public readonly double[] Zr, Zi, Mr, Mi, Sr, Si, Ur, Ui, RowR, RowI;
+        public readonly double[] Zr, Zi, Mr, Mi, Sr, Si, Ur, Ui, Xr, Xi;
 
         private Workspace(int px, int py, int rows)
         {
@@ -170,7 +170,7 @@ public static class FieldCorrelation
             Zr = new double[px * py]; Zi = new double[px * py]; Mr = new double[px * py]; Mi = new double[px * py];
             Sr = new double[px * py]; Si = new double[px * py];
             Ur = new double[rows * px]; Ui = new double[rows * px];
-            RowR = new double[px]; RowI = new double[px];
+            Xr = new double[px * py]; Xi = new double[px * py];
         }
 
         public static Workspace Rent(int px, int py, int rows)
