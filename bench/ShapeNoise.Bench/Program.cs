@@ -278,6 +278,14 @@ static int Micro()
     var fb = Enumerable.Range(0, 87 * 87).Select(_ => rnd.NextDouble() - 0.5).ToArray();
     var fk = Enumerable.Repeat(1.0, 87 * 87).ToArray();
     Console.WriteLine($"field correlation, 87 x 87 nodes, 43 bins: {Time(100, i => ShapeNoise.Motion.FieldCorrelation.Of(87, 87, 12, fa, fb, fk, 43).Sum[1]),8:F1} us per call");
+    // Tracing every outline of one frame of the benchmark movie (about 2400 labels), one thread, when the movie is there.
+    string benchMovie = Path.Combine(FindRoot(), "bench", "data", "monolayer-1024-100.tif");
+    if (File.Exists(benchMovie))
+    {
+        using var lm = LabelMovies.Open(benchMovie);
+        var scan = LabelScan.Of(lm.Frames().First());
+        Console.WriteLine($"trace one frame's {scan.Boxes.Length} outlines: {Time(20, i => { double v = 0; for (int b = 0; b < scan.Boxes.Length; b++) v += OutlineTracer.Trace(scan.DenseImage, scan.Width, scan.Height, scan.Boxes[b], b + 1, OutlineMethod.Midpoint, 1, 30).ComponentPixels; return v; }),8:F1} us per call");
+    }
     // One track's contour fluctuations (100 frames, 64 rays, lags to 30): the per-track work of the fluctuation stage.
     var rhoTrack = Enumerable.Range(0, 100 * 64).Select(j => 20 + 5 * Math.Cos(2 * Math.PI * (j % 64) / 64) + rnd.NextDouble()).ToArray();
     Console.WriteLine($"contour of one track, 100 frames x 64 rays: {Time(2000, i => ShapeNoise.Fluctuations.ContourFluctuations.Of(rhoTrack, 100, 64).VarAlongRaw),8:F1} us per call");
