@@ -6,7 +6,8 @@ using ShapeNoise.Cli.Jobs;
 //   --quick : 512 x 512 px, ~625 cells, 30 and 60 frames
 //   --phases: decode and the in-process phases only (with --quick for the small movie)
 //   --scale : also 2048 x 2048 px, ~10 000 cells, 200 frames end to end, against 4 x 2 x the 1024 x 1024, 100-frame time
-//   --micro : per-call cost of the two kernels every bootstrap and leave-one-out fit runs (pooling, one OU fit)
+//   --micro : per-call cost of the kernels every bootstrap and leave-one-out fit runs (pooling, one OU fit, one orientation
+//             fit), of one motion correlation, and of tracing one frame's outlines
 //   --guard : quick run that fails (exit 1) when the analysis time over a fixed calibration workload (a BCL sort, not
 //             project code) exceeds 3x the ratio recorded in bench/baseline.json
 using System.Diagnostics;
