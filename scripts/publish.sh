@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Publishes the command with ReadyToRun code for the libraries that are not hot (see the comment in
-# src/ShapeNoise.Cli/ShapeNoise.Cli.csproj and bench/README.md): about 0.2-0.4 s less start-up per run than the plain build.
+# src/ShapeNoise.Cli/ShapeNoise.Cli.csproj and bench/README.md): about 0.2-0.3 s less per run than the plain build.
 # Usage: bash scripts/publish.sh [OUT_DIR]   (default dist/shapenoise; run it as: dotnet OUT_DIR/shapenoise.dll ...)
 set -euo pipefail
 cd "$(dirname "$0")/.."
