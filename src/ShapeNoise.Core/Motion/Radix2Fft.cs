@@ -36,36 +36,14 @@ internal sealed class Radix2Fft
         return Tables.GetOrAdd(n, static m => new Radix2Fft(m));
     }
 
-    /// <summary>Forward transform of (re, im), each of <see cref="Length"/> values, in place.</summary>
-    public void Forward(Span<double> re, Span<double> im)
-    {
-        int n = Length;
-        for (int i = 0; i < n; i++)
-        {
-            int j = _reverse[i];
-            if (j <= i) continue;
-            (re[i], re[j]) = (re[j], re[i]);
-            (im[i], im[j]) = (im[j], im[i]);
-        }
-        for (int size = 2; size <= n; size <<= 1)
-        {
-            int half = size >> 1, step = n / size;
-            for (int start = 0; start < n; start += size)
-                for (int k = 0; k < half; k++)
-                {
-                    double wr = _cos[k * step], wi = -_sin[k * step];
-                    int a = start + k, b = a + half;
-                    double tr = wr * re[b] - wi * im[b], ti = wr * im[b] + wi * re[b];
-                    re[b] = re[a] - tr; im[b] = im[a] - ti;
-                    re[a] += tr; im[a] += ti;
-                }
-        }
-    }
+    /// <summary>Forward transform of (re, im), each of <see cref="Length"/> values, in place: one column of
+    /// <see cref="ForwardColumns"/>.</summary>
+    public void Forward(Span<double> re, Span<double> im) => ForwardColumns(re, im, 1);
 
     /// <summary>Forward transform of every column of the row-major <see cref="Length"/> x <paramref name="width"/> matrix
     /// (re, im), in place: column c is the sequence (re[t width + c], im[t width + c]), t = 0..Length - 1. Each butterfly
     /// works on two whole rows, <see cref="System.Numerics.Vector{T}.Count"/> columns at a time; every column gets the
-    /// operations of <see cref="Forward"/> in its order (multiply, multiply, add or subtract; never fused), so each column's
+    /// operations of the scalar butterfly in its order (multiply, multiply, add or subtract; never fused), so each column's
     /// result is the same doubles as <see cref="Forward"/> on that column alone.</summary>
     public void ForwardColumns(Span<double> re, Span<double> im, int width)
     {
