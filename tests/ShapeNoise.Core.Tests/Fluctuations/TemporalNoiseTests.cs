@@ -129,6 +129,59 @@ public class TemporalNoiseTests(ITestOutputHelper log)
         Assert.Equal(c.AlongLags.Pairs, c.AcrossLags.Pairs);
     }
 
+    [Theory]
+    [InlineData(false)]
+    [InlineData(true)]
+    public void ContourOf_SectorLagSums_EveryLagIsTheDefiningSum(bool exactCircle)
+    {
+        // docs/measures.md#temporal-noise-model: Sum[k] = sum over present pairs (t, t+k) of sum_j W_j n_j(t) n_j(t+k) /
+        // sum_j W_j, n_j = (rho_j - mean_j) cos g_j, g_j = atan(rho'_j / mean_j) (central difference), W_j = the pole (or
+        // flank) share of sample j times its arc weight sqrt(mean_j^2 + rho'_j^2). Recomputed here pair by pair. The exact
+        // circle (a mean of exactly 10 px: noise of +-0.25 and +-0.5 px in opposite pairs of frames) puts samples 4, 12, 20
+        // and 28 of 32 at 45 degrees, where the share is 1/2; the noisy ellipse has shares of 0 and 1 only.
+        const int m = 32, T = 12, maxLag = 7;
+        var rng = new Random(9);
+        var rho = new double[T * m];
+        for (int t = 0; t < T; t++)
+            for (int k = 0; k < m; k++)
+                rho[t * m + k] = exactCircle ? 10 + (t % 2 == 0 ? 1 : -1) * (k % 3 == 0 ? 0.25 : 0.5)
+                    : RadialFunction.Ellipse(14, 9, 2 * Math.PI * k / m) + 0.3 * MathNet.Numerics.Distributions.Normal.Sample(rng, 0, 1);
+        int[] frames = [0, 1, 2, 3, 4, 6, 7, 8, 9, 10, 11, 12];
+        var c = ContourFluctuations.Of(rho, T, m, frames, maxLag);
+        var mean = new double[m];
+        for (int k = 0; k < m; k++) { for (int t = 0; t < T; t++) mean[k] += rho[t * m + k]; mean[k] /= T; }
+        var pole = new double[m]; var w = new double[m]; var cosG = new double[m];
+        double dpsi = 2 * Math.PI / m;
+        for (int k = 0; k < m; k++)
+        {
+            double dm = (mean[(k + 1) % m] - mean[(k + m - 1) % m]) / (2 * dpsi), g = Math.Atan(dm / mean[k]);
+            double cb = Math.Abs(Math.Cos(k * dpsi - g));
+            pole[k] = Math.Abs(cb - Math.Sqrt(0.5)) < 1e-12 ? 0.5 : cb > Math.Sqrt(0.5) ? 1 : 0;
+            w[k] = Math.Sqrt(mean[k] * mean[k] + dm * dm); cosG[k] = Math.Cos(g);
+        }
+        if (exactCircle) Assert.Equal(4, pole.Count(p => p == 0.5));
+        for (int lag = 0; lag <= maxLag; lag++)
+        {
+            double along = 0, across = 0; int pairs = 0;
+            for (int i = 0; i < T; i++)
+            {
+                int j = Array.IndexOf(frames, frames[i] + lag);
+                if (j < 0) continue;
+                double a = 0, wa = 0, x = 0, wx = 0;
+                for (int k = 0; k < m; k++)
+                {
+                    double p = w[k] * (rho[i * m + k] - mean[k]) * cosG[k] * (rho[j * m + k] - mean[k]) * cosG[k];
+                    a += pole[k] * p; wa += pole[k] * w[k]; x += (1 - pole[k]) * p; wx += (1 - pole[k]) * w[k];
+                }
+                along += a / wa; across += x / wx; pairs++;
+            }
+            Assert.Equal(pairs, c.AlongLags!.Pairs[lag]);
+            // Relative 1e-12: the same sums in another order of multiplication (rounding only).
+            Assert.Equal(along, c.AlongLags.Sum[lag], 1e-12 * Math.Abs(along) + 1e-300);
+            Assert.Equal(across, c.AcrossLags!.Sum[lag], 1e-12 * Math.Abs(across) + 1e-300);
+        }
+    }
+
     /// <summary>A track record whose L and W are given series and whose contour carries given sector lag sums.</summary>
     private static TrackRecord Record(int id, double[] l, double[] w, double[] along, double[] across, int maxLag)
     {
