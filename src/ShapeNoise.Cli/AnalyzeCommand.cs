@@ -37,6 +37,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
         [CommandOption("--deconvolve <PX>"), Description("With --raw: sd (px) of the microscope's Gaussian point-spread function: the image the watershed floods is deconvolved with it (Richardson-Lucy, kernel at most 1.5 px; the seeds are not); 0 = off (default).")] public double Deconvolve { get; init; }
         [CommandOption("--model-fit"), Description("With --raw: end the segmentation by fitting a blurred-junction model to the image (see segment --model-fit).")] public bool ModelFit { get; init; }
         [CommandOption("--marginal-sweeps <N>"), Description("With --raw --model-fit: label each pixel by its most frequent label over N sweeps sampling the fitted model (see segment --marginal-sweeps; 0 = off).")] public int MarginalSweeps { get; init; }
+        [CommandOption("--seeds <METHOD>"), Description("With --raw: seed method of the segmentation, hminima (default) or laplacian (see segment --seeds).")] public string Seeds { get; init; } = "hminima";
         [CommandOption("--no-crest"), Description("With --raw: keep the segmented masks' outlines instead of moving them onto the crest of the junction signal.")] public bool NoCrest { get; init; }
         [CommandOption("--velocity <SOURCE>"), Description("Cell velocities for the defect analysis: centroids (tracked) or flow (Farneback optical flow of the raw movie; needs --raw).")] public string Velocity { get; init; } = "centroids";
         [CommandOption("--keep-drift"), Description("Keep stage drift (the tissue's median cell velocity per frame) in defect speeds and cell flows; by default it is removed (docs/defects.md#drift).")] public bool KeepDrift { get; init; }
@@ -65,8 +66,8 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
         // Segmentation options act only on a raw movie: given with a label movie they would be silently ignored.
-        if (!s.Raw && (s.ModelFit || s.MarginalSweeps != 0 || s.Deconvolve != 0 || s.NoCrest))
-            throw new ArgumentException("--model-fit, --marginal-sweeps, --deconvolve and --no-crest segment a raw movie: give --raw too");
+        if (!s.Raw && (s.ModelFit || s.MarginalSweeps != 0 || s.Deconvolve != 0 || s.NoCrest || s.Seeds != "hminima"))
+            throw new ArgumentException("--model-fit, --marginal-sweeps, --deconvolve, --seeds and --no-crest segment a raw movie: give --raw too");
         var options = new AnalysisOptions
         {
             PixelSizeUm = s.PixelSize, FrameIntervalMin = s.FrameInterval, Rays = s.Rays, MinAreaPx = s.MinArea, BorderMarginPx = s.BorderMargin,
@@ -115,7 +116,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
 
     private static AnalysisResult Analyze(Settings s, AnalysisOptions options, MovieSelection sel, IProgress<MovieAnalyzer.Progress>? progress, IEnumerable<string> cmd)
         => s.Raw
-            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter, CrestOutlines = !s.NoCrest, DeconvolveSigmaPx = s.Deconvolve, ModelFit = s.ModelFit, MarginalSweeps = s.MarginalSweeps }, progress, cmd, sel)
+            ? RawAnalyzeJob.Run(s.Input, Target(s), options, new ShapeNoise.Imaging.Segmentation.SegmentOptions { CellDiameterUm = s.CellDiameter, CrestOutlines = !s.NoCrest, DeconvolveSigmaPx = s.Deconvolve, ModelFit = s.ModelFit, MarginalSweeps = s.MarginalSweeps, Seeds = SeedMethodOption.Parse(s.Seeds) }, progress, cmd, sel)
             : AnalyzeJob.Run(s.Input, Target(s), options, p => LabelMovies.Open(p, sel), progress, cmd, new ShapeNoise.Imaging.Drawing.DefectOverlays());
 
     private static OutputTarget Target(Settings s) => new(s.Out, s.Overwrite, s.FloorFrom is null ? [s.Input] : [s.Input, s.FloorFrom]);

@@ -18,8 +18,9 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         [CommandOption("--boundary-sigma <PX>"), Description("Smoothing (px) of the image the watershed floods.")] public double BoundarySigma { get; init; } = 0.6;
         [CommandOption("--min-area-fraction <FRACTION>"), Description("Fragments below this fraction of the expected cell area are merged into a neighbour.")] public double MinAreaFraction { get; init; } = 0.15;
         [CommandOption("--max-area-factor <FACTOR>"), Description("Regions above this many expected cell areas are not cells and are dropped.")] public double MaxAreaFactor { get; init; } = 6;
-        [CommandOption("--seeds <METHOD>"), Description("Seed method: hminima (minima deeper than --seed-depth noise sd; default) or window (minima over --seed-window).")] public string Seeds { get; init; } = "hminima";
-        [CommandOption("--seed-depth <SD>"), Description("hminima seeds: a minimum is a seed when it is at least this many noise sd (measured, of the smoothed image) below the pass to a deeper one (default 2; 1 with --model-fit).")] public double? SeedDepth { get; init; }
+        [CommandOption("--seeds <METHOD>"), Description("Seed method: hminima (minima deeper than --seed-depth noise sd; default), laplacian (the same on the Laplacian of Gaussian at --seed-scale: finds cells whose junctions the blur has flattened) or window (minima over --seed-window).")] public string Seeds { get; init; } = "hminima";
+        [CommandOption("--seed-scale <FRACTION>"), Description("laplacian seeds: scale of the Laplacian of Gaussian, as a fraction of the cell diameter.")] public double SeedScale { get; init; } = new SegmentOptions().SeedScaleFraction;
+        [CommandOption("--seed-depth <SD>"), Description("hminima seeds: a minimum is a seed when it is at least this many noise sd (measured, of the smoothed image) below the pass to a deeper one (default 2; 1 with --model-fit; 1.5 for laplacian seeds).")] public double? SeedDepth { get; init; }
         [CommandOption("--ridge-contrast <SD>"), Description("Neighbouring regions whose shared boundary rises less than this many noise sd above the brighter interior are merged (0 = never).")] public double RidgeContrast { get; init; } = new SegmentOptions().RidgeContrastSd;
         [CommandOption("--ridge-passes <N>"), Description("Passes moving boundary pixels on a crest's flank to its far side (0 = off, the default).")] public int RidgePasses { get; init; }
         [CommandOption("--track-seeds"), Description("Seed each frame with the previous frame's cells shrunk by --track-erosion diameters (steadier boundaries and counts on slowly moving tissue).")] public bool TrackSeeds { get; init; }
@@ -41,12 +42,7 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         {
             CellDiameterUm = s.CellDiameter, FlattenDiameters = s.Flatten, SmoothFraction = s.Smooth, SeedWindowFraction = s.SeedWindow,
             BoundarySigmaPx = s.BoundarySigma, MinAreaFraction = s.MinAreaFraction, MaxAreaFactor = s.MaxAreaFactor,
-            Seeds = s.Seeds.ToLowerInvariant() switch
-            {
-                "hminima" => SeedMethod.HMinima,
-                "window" => SeedMethod.Window,
-                _ => throw new ArgumentException($"--seeds must be hminima or window (got {s.Seeds})"),
-            },
+            Seeds = SeedMethodOption.Parse(s.Seeds), SeedScaleFraction = s.SeedScale,
             SeedDepthSd = s.SeedDepth, RidgeContrastSd = s.RidgeContrast, RidgePasses = s.RidgePasses, TrackSeeds = s.TrackSeeds, TrackErosionFraction = s.TrackErosion,
             DeconvolveSigmaPx = s.Deconvolve, DeconvolveIterations = s.DeconvolveIterations,
             ModelFit = s.ModelFit, ModelFitBeta = s.FitPrior, ModelMergeMargin = s.MergeMargin,
@@ -61,6 +57,18 @@ internal sealed class SegmentCommand : Command<SegmentCommand.Settings>
         AnsiConsole.MarkupLineInterpolated($"segmented {frames} frames ({cells:F0} cells per frame) into [bold]{Path.Combine(s.Out, "labels.tif")}[/]");
         return 0;
     }
+}
+
+/// <summary>The --seeds option of segment and analyze --raw.</summary>
+internal static class SeedMethodOption
+{
+    public static SeedMethod Parse(string value) => value.ToLowerInvariant() switch
+    {
+        "hminima" => SeedMethod.HMinima,
+        "laplacian" => SeedMethod.Laplacian,
+        "window" => SeedMethod.Window,
+        _ => throw new ArgumentException($"--seeds must be hminima, laplacian or window (got {value})"),
+    };
 }
 
 /// <summary>Reports (done, total) on the calling thread.</summary>

@@ -13,6 +13,9 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>The <c>segment</c> and <c>score</c> jobs.</summary>
 public static class SegmentJob
 {
+    /// <summary>run.json's options: enums by name ("Laplacian", not 2), as analyze and synth write them.</summary>
+    private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
+
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
     public static (int Frames, double MeanCells) Run(string input, OutputTarget outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,
@@ -46,7 +49,7 @@ public static class SegmentJob
             });
             var xml = TiffWriter.OmeXml(info.Width, info.Height, info.FrameCount, "uint16", s, dt);
             TiffWriter.Write(Path.Combine(dir, "labels.tif"), info.Width, info.Height, pages, TiffWriter.PixelType.UInt16, xml);
-            var opts = JsonSerializer.SerializeToNode(o)!;
+            var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
             var prov = Provenance.Describe("segment", movie.Files, opts, commandLine);
             prov["movie"] = Provenance.Movie(info, s, info.PixelSizeSource, dt, info.FrameIntervalSource);
             var warnings = CountJumps(qc, CountJumpFraction);

@@ -66,10 +66,15 @@ public sealed record SegmentOptions
     /// <summary>h-minima seeds: a minimum of the seed image is a seed when its dynamic is at least this many noise sd of
     /// the seed image (measured noise of the flattened image, reduced by the smoothing); null = 2, or 1 with
     /// <see cref="ModelFit"/> on, whose merge test removes the extra splits (both chosen on the tuning renders;
-    /// docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
+    /// docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast); 1.5 for <see cref="SeedMethod.Laplacian"/> seeds
+    /// (docs/segmentation.md#laplacian-seeds).</summary>
     public double? SeedDepthSd { get; init; }
-    /// <summary>The seed depth in use: <see cref="SeedDepthSd"/>, or its default (2; 1 with <see cref="ModelFit"/>).</summary>
-    public double SeedDepth => SeedDepthSd ?? (ModelFit ? 1 : 2);
+    /// <summary>The seed depth in use: <see cref="SeedDepthSd"/>, or its default (2; 1 with <see cref="ModelFit"/>; 1.5 for
+    /// <see cref="SeedMethod.Laplacian"/> seeds).</summary>
+    public double SeedDepth => SeedDepthSd ?? (Seeds == SeedMethod.Laplacian ? 1.5 : ModelFit ? 1 : 2);
+    /// <summary><see cref="SeedMethod.Laplacian"/> seeds: scale σ_s of the Laplacian of Gaussian as a fraction of the cell
+    /// diameter (0.18, chosen on the tuning renders; docs/segmentation.md#laplacian-seeds).</summary>
+    public double SeedScaleFraction { get; init; } = 0.18;
     /// <summary>Neighbouring regions whose shared boundary rises less than this many noise sd (of the boundary image)
     /// above the brighter region's interior level are merged: the boundary has no ridge; 2 chosen with the seed depth
     /// (docs/segmentation.md#choice-of-seed-depth-and-ridge-contrast).</summary>
@@ -98,6 +103,9 @@ public sealed record SegmentOptions
         if (!(BoundarySigmaWidthFactor >= 0)) throw new ArgumentException($"the junction-width factor must be >= 0 (got {BoundarySigmaWidthFactor})");
         if (MinAreaFraction < 0 || !(MaxAreaFactor > 1)) throw new ArgumentException("--min-area-fraction must be >= 0 and --max-area-factor > 1");
         if (!(SeedDepth > 0)) throw new ArgumentException($"--seed-depth must be > 0 noise sd (got {SeedDepth})");
+        if (!(SeedScaleFraction > 0 && SeedScaleFraction <= 1)) throw new ArgumentException($"--seed-scale must be in (0, 1] cell diameters (got {SeedScaleFraction})");
+        if (Seeds == SeedMethod.Laplacian && !ModelFit)
+            throw new ArgumentException("--seeds laplacian places extra seeds that the model fit's merge test removes: give --model-fit too");
         if (!(RidgeContrastSd >= 0)) throw new ArgumentException($"--ridge-contrast must be >= 0 noise sd (got {RidgeContrastSd})");
         if (RidgePasses is < 0 or > 50) throw new ArgumentException($"--ridge-passes must be in 0..50 (got {RidgePasses})");
         if (!(DeconvolveSigmaPx >= 0 && DeconvolveSigmaPx <= 0.25 * DiameterPx))
@@ -120,6 +128,10 @@ public enum SeedMethod
     HMinima,
     /// <summary>Pixels equal to the minimum over a window of <see cref="SegmentOptions.SeedWindowFraction"/> diameters and below the median.</summary>
     Window,
+    /// <summary>h-minima of the scale-normalised Laplacian-of-Gaussian response −σ_s² ∇²(G_σs * F) of the flattened frame F,
+    /// σ_s = <see cref="SegmentOptions.SeedScaleFraction"/> × D, with the depth in noise sd of that image
+    /// (docs/segmentation.md#laplacian-seeds).</summary>
+    Laplacian,
 }
 
 /// <summary>One segmented frame with what the QC needs.</summary>
@@ -245,9 +257,12 @@ public static class JunctionSegmenter
         int next = 0;
         bool[]? free = null;
         if (o.TrackSeeds && previous is not null && previous.Length == n) { free = TrackedCores(previous, labels, width, height, o.TrackErosionFraction * d); next = labels.Max(); }
-        var seeds = o.Seeds == SeedMethod.Window
-            ? WindowSeeds(smooth, width, height, o, d)
-            : Watershed.HMinima(smooth, width, height, o.SeedDepth * NoiseLevel.AfterBlur(noise, seedSigma), free);
+        var seeds = o.Seeds switch
+        {
+            SeedMethod.Window => WindowSeeds(smooth, width, height, o, d),
+            SeedMethod.Laplacian => LaplacianSeeds(frame.Flat, noise, o, free),
+            _ => Watershed.HMinima(smooth, width, height, o.SeedDepth * NoiseLevel.AfterBlur(noise, seedSigma), free),
+        };
         foreach (var p in seeds) if (labels[p] == 0) labels[p] = ++next;
         if (o.Seeds == SeedMethod.Window) GroupSeeds(labels, width, height);
         Watershed.Flood(fine, labels, width, height);
@@ -434,6 +449,44 @@ public static class JunctionSegmenter
         var f = new float[m.Rows * m.Cols];
         System.Runtime.InteropServices.Marshal.Copy(m.Data, f, 0, f.Length);
         return f;
+    }
+
+    /// <summary>Seeds of <see cref="SeedMethod.Laplacian"/>: the h-minima of <see cref="LaplacianOfGaussian"/> at
+    /// σ_s = <see cref="SegmentOptions.SeedScaleFraction"/> × D whose dynamic is at least the seed depth times the sd of the
+    /// measured white noise <paramref name="noiseSd"/> after that filter.</summary>
+    private static List<int> LaplacianSeeds(Mat flat, double noiseSd, SegmentOptions o, bool[]? free)
+    {
+        var (image, gain) = LaplacianOfGaussian(flat, o.SeedScaleFraction * o.DiameterPx);
+        return Watershed.HMinima(image, flat.Width, flat.Height, o.SeedDepth * gain * noiseSd, free);
+    }
+
+    /// <summary>The scale-normalised Laplacian of Gaussian with the sign that makes cell interiors minima,
+    /// L = −σ² ∇²(G_σ * F) (OpenCV's Gaussian blur, then its 3 x 3 Laplacian), and the sd of L for white noise of unit sd:
+    /// the L2 norm of the filter's impulse response (for the continuous filter 1 / (σ √(2π))).</summary>
+    /// <remarks>Blob detection by the scale-normalised Laplacian: Lindeberg T. (1998), "Feature detection with automatic
+    /// scale selection", Int. J. Comput. Vision 30:79-116; Marr D. and Hildreth E. (1980), Proc. R. Soc. Lond. B 207:187-217.</remarks>
+    internal static (float[] Image, double NoiseGain) LaplacianOfGaussian(Mat src, double sigma)
+    {
+        var image = ScaledLaplacian(src, sigma);
+        int half = (int)Math.Ceiling(4 * sigma) + 2, n = 2 * half + 1;
+        var delta = new float[n * n];
+        delta[half * n + half] = 1;
+        using var impulse = FromArray(delta, n, n);
+        double ss = 0;
+        foreach (float v in ScaledLaplacian(impulse, sigma)) ss += (double)v * v;
+        return (image, Math.Sqrt(ss));
+    }
+
+    /// <summary>−σ² ∇²(G_σ * <paramref name="src"/>), row-major.</summary>
+    private static float[] ScaledLaplacian(Mat src, double sigma)
+    {
+        using var blurred = new Mat();
+        Cv2.GaussianBlur(src, blurred, new Size(0, 0), sigma);
+        using var lap = new Mat();
+        Cv2.Laplacian(blurred, lap, MatType.CV_32F, 1);
+        var a = ToArray(lap);
+        for (int i = 0; i < a.Length; i++) a[i] = (float)(-sigma * sigma * a[i]);
+        return a;
     }
 
     private static float[] Blurred(Mat src, double sigma)

@@ -183,11 +183,32 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         Assert.False(Directory.Exists(d["c"]));
     }
 
+    [Fact]
+    public void Cli_SegmentLaplacianSeeds_RecordedByNameAndNeedsModelFit()
+    {
+        // segment --seeds laplacian (docs/segmentation.md#laplacian-seeds): run.json records the method by name with its
+        // scale and depth; without --model-fit, whose merge test removes the extra seeds, the option is refused (exit 64
+        // naming --model-fit) and no output folder is made.
+        using var d = new TempDir();
+        Assert.Equal(0, Support.Cli.Run("synth", "monolayer", "--out", d["m"], "--cells", "80", "--frames", "2", "--raw").ExitCode);
+        var r = Support.Cli.Run("segment", d["m/raw.tif"], "--out", d["a"], "--cell-diameter", "8.9", "--model-fit", "--seeds", "laplacian");
+        Assert.True(r.ExitCode == 0, r.Stderr);
+        var run = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(d["a/run.json"]))!;
+        Assert.Equal("Laplacian", run["options"]!["Seeds"]!.GetValue<string>());
+        Assert.Equal(0.18, run["options"]!["SeedScaleFraction"]!.GetValue<double>());
+        Assert.Equal(1.5, run["options"]!["SeedDepth"]!.GetValue<double>());
+        var bad = Support.Cli.Run("segment", d["m/raw.tif"], "--out", d["b"], "--cell-diameter", "8.9", "--seeds", "laplacian");
+        Assert.Equal(64, bad.ExitCode);
+        Assert.Contains("--model-fit", bad.Stderr);
+        Assert.False(Directory.Exists(d["b"]));
+    }
+
     [Theory]
     [InlineData("--model-fit")]
     [InlineData("--marginal-sweeps", "20")]
     [InlineData("--deconvolve", "1.2")]
     [InlineData("--no-crest")]
+    [InlineData("--seeds", "laplacian")]
     public void Cli_AnalyzeSegmentationOptionWithoutRaw_RefusedNamingRaw(params string[] option)
     {
         // A segmentation option given with a label movie used to be ignored without a word; now analyze refuses it
