@@ -86,7 +86,9 @@ public class RenderFamilyTableTests(ITestOutputHelper log)
         {
             var p = kv.Split('=');
             var prop = typeof(SegmentOptions).GetProperty(p[0]) ?? throw new ArgumentException(p[0]);
-            object v = prop.PropertyType == typeof(bool) ? (object)bool.Parse(p[1]) : prop.PropertyType == typeof(int) ? (object)int.Parse(p[1]) : (object)double.Parse(p[1], System.Globalization.CultureInfo.InvariantCulture);
+            object v = prop.PropertyType == typeof(bool) ? (object)bool.Parse(p[1]) : prop.PropertyType == typeof(int) ? (object)int.Parse(p[1])
+                : prop.PropertyType.IsEnum ? Enum.Parse(prop.PropertyType, p[1], ignoreCase: true)
+                : (object)double.Parse(p[1], System.Globalization.CultureInfo.InvariantCulture);
             var clone = o with { };
             prop.SetValue(clone, v);
             o = clone;
