@@ -142,6 +142,28 @@ public class RenderFamilyTests(ITestOutputHelper log)
     }
 
     [Fact]
+    public void Segment_HeldBackHardestMembers_LaplacianSeedsPsfAndSamplingMeetTargets()
+    {
+        // Issue 17's targets (SEG >= 0.88, Ulman et al. 2017; detection F1 >= 0.95) on the two members of the held-back
+        // family (seed 900) that no earlier setting brought there: cells of 8 px at SNR 5 and a 2.5 px PSF on 12 px cells.
+        // Setting: --model-fit --marginal-sweeps 1000 --seeds laplacian --deconvolve <the member's PSF>
+        // (docs/segmentation.md#laplacian-seeds); measured SEG 0.881 / F1 0.985 and 0.887 / 0.985 (see
+        // the log); on held-back seed 901, untouched when the setting was chosen, 0.882 / 0.989 and 0.883 / 0.986.
+        var failures = new List<string>();
+        foreach (var m in new[] { new RenderMember("grid", 8, 5, 1.2, 1), new RenderMember("psf", 12, 8, 2.5, 1) })
+        {
+            var o = new ShapeNoise.Imaging.Segmentation.SegmentOptions
+            {
+                ModelFit = true, MarginalSweeps = 1000, Seeds = ShapeNoise.Imaging.Segmentation.SeedMethod.Laplacian, DeconvolveSigmaPx = m.PsfPx,
+            };
+            var sc = RenderFamily.Run(m, 900, o).Score;
+            log.WriteLine($"| {m} | 900 | {sc.Seg:F3} | {sc.F1:F3} | {sc.Precision:F3} | {sc.Recall:F3} |");
+            if (sc.Seg < 0.88 || sc.F1 < 0.95) failures.Add($"{m}: SEG {sc.Seg:F3}, F1 {sc.F1:F3}");
+        }
+        Assert.True(failures.Count == 0, string.Join("; ", failures));
+    }
+
+    [Fact]
     public void Segment_StaticTissueFreshNoise_BoundaryJitterBelowThirdPixel()
     {
         // Issue 17: rms boundary displacement under 0.3 px on a static tissue rendered with fresh noise each frame. The
