@@ -178,9 +178,15 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         Assert.Equal(20, run["options"]!["MarginalSweeps"]!.GetValue<int>());
         Assert.Equal(2, run["options"]!["MarginalTemperature"]!.GetValue<double>());
         var bad = Support.Cli.Run("segment", d["m/raw.tif"], "--out", d["c"], "--cell-diameter", "8.9", "--marginal-sweeps", "20");
-        Assert.Equal(64, bad.ExitCode);
-        Assert.Contains("--model-fit", bad.Stderr);
-        Assert.False(Directory.Exists(d["c"]));
+        AssertRefusedBeforeWriting(bad, "--model-fit", d["c"]);
+    }
+
+    /// <summary>A bad option: exit 64, the message names <paramref name="flag"/>, and no output folder was made.</summary>
+    private static void AssertRefusedBeforeWriting(Support.Cli.Result r, string flag, string outDir)
+    {
+        Assert.Equal(64, r.ExitCode);
+        Assert.Contains(flag, r.Stderr);
+        Assert.False(Directory.Exists(outDir));
     }
 
     [Fact]
@@ -198,9 +204,7 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         Assert.Equal(0.18, run["options"]!["SeedScaleFraction"]!.GetValue<double>());
         Assert.Equal(1.5, run["options"]!["SeedDepth"]!.GetValue<double>());
         var bad = Support.Cli.Run("segment", d["m/raw.tif"], "--out", d["b"], "--cell-diameter", "8.9", "--seeds", "laplacian");
-        Assert.Equal(64, bad.ExitCode);
-        Assert.Contains("--model-fit", bad.Stderr);
-        Assert.False(Directory.Exists(d["b"]));
+        AssertRefusedBeforeWriting(bad, "--model-fit", d["b"]);
     }
 
     [Theory]
@@ -216,9 +220,7 @@ public class JunctionSegmentationTests(ITestOutputHelper log)
         using var d = new TempDir();
         Assert.Equal(0, Support.Cli.Run("synth", "monolayer", "--out", d["m"], "--cells", "40", "--frames", "3").ExitCode);
         var r = Support.Cli.Run(["analyze", d["m/labels.tif"], "--out", d["o"], .. option]);
-        Assert.Equal(64, r.ExitCode);
-        Assert.Contains("--raw", r.Stderr);
-        Assert.False(Directory.Exists(d["o"]));
+        AssertRefusedBeforeWriting(r, "--raw", d["o"]);
     }
 
     [Fact]
