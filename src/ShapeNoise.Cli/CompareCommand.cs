@@ -33,7 +33,7 @@ internal sealed class CompareCommand : Command<CompareCommand.Settings>
             static System.Text.Json.Nodes.JsonNode? N(double v) => double.IsFinite(v) ? v : null;
             var arr = new System.Text.Json.Nodes.JsonArray();
             foreach (var d in r.Differences)
-                arr.Add(new System.Text.Json.Nodes.JsonObject
+                arr.Add((System.Text.Json.Nodes.JsonNode)new System.Text.Json.Nodes.JsonObject
                 {
                     ["measure"] = d.Measure, ["condition_a"] = d.A, ["condition_b"] = d.B, ["difference"] = N(d.Difference.Value),
                     ["ci95"] = new System.Text.Json.Nodes.JsonArray(N(d.Difference.Low), N(d.Difference.High)), ["ratio"] = N(d.Ratio.Value), ["p_value"] = N(d.PValue),

@@ -152,6 +152,8 @@ internal static class StrictOptions
         return near is null ? "; see --help" : $"; did you mean '{near}'?";
     }
 
+    [System.Diagnostics.CodeAnalysis.UnconditionalSuppressMessage("Trimming", "IL2026", Justification = "The settings types live in this assembly, which the native publish does not trim (TrimMode partial); scripts/check-native.sh runs every command natively.")]
+    [System.Diagnostics.CodeAnalysis.UnconditionalSuppressMessage("Trimming", "IL2072", Justification = "The settings types live in this assembly, which the native publish does not trim (TrimMode partial); scripts/check-native.sh runs every command natively.")]
     private static void Convert(OptionSpec o, string value, string command)
     {
         var t = Nullable.GetUnderlyingType(o.ValueType) ?? o.ValueType;
@@ -179,6 +181,7 @@ internal static class StrictOptions
 
     private static bool IsNumber(string s) => double.TryParse(s, NumberStyles.Float, CultureInfo.InvariantCulture, out _);
 
+    [System.Diagnostics.CodeAnalysis.UnconditionalSuppressMessage("Trimming", "IL2070", Justification = "The settings types live in this assembly, which the native publish does not trim (TrimMode partial); scripts/check-native.sh runs every command natively.")]
     private static Spec SpecOf(Type settings)
     {
         var options = new List<OptionSpec>(); int positionals = 0; bool list = false;

@@ -112,7 +112,7 @@ public static class DefectStatisticsReport
     {
         var u = UnitScale.Of(r.Units); var a = new JsonArray();
         foreach (var p in r.CoarseSweep)
-            a.Add(new JsonObject
+            a.Add((JsonNode)new JsonObject
             {
                 ["coarse_width_option"] = p.Width.ToString(), ["coarse_width"] = u.Length(p.CoarsePx),
                 ["plus_half_per_frame"] = p.PlusPerFrame, ["minus_half_per_frame"] = p.MinusPerFrame,

@@ -151,7 +151,7 @@ public static class OutputFolder
         files.Sort(StringComparer.Ordinal);
         if (JsonNode.Parse(File.ReadAllText(runJson)) is not JsonObject run) return;
         var arr = new JsonArray();
-        foreach (var f in files) arr.Add(f);
+        foreach (var f in files) arr.Add((JsonNode)f);
         run["files"] = arr;
         File.WriteAllText(runJson, run.ToJsonString(Summary.Indented));
     }

@@ -43,7 +43,7 @@ public static class Provenance
         foreach (var f in inputFiles)
         {
             var fi = new FileInfo(f);
-            inputs.Add(new JsonObject { ["name"] = fi.Name, ["path"] = fi.FullName, ["bytes"] = fi.Length, ["sha256"] = Sha256(f) });
+            inputs.Add((JsonNode)new JsonObject { ["name"] = fi.Name, ["path"] = fi.FullName, ["bytes"] = fi.Length, ["sha256"] = Sha256(f) });
         }
         return new JsonObject
         {

@@ -213,7 +213,7 @@ public static class SimulationParameters
     }
 
     /// <summary>The same content as TOML (nulls become nan; TOML has no null).</summary>
-    public static string ToToml(JsonObject o) => Tomlyn.TomlSerializer.Serialize(ToTable(o), typeof(TomlTable), (Tomlyn.TomlSerializerOptions?)null);
+    public static string ToToml(JsonObject o) => Tomlyn.TomlSerializer.Serialize(ToTable(o), SimParamsToml.Default.TomlTable);
 
     private static TomlTable ToTable(JsonObject o)
     {
@@ -272,3 +272,8 @@ public sealed record SimulationInput(double TauLFrames, double TauWFrames, doubl
     /// <summary>Tracks behind the file's numbers (its "tracks" key); 0 when absent.</summary>
     public int Tracks { get; init; }
 }
+
+/// <summary>The TOML writer's metadata for the table model, generated at build time (Tomlyn source generation) rather than by
+/// reflection, so the ahead-of-time compiled command (scripts/publish.sh) writes sim-params.toml as the JIT-compiled one does.</summary>
+[Tomlyn.Serialization.TomlSerializable(typeof(TomlTable))]
+internal sealed partial class SimParamsToml : Tomlyn.Serialization.TomlSerializerContext;

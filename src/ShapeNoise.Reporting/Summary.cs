@@ -55,7 +55,7 @@ public static class Summary
         var u = r.Units; var p = r.Pooled; var c = r.Counts; var us = UnitScale.Of(u);
         double s = us.LengthFactor, s2 = us.AreaFactor;
         var warnings = new JsonArray();
-        foreach (var w in r.Warnings) warnings.Add(w);
+        foreach (var w in r.Warnings) warnings.Add((JsonNode)w);
         var summary = new JsonObject
         {
             ["tool_version"] = Provenance.ToolVersion,

@@ -10,8 +10,6 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>The whole <c>analyze</c> job: open the movie, analyse it, write the output folder with provenance.</summary>
 public static class AnalyzeJob
 {
-    /// <summary>Options serialisation for run.json: enums as their names; one cached instance (CA1869).</summary>
-    private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
 
     /// <param name="input">Movie path (file or folder).</param>
     /// <param name="outDir">Output folder; written atomically.</param>
@@ -54,7 +52,7 @@ public static class AnalyzeJob
         }
         if (options.FloorFrom is not null) files.Add(Path.Combine(options.FloorFrom, "floor.json"));
         if (extraInputs is not null) files.InsertRange(0, extraInputs);
-        var opts = JsonSerializer.SerializeToNode(options, OptionsJson)!;
+        var opts = OptionsJson.Node(options);
         var prov = Provenance.Describe("analyze", files, opts, commandLine);
         prov["movie"] = Provenance.Movie(result.Movie, result.Units.PixelSizeUm, result.Units.PixelSizeSource, result.Units.FrameIntervalMin, result.Units.FrameIntervalSource);
         var figs = frameFigures;

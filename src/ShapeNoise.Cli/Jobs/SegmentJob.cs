@@ -14,7 +14,6 @@ namespace ShapeNoise.Cli.Jobs;
 public static class SegmentJob
 {
     /// <summary>run.json's options: enums by name ("Laplacian", not 2), as analyze and synth write them.</summary>
-    private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
 
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
@@ -49,14 +48,14 @@ public static class SegmentJob
             });
             var xml = TiffWriter.OmeXml(info.Width, info.Height, info.FrameCount, "uint16", s, dt);
             TiffWriter.Write(Path.Combine(dir, "labels.tif"), info.Width, info.Height, pages, TiffWriter.PixelType.UInt16, xml);
-            var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
+            var opts = OptionsJson.Node(o);
             var prov = Provenance.Describe("segment", movie.Files, opts, commandLine);
             prov["movie"] = Provenance.Movie(info, s, info.PixelSizeSource, dt, info.FrameIntervalSource);
             var warnings = CountJumps(qc, CountJumpFraction);
             foreach (var w in warnings) Console.Error.WriteLine($"warning: {w}");
             var perFrame = new JsonArray();
             foreach (var q in qc)
-                perFrame.Add(new JsonObject
+                perFrame.Add((JsonNode)new JsonObject
                 {
                     ["frame"] = q.Frame, ["cells"] = q.Cells, ["cell_area_fraction"] = Math.Round(q.CellAreaFraction, 4), ["seeds"] = q.Seeds,
                     ["ridgeless_merges"] = q.RidgelessMerges, ["fragment_merges"] = q.FragmentMerges, ["noise_sd"] = Math.Round(q.NoiseSd, 5),

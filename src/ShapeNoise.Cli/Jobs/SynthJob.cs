@@ -10,8 +10,6 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>Writes a synthetic scenario as an OME-TIFF label movie with its truth.json and run.json.</summary>
 public static class SynthJob
 {
-    /// <summary>Options serialisation for run.json: enums as their names; one cached instance (CA1869).</summary>
-    private static readonly JsonSerializerOptions OptionsJson = new() { Converters = { new System.Text.Json.Serialization.JsonStringEnumConverter() } };
 
     /// <summary>Fluctuating ellipses: labels.tif (uint16, Deflate, OME-XML with pixel size and frame interval) and truth.json.</summary>
     public static EllipseMovie Ellipses(EllipseMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null, JsonObject? fromSimParams = null)
@@ -27,7 +25,7 @@ public static class SynthJob
             var truth = TruthJson(movie);
             if (fromSimParams is not null) truth["from_sim_params"] = fromSimParams;
             File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
-            var opts = JsonSerializer.SerializeToNode(o)!;
+            var opts = OptionsJson.Node(o);
             var prov = Provenance.Describe("synth ellipses", [], opts, commandLine);
             File.WriteAllText(Path.Combine(dir, "run.json"), prov.ToJsonString(Summary.Indented));
         });
@@ -137,7 +135,7 @@ public static class SynthJob
                 ["render_exceeds_target"] = n.Exceeds,
             };
         var warnings = new JsonArray();
-        foreach (var n in noise) if (ExceedWarning(n, pixelSizeUm) is { } w) warnings.Add(w);
+        foreach (var n in noise) if (ExceedWarning(n, pixelSizeUm) is { } w) warnings.Add((JsonNode)w);
         double fine = pixelSizeUm / supersample;
         return new JsonObject
         {
@@ -233,7 +231,7 @@ public static class SynthJob
             var t = movie.Truth; double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
             var frames = new JsonArray();
             for (int f = 0; f < o.Frames; f++)
-                frames.Add(new JsonObject
+                frames.Add((JsonNode)new JsonObject
                 {
                     ["frame"] = f,
                     ["plus_x_um"] = t.PlusX[f] * s, ["plus_y_um"] = t.PlusY[f] * s, ["minus_x_um"] = t.MinusX[f] * s, ["minus_y_um"] = t.MinusY[f] * s,
@@ -258,7 +256,7 @@ public static class SynthJob
             };
             if (o.Flow != TissueFlow.Uniform) truth["flow"] = FlowJson(movie);
             File.WriteAllText(Path.Combine(dir, "truth.json"), truth.ToJsonString(Summary.Indented));
-            var opts = JsonSerializer.SerializeToNode(o, OptionsJson)!;
+            var opts = OptionsJson.Node(o);
             File.WriteAllText(Path.Combine(dir, "run.json"), Provenance.Describe("synth monolayer", [], opts, commandLine).ToJsonString(Summary.Indented));
         });
         return movie;
@@ -275,7 +273,7 @@ public static class SynthJob
         double s = o.PixelSizeUm, sv = s / o.FrameIntervalMin;
         var c = f.Correlation;
         var rPx = new JsonArray(); var rUm = new JsonArray(); var cv = new JsonArray(); var pairs = new JsonArray();
-        for (int b = 0; b < c.R.Length; b++) { rPx.Add(c.R[b]); rUm.Add(c.R[b] * s); cv.Add(Num(c.C[b])); pairs.Add(c.Pairs[b]); }
+        for (int b = 0; b < c.R.Length; b++) { rPx.Add((JsonNode)c.R[b]); rUm.Add((JsonNode)(c.R[b] * s)); cv.Add((JsonNode?)Num(c.C[b])); pairs.Add((JsonNode)c.Pairs[b]); }
         return new JsonObject
         {
             ["kind"] = o.Flow.ToString().ToLowerInvariant(),
@@ -312,8 +310,8 @@ public static class SynthJob
             var p = t.Plus[k];
             var path = new JsonArray();
             for (int f = 0; f < p.X.Length; f++)
-                path.Add(new JsonObject { ["frame"] = f, ["x_px"] = p.X[f], ["y_px"] = p.Y[f], ["head_x"] = p.HeadX[f], ["head_y"] = p.HeadY[f] });
-            list.Add(new JsonObject
+                path.Add((JsonNode)new JsonObject { ["frame"] = f, ["x_px"] = p.X[f], ["y_px"] = p.Y[f], ["head_x"] = p.HeadX[f], ["head_y"] = p.HeadY[f] });
+            list.Add((JsonNode)new JsonObject
             {
                 ["index"] = k, ["region_level"] = p.Level, ["anisotropy_factor"] = p.AnisotropyFactor,
                 ["headward_speed_px_per_frame"] = p.HeadwardSpeedPx, ["headward_speed_um_per_min"] = p.HeadwardSpeedPx * sv,
@@ -332,7 +330,7 @@ public static class SynthJob
         JsonArray Arr(double[] v, double f = 1) => new(v.Select(x => (JsonNode?)JsonValue.Create(Math.Round(x * f, 6))).ToArray());
         var cells = new JsonArray();
         for (int i = 0; i < o.Cells; i++)
-            cells.Add(new JsonObject
+            cells.Add((JsonNode)new JsonObject
             {
                 ["cell"] = i,
                 ["x_px"] = Arr(t.CentreX[i]), ["y_px"] = Arr(t.CentreY[i]),
