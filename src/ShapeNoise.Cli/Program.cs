@@ -5,7 +5,10 @@ using Spectre.Console;
 using Spectre.Console.Cli;
 
 Interrupts.Install();
+ShapeNoise.Imaging.NativeCode.UseApplicationFolder();   // the published native command carries the image library beside it
+#pragma warning disable IL3050   // the parser reads the settings types by reflection: kept whole in the native publish (TrimMode partial), checked by scripts/check-native.sh
 var app = new CommandApp();
+#pragma warning restore IL3050
 app.Configure(c =>
 {
     c.SetApplicationName("shapenoise");
