@@ -48,6 +48,15 @@ Calibrate();
 double calibration = Enumerable.Range(0, 5).Min(_ => Calibrate());
 rows.Add(("calibration", calibration, "Array.Sort of 2^21 seeded random doubles, best of 5"));
 
+// End to end through the command (process start to report written), with peak memory; 1x and 2x frames, and the
+// 2048 x 2048 px movie with --scale. Outside the CI guard the command measured is the published one (scripts/publish.sh:
+// the native executable, compiled ahead of time). Run before the in-process phases: after them this process's leftover
+// work slowed the command by 20-25 % (bench/README.md, "Eighth pass").
+string command = phasesOnly ? "" : guard ? BuiltCommand(root) : Published(root);
+var (e2e, peak) = phasesOnly ? (double.NaN, 0L) : EndToEnd(movieShort, command);
+var (e2eLong, peakLong) = guard || phasesOnly ? (double.NaN, 0L) : EndToEnd(movieLong, command);
+var (e2eBig, peakBig) = scale && !quick && !phasesOnly ? EndToEnd(Ensure(Path.Combine(data, "monolayer-2048-200"), 2048, 10000, 200), command) : (double.NaN, 0L);
+
 // 2. In-process analysis, phase by phase: one warm-up run (JIT), then the measured run.
 using (var warm = LabelMovies.Open(movieShort)) MovieAnalyzer.Run(warm, new AnalysisOptions(), null, null, new PhaseTimes());
 var times = new PhaseTimes();
@@ -86,11 +95,6 @@ int outlines = result.Counts.Outlines;
 int naiveFrames = quick ? 3 : 1;
 var (naive, ours) = NaiveVsOurs(movieShort, naiveFrames);
 
-// 4. End to end through the command (process start to report written), with peak memory; 1x and 2x frames. Outside the
-// CI guard the command measured is the published one (scripts/publish.sh: the native executable, compiled ahead of time).
-string command = guard ? BuiltCommand(root) : Published(root);
-var (e2e, peak) = EndToEnd(movieShort, command);
-var (e2eLong, peakLong) = guard ? (double.NaN, 0L) : EndToEnd(movieLong, command);
 
 double defectsPerFrame = times.Phases.First(p => p.Phase == "defects").Seconds / frames;
 double outlinesPerFrame = times.Phases.First(p => p.Phase == "outlines").Seconds / frames;
@@ -116,8 +120,6 @@ var ratios = new JsonObject
 if (scale && !quick)
 {
     // 4 x the cells and 2 x the frames: linear work predicts 8 x the 1024 x 1024, 100-frame time.
-    string big = Ensure(Path.Combine(data, "monolayer-2048-200"), 2048, 10000, 200);
-    var (e2eBig, peakBig) = EndToEnd(big, command);
     ratios["scale_2048_200_s"] = e2eBig;
     ratios["scale_2048_200_over_8x"] = e2eBig / (8 * e2e);
     ratios["scale_2048_200_peak_mb"] = peakBig / 1048576.0;
@@ -245,6 +247,7 @@ static string Published(string root)
 static (double Seconds, long PeakBytes) EndToEnd(string movie, string command)
 {
     string outDir = Path.Combine(Path.GetTempPath(), $"shapenoise-bench-e2e-{Environment.ProcessId}");
+    Thread.Sleep(2000);   // the publish's or the previous run's writes settle first
     bool dll = command.EndsWith(".dll", StringComparison.Ordinal);
     var psi = new ProcessStartInfo(dll ? "dotnet" : command) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
     if (dll) psi.ArgumentList.Add(command);
