@@ -44,4 +44,27 @@ public class GappedOuExpectationTests
         for (int k = 0; k < K; k++) { Assert.Equal(d[k], g[k], 1e-9); Assert.Equal(dn[k], gn[k], 1e-12); }
         Assert.NotEqual(0, g[1]);
     }
+
+    [Theory]
+    [InlineData(3)]
+    [InlineData(13)]
+    [InlineData(34)]
+    public void GapLags_LongGappedTracksAnyLagCount_MatchTheDirectSumOverPairs(int K)
+    {
+        // Lag counts below, at and past the vector width, with remainders (the sums are formed several lags at once): the
+        // same definition summed pair by pair for two 80-frame tracks with one-frame and two-frame gaps.
+        const double rho = 0.93;
+        int[] f1 = [.. Enumerable.Range(0, 80).Where(t => t % 17 != 5)], f2 = [.. Enumerable.Range(10, 80).Where(t => t != 33 && t != 34 && t != 61)];
+        var d = new double[K]; var dn = new double[K];
+        foreach (var (f, w) in new[] { (f1, 1), (f2, 3) })
+        {
+            var s = new double[K]; var e = new double[K];
+            OrnsteinUhlenbeckFit.ExpectedSums(f, rho, s, e);
+            for (int k = 0; k < K; k++) { d[k] += w * s[k]; dn[k] += w * e[k]; }
+        }
+        var g = new double[K]; var gn = new double[K];
+        GapLags.Sum([(f1, 1), (f2, 3)], K).AddTo(rho, g, gn);
+        // Tolerance: both are sums of about 80^2 terms of size <= 1 in another order; 1e-9 relative to the lag-0 sum.
+        for (int k = 0; k < K; k++) { Assert.Equal(d[k], g[k], 1e-9 * Math.Abs(d[0])); Assert.Equal(dn[k], gn[k], 1e-9 * Math.Abs(dn[0])); }
+    }
 }
