@@ -30,17 +30,8 @@ public class GappedOuExpectationTests
     {
         // The definition summed pair by pair (O(n^2) powers) against the polynomial, for a track with gaps at 3 and 7-8,
         // counted twice (a bootstrap multiplicity of 2) plus another gapped track once.
-        const int K = 6; const double rho = 0.7;
-        int[] f1 = [0, 1, 2, 4, 5, 6, 9, 10, 11, 12], f2 = [3, 4, 6, 7, 8];
-        var d = new double[K]; var dn = new double[K];
-        foreach (var (f, w) in new[] { (f1, 2), (f2, 1) })
-        {
-            var s = new double[K]; var e = new double[K];
-            OrnsteinUhlenbeckFit.ExpectedSums(f, rho, s, e);
-            for (int k = 0; k < K; k++) { d[k] += w * s[k]; dn[k] += w * e[k]; }
-        }
-        var g = new double[K]; var gn = new double[K];
-        GapLags.Sum([(f1, 2), (f2, 1)], K).AddTo(rho, g, gn);
+        const int K = 6;
+        var (d, dn, g, gn) = DirectAndPolynomial([([0, 1, 2, 4, 5, 6, 9, 10, 11, 12], 2), ([3, 4, 6, 7, 8], 1)], K, 0.7);
         for (int k = 0; k < K; k++) { Assert.Equal(d[k], g[k], 1e-9); Assert.Equal(dn[k], gn[k], 1e-12); }
         Assert.NotEqual(0, g[1]);
     }
@@ -51,20 +42,27 @@ public class GappedOuExpectationTests
     [InlineData(34)]
     public void GapLags_LongGappedTracksAnyLagCount_MatchTheDirectSumOverPairs(int K)
     {
-        // Lag counts below, at and past the vector width, with remainders (the sums are formed several lags at once): the
-        // same definition summed pair by pair for two 80-frame tracks with one-frame and two-frame gaps.
-        const double rho = 0.93;
+        // Few lags to more than the 31 a default run fits: the same definition summed pair by pair for two 80-frame tracks
+        // with one-frame and two-frame gaps, one of them counted three times.
         int[] f1 = [.. Enumerable.Range(0, 80).Where(t => t % 17 != 5)], f2 = [.. Enumerable.Range(10, 80).Where(t => t != 33 && t != 34 && t != 61)];
+        var (d, dn, g, gn) = DirectAndPolynomial([(f1, 1), (f2, 3)], K, 0.93);
+        // Tolerance: both are sums of about 80^2 terms of size <= 1 in another order; 1e-9 relative to the lag-0 sum.
+        for (int k = 0; k < K; k++) { Assert.Equal(d[k], g[k], 1e-9 * Math.Abs(d[0])); Assert.Equal(dn[k], gn[k], 1e-9 * Math.Abs(dn[0])); }
+    }
+
+    /// <summary>The weighted expected sums of <paramref name="tracks"/> pair by pair (<see cref="OrnsteinUhlenbeckFit.ExpectedSums"/>)
+    /// and by the polynomial of <see cref="GapLags"/>: signal and noise parts of each.</summary>
+    private static (double[] Direct, double[] DirectNoise, double[] Poly, double[] PolyNoise) DirectAndPolynomial((int[] Frames, int W)[] tracks, int K, double rho)
+    {
         var d = new double[K]; var dn = new double[K];
-        foreach (var (f, w) in new[] { (f1, 1), (f2, 3) })
+        foreach (var (f, w) in tracks)
         {
             var s = new double[K]; var e = new double[K];
             OrnsteinUhlenbeckFit.ExpectedSums(f, rho, s, e);
             for (int k = 0; k < K; k++) { d[k] += w * s[k]; dn[k] += w * e[k]; }
         }
         var g = new double[K]; var gn = new double[K];
-        GapLags.Sum([(f1, 1), (f2, 3)], K).AddTo(rho, g, gn);
-        // Tolerance: both are sums of about 80^2 terms of size <= 1 in another order; 1e-9 relative to the lag-0 sum.
-        for (int k = 0; k < K; k++) { Assert.Equal(d[k], g[k], 1e-9 * Math.Abs(d[0])); Assert.Equal(dn[k], gn[k], 1e-9 * Math.Abs(dn[0])); }
+        GapLags.Sum([.. tracks], K).AddTo(rho, g, gn);
+        return (d, dn, g, gn);
     }
 }
