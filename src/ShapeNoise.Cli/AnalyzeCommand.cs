@@ -66,7 +66,7 @@ internal sealed class AnalyzeCommand : Command<AnalyzeCommand.Settings>
     public override int Execute(CommandContext context, Settings s, CancellationToken cancellationToken)
     {
         // Segmentation options act only on a raw movie: given with a label movie they would be silently ignored.
-        if (!s.Raw && (s.ModelFit || s.MarginalSweeps != 0 || s.Deconvolve != 0 || s.NoCrest || s.Seeds != "hminima"))
+        if (!s.Raw && (s.ModelFit || s.MarginalSweeps != 0 || s.Deconvolve != 0 || s.NoCrest || SeedMethodOption.Parse(s.Seeds) != ShapeNoise.Imaging.Segmentation.SeedMethod.HMinima))
             throw new ArgumentException("--model-fit, --marginal-sweeps, --deconvolve, --seeds and --no-crest segment a raw movie: give --raw too");
         var options = new AnalysisOptions
         {

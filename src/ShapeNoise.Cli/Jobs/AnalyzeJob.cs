@@ -1,4 +1,3 @@
-using System.Text.Json;
 using System.Text.Json.Nodes;
 using ShapeNoise.Reading;
 using ShapeNoise.Reporting;
@@ -10,7 +9,6 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>The whole <c>analyze</c> job: open the movie, analyse it, write the output folder with provenance.</summary>
 public static class AnalyzeJob
 {
-
     /// <param name="input">Movie path (file or folder).</param>
     /// <param name="outDir">Output folder; written atomically.</param>
     /// <param name="options">Analysis options.</param>

@@ -1,6 +1,5 @@
 using ShapeNoise.Imaging.Segmentation;
 using ShapeNoise.Imaging.Writing;
-using System.Text.Json;
 using System.Text.Json.Nodes;
 using OpenCvSharp;
 using ShapeNoise.Imaging.Reading;
@@ -13,8 +12,6 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>The <c>segment</c> and <c>score</c> jobs.</summary>
 public static class SegmentJob
 {
-    /// <summary>run.json's options: enums by name ("Laplacian", not 2), as analyze and synth write them.</summary>
-
     /// <summary>Segments every frame of a raw movie into labels.tif (uint16, OME-XML with the movie's scale) plus a QC
     /// overlay every <paramref name="qcEvery"/> frames, written atomically.</summary>
     public static (int Frames, double MeanCells) Run(string input, OutputTarget outDir, SegmentOptions options, double? pixelSizeUm, double? frameIntervalMin,

@@ -1,6 +1,5 @@
 using ShapeNoise.Imaging.Segmentation;
 using ShapeNoise.Imaging.Writing;
-using System.Text.Json;
 using System.Text.Json.Nodes;
 using ShapeNoise.Reporting;
 using ShapeNoise.Synthesis;
@@ -10,7 +9,6 @@ namespace ShapeNoise.Cli.Jobs;
 /// <summary>Writes a synthetic scenario as an OME-TIFF label movie with its truth.json and run.json.</summary>
 public static class SynthJob
 {
-
     /// <summary>Fluctuating ellipses: labels.tif (uint16, Deflate, OME-XML with pixel size and frame interval) and truth.json.</summary>
     public static EllipseMovie Ellipses(EllipseMovieOptions o, OutputTarget outDir, IEnumerable<string>? commandLine = null, RawRenderOptions? raw = null, JsonObject? fromSimParams = null)
     {
